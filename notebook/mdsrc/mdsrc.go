@@ -1,0 +1,221 @@
+// Package mdsrc reads a Markdown notebook file into a form that can be
+// rewritten byte-exactly.
+//
+// A [Source] keeps the file exactly as read ([Source.Raw]) and records where a
+// UTF-8 byte-order mark and a YAML front-matter block sit in it. Before the
+// body is handed to goldmark (with the GitHub-flavoured extensions), the BOM
+// and the whole front matter, including its `---` delimiter lines, are masked
+// with spaces; line feeds and carriage returns are kept. The masked text has
+// the same length as Raw, so every offset goldmark reports (node positions,
+// line segments) is an offset into Raw as well. That is what lets other
+// packages replace a few bytes of a file and leave every other byte alone.
+//
+// # Front matter
+//
+// Front matter is recognised only when the first line of the file (after an
+// optional BOM) is `---`, optionally followed by spaces or tabs, and ended by
+// LF or CRLF. It is closed by the first later line that is `---` or `...`
+// (trailing spaces or tabs allowed). Anything else, such as a fence inside a
+// YAML block string, is part of the YAML text and never reaches goldmark. The
+// YAML itself is not decoded here; [Source.FrontMatter] says where it is.
+//
+// An opening `---` that is never closed yields a [*PosError] together with a
+// usable Source in which the whole file is treated as Markdown body (goldmark
+// then sees a thematic break, as most Markdown viewers show it).
+//
+// # Known limitation
+//
+// A BOM in a file without front matter is masked as three spaces at the start
+// of line 1. goldmark therefore sees line 1 indented by three more columns
+// than a BOM-aware viewer would. A heading, paragraph, table or fence on line 1
+// is unaffected (up to three spaces of indentation are allowed); a first line
+// that already starts with a space becomes an indented code block, and the
+// content lines of a fence that opens on line 1 lose up to three spaces of
+// indentation to the fence's own indent.
+//
+// What the package leaves out: decoding YAML, and any knowledge of calc
+// blocks or entries (see the calcblock and notebook packages).
+package mdsrc
+
+import (
+	"bytes"
+	"fmt"
+	"sort"
+	"sync"
+	"unicode/utf8"
+
+	"github.com/yuin/goldmark"
+	"github.com/yuin/goldmark/ast"
+	"github.com/yuin/goldmark/extension"
+	"github.com/yuin/goldmark/parser"
+	"github.com/yuin/goldmark/text"
+)
+
+// Span is a half-open range [Start, End) of byte offsets into [Source.Raw].
+type Span struct{ Start, End int }
+
+// Len returns the number of bytes in the span.
+func (s Span) Len() int { return s.End - s.Start }
+
+// Source is one Markdown file, parsed, with its raw bytes kept unchanged.
+type Source struct {
+	Raw             []byte   // the file as read, never modified
+	BOM             int      // 3 if Raw starts with a UTF-8 BOM, else 0
+	HasFrontMatter  bool     // true if a closed front-matter block was found
+	FrontMatter     Span     // the YAML text between the delimiter lines (without them)
+	FrontMatterLine int      // 1-based line number of the first YAML line (0 without front matter)
+	Body            int      // offset where the Markdown body starts (after the closing delimiter line)
+	Doc             ast.Node // goldmark (GFM) parse of Masked(); all offsets are offsets into Raw
+
+	masked     []byte
+	lineStarts []int // offset of the first byte of each line; lineStarts[0] == 0
+}
+
+// PosError reports a problem at a position in the file.
+// Line is 1-based; Col is 1-based and counted in characters (runes).
+type PosError struct {
+	Line, Col int
+	Msg       string
+}
+
+func (e *PosError) Error() string {
+	return fmt.Sprintf("line %d, column %d: %s", e.Line, e.Col, e.Msg)
+}
+
+var bom = []byte{0xEF, 0xBB, 0xBF}
+
+var (
+	mdOnce sync.Once
+	md     goldmark.Markdown
+)
+
+func markdownParser() parser.Parser {
+	mdOnce.Do(func() {
+		md = goldmark.New(goldmark.WithExtensions(extension.GFM))
+	})
+	return md.Parser()
+}
+
+// Parse splits raw into BOM, front matter and body and parses the body with
+// goldmark. raw is kept as Source.Raw and never modified; callers must not
+// modify it either while the Source is in use.
+//
+// The only error is a *PosError for front matter that is opened but never
+// closed; the returned Source is then still complete, with the front matter
+// treated as Markdown body.
+func Parse(raw []byte) (*Source, error) {
+	s := &Source{Raw: raw}
+	if bytes.HasPrefix(raw, bom) {
+		s.BOM = len(bom)
+	}
+	s.lineStarts = append(s.lineStarts, 0)
+	for i, b := range raw {
+		if b == '\n' {
+			s.lineStarts = append(s.lineStarts, i+1)
+		}
+	}
+
+	var perr error
+	s.Body = s.BOM
+	if end, ok := delimiterLine(raw, s.BOM, "---"); ok {
+		closed := false
+		// Scan the following lines for the closing delimiter.
+		for li := 1; li < len(s.lineStarts); li++ {
+			start := s.lineStarts[li]
+			if start < end {
+				continue
+			}
+			e, ok := delimiterLine(raw, start, "---")
+			if !ok {
+				e, ok = delimiterLine(raw, start, "...")
+			}
+			if ok {
+				s.HasFrontMatter = true
+				s.FrontMatter = Span{end, start}
+				s.FrontMatterLine = 2
+				s.Body = e
+				closed = true
+				break
+			}
+		}
+		if !closed {
+			perr = &PosError{Line: 1, Col: 1,
+				Msg: "front matter opened with --- is never closed (expected a line --- or ... after the YAML); treating the file as Markdown"}
+		}
+	}
+
+	s.masked = make([]byte, len(raw))
+	copy(s.masked, raw)
+	maskEnd := s.BOM
+	if s.HasFrontMatter {
+		maskEnd = s.Body
+	}
+	for i := 0; i < maskEnd; i++ {
+		if c := s.masked[i]; c != '\n' && c != '\r' {
+			s.masked[i] = ' '
+		}
+	}
+	s.Doc = markdownParser().Parse(text.NewReader(s.masked))
+	return s, perr
+}
+
+// delimiterLine reports whether the line starting at off consists of delim
+// followed only by spaces or tabs, and returns the offset just after the
+// line's end of line (or len(raw) at end of file). The opening delimiter
+// must be followed by an end of line; that is checked by the caller through
+// the scan for a closing line.
+func delimiterLine(raw []byte, off int, delim string) (int, bool) {
+	if off > len(raw) || !bytes.HasPrefix(raw[off:], []byte(delim)) {
+		return 0, false
+	}
+	i := off + len(delim)
+	for i < len(raw) && (raw[i] == ' ' || raw[i] == '\t') {
+		i++
+	}
+	switch {
+	case i == len(raw):
+		return i, true
+	case raw[i] == '\n':
+		return i + 1, true
+	case raw[i] == '\r' && i+1 < len(raw) && raw[i+1] == '\n':
+		return i + 2, true
+	case raw[i] == '\r' && i+1 == len(raw):
+		return i + 1, true
+	}
+	return 0, false
+}
+
+// Masked returns the text goldmark parsed: Raw with the BOM and the front
+// matter replaced by spaces (line feeds and carriage returns kept). It has
+// the same length as Raw. Use it with goldmark's Segment.Value; for
+// byte-exact work slice Raw instead. The returned slice must not be modified.
+func (s *Source) Masked() []byte { return s.masked }
+
+// Pos converts a byte offset into Raw to a 1-based line and a 1-based column
+// counted in characters (runes) from the start of the line; a BOM is not
+// counted. Offsets outside [0, len(Raw)] are clamped to that range. An offset
+// in the middle of a multibyte character counts each byte before it on the
+// line that does not complete a character as one column.
+func (s *Source) Pos(off int) (line, col int) {
+	if off < 0 {
+		off = 0
+	}
+	if off > len(s.Raw) {
+		off = len(s.Raw)
+	}
+	li := sort.Search(len(s.lineStarts), func(i int) bool { return s.lineStarts[i] > off }) - 1
+	start := s.lineStarts[li]
+	if li == 0 && s.BOM > 0 {
+		start = min(s.BOM, off)
+	}
+	return li + 1, utf8.RuneCount(s.Raw[start:off]) + 1
+}
+
+// LineStart returns the offset of the first byte of the 1-based line n, or -1
+// if the file has fewer lines. Line 1 starts at 0 even when the file has a BOM.
+func (s *Source) LineStart(n int) int {
+	if n < 1 || n > len(s.lineStarts) {
+		return -1
+	}
+	return s.lineStarts[n-1]
+}
