@@ -1,0 +1,265 @@
+// Package materials holds the band-edge parameters of the semiconductors that cleave's
+// users grow 2D electron and hole gases in, each value with its source.
+//
+// Values are low-temperature band-edge (Γ-valley) parameters unless a source says
+// otherwise; permittivities are static. Every field of a [Material] names its source in
+// Material.Sources; a value marked "(from memory, unverified)" still needs checking against
+// the original. Graphene's mass depends on density (m_c = ħ√(πn)/v_F), so its Mstar is 0 and
+// callers use VF.
+//
+// The package does not compute band gaps, offsets or temperature dependences; the band
+// solver keeps those with its own citations.
+package materials
+
+import (
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+)
+
+// Material is one entry: the parameters a Landau-level or transport formula needs.
+type Material struct {
+	Name    string            // canonical, e.g. "GaAs", "Al0.33Ga0.67As", "In0.53Ga0.47As", "Si(100)", "Ge(holes)", "graphene"
+	X       float64           // alloy fraction of the first-named group-III element (Al or In); NaN if not an alloy
+	Mstar   float64           // band-edge effective mass / m_e (electrons, or holes where Carrier=="hole"); 0 for graphene
+	EpsR    float64           // static relative permittivity; NaN where it depends on the surroundings (graphene)
+	G       float64           // effective g-factor (signed); NaN where no single value applies
+	Gs, Gv  int               // spin and valley degeneracy
+	VF      float64           // Fermi velocity in m/s (graphene only)
+	Carrier string            // "electron" or "hole"
+	Sources map[string]string // field name -> source
+}
+
+// Source strings, worded as in the project's reference notes (REFERENCE.md §2 and §4).
+const (
+	srcVurgaftman  = "Vurgaftman, Meyer, Ram-Mohan, J. Appl. Phys. 89, 5815-5875 (2001)"
+	srcIoffe       = "Ioffe/Levinshtein, Handbook Series on Semiconductor Parameters, World Scientific 1996"
+	srcGaAsG       = "g* = -0.44; band-edge -0.445: Yugova et al., Phys. Rev. B 75, 245302 (2007)"
+	srcAFS         = "Ando, Fowler, Stern, Rev. Mod. Phys. 54, 437 (1982)"
+	srcLodari      = "Lodari et al., arXiv:1905.08064, Phys. Rev. B 100, 041304(R) (2019) (journal reference from memory, unverified)"
+	srcNovoselov   = "Novoselov et al., Nature 438, 197 (2005)"
+	srcGusynin     = "Gusynin & Sharapov, Phys. Rev. Lett. 95, 146801 (2005); Novoselov et al., Nature 438, 201 (2005)"
+	srcSpin        = "spin-1/2 carriers, no Zeeman splitting resolved (textbook)"
+	srcGammaValley = "single Γ valley (textbook)"
+)
+
+// AlGaAs composition-dependent parameters.
+const (
+	algaasM0   = 0.067 // GaAs Γ mass / m_e
+	algaasMx   = 0.083 // (AlAs Γ 0.15) - (GaAs 0.067)
+	algaasEps0 = 12.90
+	algaasEpsX = -2.84
+)
+
+// AlGaAs returns Al(x)Ga(1-x)As at alloy fraction x (0 <= x <= 1):
+// m*/m_e = 0.067 + 0.083x (linear between the Γ-valley end points of Vurgaftman et al.),
+// ε_r = 12.90 - 2.84x (Ioffe handbook). Above x ≈ 0.4-0.45 the gap is indirect and the
+// Γ mass no longer describes the lowest conduction band. g* is not tabulated (NaN): it
+// changes sign with x.
+func AlGaAs(x float64) (Material, error) {
+	if !(x >= 0 && x <= 1) {
+		return Material{}, fmt.Errorf("materials: Al fraction %g outside [0, 1]", x)
+	}
+	name := alloyName("Al", "Ga", "As", x)
+	return Material{
+		Name:    name,
+		X:       x,
+		Mstar:   algaasM0 + algaasMx*x,
+		EpsR:    algaasEps0 + algaasEpsX*x,
+		G:       math.NaN(),
+		Gs:      2,
+		Gv:      1,
+		Carrier: "electron",
+		Sources: map[string]string{
+			"Mstar": "0.067 + 0.083x, linear between the GaAs (0.067) and AlAs Γ (0.15) masses of " + srcVurgaftman +
+				"; Γ valley, indirect gap above x ≈ 0.4-0.45 (from memory, unverified)",
+			"EpsR": "12.90 - 2.84x, " + srcIoffe,
+			"G":    "not tabulated: g* of AlGaAs depends strongly on x",
+			"Gs":   srcSpin,
+			"Gv":   srcGammaValley,
+			"X":    "alloy fraction as written",
+		},
+	}, nil
+}
+
+// alloyName writes A<x>B<1-x>C with the second fraction to the precision of the first.
+func alloyName(a, b, anion string, x float64) string {
+	xs := strconv.FormatFloat(x, 'f', -1, 64)
+	dec := 0
+	if i := strings.IndexByte(xs, '.'); i >= 0 {
+		dec = len(xs) - i - 1
+	}
+	return a + xs + b + strconv.FormatFloat(1-x, 'f', dec, 64) + anion
+}
+
+func gaas() Material {
+	return Material{
+		Name: "GaAs", X: math.NaN(), Mstar: 0.067, EpsR: 12.9, G: -0.44, Gs: 2, Gv: 1, Carrier: "electron",
+		Sources: map[string]string{
+			"Mstar": srcVurgaftman + " (Adachi: 0.067)",
+			"EpsR":  srcIoffe,
+			"G":     srcGaAsG,
+			"Gs":    srcSpin,
+			"Gv":    srcGammaValley,
+		},
+	}
+}
+
+func alas() Material {
+	m, _ := AlGaAs(1)
+	m.Name = "AlAs"
+	m.X = math.NaN()
+	m.Sources["Mstar"] = "Γ valley 0.15, " + srcVurgaftman + " (Adachi: 0.124); the lowest conduction band is X (indirect gap)"
+	m.Sources["EpsR"] = "12.90 - 2.84x at x = 1 from " + srcIoffe + "; public tables disagree (10.06, 10.1, 10.9)"
+	return m
+}
+
+func inas() Material {
+	return Material{
+		Name: "InAs", X: math.NaN(), Mstar: 0.026, EpsR: 15.15, G: -15, Gs: 2, Gv: 1, Carrier: "electron",
+		Sources: map[string]string{
+			"Mstar": srcVurgaftman + " (from memory, unverified); Adachi 0.024, Ioffe 0.023",
+			"EpsR":  srcIoffe,
+			"G":     "about -15 (from memory, unverified)",
+			"Gs":    srcSpin,
+			"Gv":    srcGammaValley,
+		},
+	}
+}
+
+// In0.53Ga0.47As lattice-matched to InP. Mass from Vurgaftman's bowing:
+// 0.53*0.026 + 0.47*0.067 - 0.53*0.47*0.0091 = 0.0430.
+func ingaas() Material {
+	const x = 0.53
+	return Material{
+		Name: "In0.53Ga0.47As", X: x, Mstar: x*0.026 + (1-x)*0.067 - x*(1-x)*0.0091, EpsR: 13.9, G: -4.07,
+		Gs: 2, Gv: 1, Carrier: "electron",
+		Sources: map[string]string{
+			"Mstar": "0.0430 from the bowing parameter 0.0091 of " + srcVurgaftman + " with InAs 0.026; commonly quoted 0.041-0.043",
+			"EpsR":  "about 13.9 (from memory, unverified)",
+			"G":     "-4.07 (REFERENCE.md §2.14 [S])",
+			"Gs":    srcSpin,
+			"Gv":    srcGammaValley,
+			"X":     "lattice-matched to InP",
+		},
+	}
+}
+
+func insb() Material {
+	return Material{
+		Name: "InSb", X: math.NaN(), Mstar: 0.0135, EpsR: 16.8, G: -51, Gs: 2, Gv: 1, Carrier: "electron",
+		Sources: map[string]string{
+			"Mstar": srcVurgaftman + " (from memory, unverified); Adachi 0.013; strongly nonparabolic, m* rises with n",
+			"EpsR":  "16.8 (from memory, unverified)",
+			"G":     "about -51 (from memory, unverified)",
+			"Gs":    srcSpin,
+			"Gv":    srcGammaValley,
+		},
+	}
+}
+
+func si100() Material {
+	return Material{
+		Name: "Si(100)", X: math.NaN(), Mstar: 0.19, EpsR: 11.7, G: 2, Gs: 2, Gv: 2, Carrier: "electron",
+		Sources: map[string]string{
+			"Mstar": "in-plane transverse mass 0.19 (0.916 along z), " + srcAFS + " (masses from memory, unverified)",
+			"EpsR":  "Si 11.7 (from memory, unverified)",
+			"G":     "about 2 (REFERENCE.md §2.14)",
+			"Gs":    srcSpin,
+			"Gv":    "two valleys for the (100) surface, " + srcAFS + " (from memory, unverified); valley splitting small and sample-dependent",
+		},
+	}
+}
+
+func geHoles() Material {
+	return Material{
+		Name: "Ge(holes)", X: math.NaN(), Mstar: 0.061, EpsR: 16.2, G: math.NaN(), Gs: 2, Gv: 1, Carrier: "hole",
+		Sources: map[string]string{
+			"Mstar": "0.061 at p = 2.2e11 cm^-2 (about 0.05 extrapolated to p -> 0; rises with p), strained Ge QW in SiGe, " + srcLodari,
+			"EpsR":  "Ge 16.2 (from memory, unverified)",
+			"G":     "not tabulated: heavy-hole-like with a strongly anisotropic g",
+			"Gs":    "two heavy-hole spin states (textbook)",
+			"Gv":    "single valley (textbook)",
+		},
+	}
+}
+
+func graphene() Material {
+	return Material{
+		Name: "graphene", X: math.NaN(), Mstar: 0, EpsR: math.NaN(), G: 2, Gs: 2, Gv: 2, VF: 1e6, Carrier: "electron",
+		Sources: map[string]string{
+			"Mstar":   "linear dispersion: cyclotron mass m_c = ħ√(πn)/v_F depends on n",
+			"EpsR":    "depends on the substrate and encapsulation",
+			"G":       "about 2 (REFERENCE.md §2.14)",
+			"Gs":      srcGusynin,
+			"Gv":      srcGusynin,
+			"VF":      "about 1e6 m/s, " + srcNovoselov,
+			"Carrier": "ambipolar; electron side by default",
+		},
+	}
+}
+
+// fixed maps every accepted fixed name to its constructor.
+var fixed = map[string]func() Material{
+	"GaAs":      gaas,
+	"AlAs":      alas,
+	"InAs":      inas,
+	"InSb":      insb,
+	"Si":        si100,
+	"Si(100)":   si100,
+	"Ge":        geHoles,
+	"Ge(holes)": geHoles,
+	"graphene":  graphene,
+}
+
+// Names lists the canonical names Lookup knows. Al<x>Ga<1-x>As stands for any written
+// composition such as Al0.33Ga0.67As; "Si" and "Ge" are accepted as short forms of
+// "Si(100)" and "Ge(holes)".
+func Names() []string {
+	out := []string{"Al<x>Ga<1-x>As", "AlAs", "GaAs", "Ge(holes)", "In0.53Ga0.47As", "InAs", "InSb", "Si(100)", "graphene"}
+	sort.Strings(out)
+	return out
+}
+
+// Lookup returns the material with the given name. Element symbols are case-sensitive.
+// Alloys need their composition written out: "Al0.33Ga0.67As" or "Al(0.33)Ga(0.67)As";
+// "AlGaAs" and "AlxGa1-xAs" are errors. Of InGaAs only the composition lattice-matched to
+// InP, In0.53Ga0.47As, is tabulated. Each call returns a fresh Sources map.
+func Lookup(name string) (Material, error) {
+	name = strings.TrimSpace(name)
+	if f, ok := fixed[name]; ok {
+		return f(), nil
+	}
+	elements, x, err := ParseAlloy(name)
+	if err != nil {
+		if h := caseHint(name); h != "" {
+			return Material{}, fmt.Errorf("%w: %q%s", ErrUnknownMaterial, name, h)
+		}
+		return Material{}, fmt.Errorf("%w: %w (known: %s)", ErrUnknownMaterial, err, strings.Join(Names(), ", "))
+	}
+	switch {
+	case elements == "AlGaAs" && !math.IsNaN(x):
+		return AlGaAs(x)
+	case elements == "InGaAs" && !math.IsNaN(x):
+		if math.Abs(x-0.53) > fractionTol {
+			return Material{}, fmt.Errorf("%w: %q: only lattice-matched In0.53Ga0.47As is tabulated", ErrUnknownMaterial, name)
+		}
+		return ingaas(), nil
+	case math.IsNaN(x) && (elements == "AlGaAs" || elements == "InGaAs"):
+		return Material{}, fmt.Errorf("%w: %q is an alloy: write its composition, e.g. Al0.33Ga0.67As", ErrUnknownMaterial, name)
+	}
+	hint := caseHint(name)
+	return Material{}, fmt.Errorf("%w: %q%s; known: %s", ErrUnknownMaterial, name, hint, strings.Join(Names(), ", "))
+}
+
+// caseHint suggests the correctly capitalised name when name differs only in case.
+func caseHint(name string) string {
+	for _, n := range append(Names(), "Si", "Ge") {
+		if strings.EqualFold(n, name) {
+			return fmt.Sprintf(" (names are case-sensitive: did you mean %q?)", n)
+		}
+	}
+	return ""
+}
