@@ -1,0 +1,75 @@
+// Package quantity gives cleave physical quantities: a value in coherent SI
+// units, its dimension ([Dim], exponents of m, kg, s, A, K, mol, cd) and its
+// standard uncertainty with exact correlations. It also parses and formats
+// units and quantities the way the trade writes them.
+//
+// It leaves out on purpose: affine units (degrees Celsius), logarithmic
+// units (dB), and any notion of which quantity a value is beyond its
+// dimension.
+//
+// # Uncertainty
+//
+// Every uncertain input made by [Uncertain] (or parsed with "±") gets a
+// unique id. A [Quantity] carries the first derivatives of its value with
+// respect to each input it depends on, and its standard uncertainty is
+// sqrt(sum_i (dq/dx_i sigma_i)^2): first-order propagation in the manner of
+// the GUM (JCGM 100:2008, section 5.1 (from memory)). Because derivatives
+// are tracked per input, x - x is exactly 0 ± 0, x*x has twice the relative
+// uncertainty of x, x/x is 1 ± 0, and (x+y) - x has the uncertainty of y.
+// [Derived] is the hook through which physics functions and fits attach
+// their partial derivatives; [Covariance] and [Correlation] read them back.
+// Second-order terms are neglected, so a result that is strongly nonlinear
+// within one sigma of its inputs is only approximate.
+//
+// # Units
+//
+// [ParseUnit] accepts products (space, "*", "·"), one quotient "/" (group
+// a compound denominator in parentheses: "cm^2/(V s)"), integer powers
+// ("cm^-2") and parenthesised rational powers ("(m^2)^(1/2)") as long as
+// the resulting exponents are integers. Symbols: the SI base and derived
+// units with special names (m g s A K mol cd Hz N Pa J W C V F Ohm S Wb T H
+// rad sr; "ohm", "Ω" are aliases of Ohm), all SI prefixes y..Y with u, µ and
+// μ for micro, and eV, G (gauss), Å / Angstrom, m_e (CODATA 2018 electron
+// mass), min, h (hour), deg / °, bar, Torr, sq (the "per square" of Ohm/sq,
+// the number 1), % and 1. A symbol is matched whole first, then as prefix +
+// unit: "mT" is millitesla, "Pa" the pascal, "A" the ampere (the ångström
+// is "Å" or "Angstrom").
+//
+// # Display units
+//
+// [Customary] picks the trade's unit for a dimension: density cm^-2, volume
+// density cm^-3, mobility cm^2/(V s), energy meV (eV from 10 eV, J from
+// 1e-9 J), length nm below 1 um, um below 10 mm, mm below 10 m, m above;
+// field T; resistance Ohm; time ps below 1 ns then ns, us, ms, s; temperature
+// K; mass m_e; voltage mV below 1 V, else V; current nA, uA, mA, A by size;
+// capacitance pF, nF, uF; capacitance per area nF/cm^2; velocity m/s;
+// wavevector m^-1; Hall slope Ohm/T; magnetic moment meV/T; meV/K; density
+// of states cm^-2 meV^-1; conductance S; area um^2, mm^2, m^2.
+//
+// Two choices need care. Frequency and angular frequency share the
+// dimension s^-1, so both are shown as "s^-1", which is right for either;
+// ask for Hz or GHz explicitly where a cyclic frequency is meant. Mobility
+// m^2/(V s) and inverse field T^-1 are the same dimension (mu B is a pure
+// number); such values are shown in cm^2/(V s), so an SdH period must be
+// asked for in T^-1.
+//
+// Dimensions without a customary unit are written in SI base units,
+// kg first ([Dim.String]: "kg m^2 s^-2").
+//
+// # Number format
+//
+// [Format] and [FormatIn] write:
+//
+//   - an exact value to 5 significant figures: "20.000 um", "0.067000 m_e";
+//     in scientific notation with a bare exponent when the rounded value is
+//     at least 1e5 or below 1e-3: "3.0000e11 cm^-2"; zero as "0";
+//   - an uncertain value with its uncertainty to 2 significant figures and
+//     the value rounded to the same decimal place, separated by " ± ":
+//     "12.50 ± 0.20 um", or with a common power of ten when the larger of
+//     the two is at least 1e5 or below 1e-3: "(3.072 ± 0.041)e11 cm^-2";
+//   - non-finite values as Inf, -Inf, NaN.
+//
+// [ParseQuantity] reads all of these back (and "+/-" for "±"), so a
+// formatted value re-parses to the same dimension and to its value within
+// the printed precision.
+package quantity

@@ -1,0 +1,419 @@
+package quantity
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+	"unicode"
+	"unicode/utf8"
+)
+
+// step chooses a display unit by size: sym is used while |SI value| < below.
+type step struct {
+	below float64
+	sym   string
+}
+
+// displayRule is the customary display for one dimension. zero is used for
+// a zero or non-finite value.
+type displayRule struct {
+	steps []step
+	zero  string
+}
+
+func fixed(sym string) displayRule { return displayRule{steps: []step{{math.Inf(1), sym}}, zero: sym} }
+
+var inf = math.Inf(1)
+
+// displayRules maps a dimension to its customary display; see the package
+// documentation for the list and its reasons.
+var displayRules = map[Dim]displayRule{
+	Dimensionless:               fixed(""),
+	Length:                      {steps: []step{{1e-6, "nm"}, {1e-2, "um"}, {10, "mm"}, {inf, "m"}}, zero: "nm"},
+	Length.Pow(2):               {steps: []step{{1e-6, "um^2"}, {1, "mm^2"}, {inf, "m^2"}}, zero: "um^2"},
+	Length.Pow(-1):              fixed("m^-1"),
+	Length.Pow(-2):              fixed("cm^-2"),
+	Length.Pow(-3):              fixed("cm^-3"),
+	Mass:                        fixed("m_e"),
+	Temperature:                 fixed("K"),
+	Time:                        {steps: []step{{1e-9, "ps"}, {1e-6, "ns"}, {1e-3, "us"}, {1, "ms"}, {inf, "s"}}, zero: "ps"},
+	dimFrequency:                fixed("s^-1"),
+	dimEnergy:                   {steps: []step{{10 * ElementaryCharge, "meV"}, {1e-9, "eV"}, {inf, "J"}}, zero: "meV"},
+	dimField:                    fixed("T"),
+	dimResistance:               fixed("Ohm"),
+	dimResistance.Pow(-1):       fixed("S"),
+	dimResistance.Mul(Length):   fixed("Ohm cm"),
+	dimResistance.Div(dimField): fixed("Ohm/T"),
+	// m^2/(V s) and T^-1 are the same dimension; mobility wins.
+	dimVoltage.Mul(Time).Pow(-1).Mul(Length.Pow(2)): fixed("cm^2/(V s)"),
+	dimVoltage:                     {steps: []step{{1, "mV"}, {inf, "V"}}, zero: "V"},
+	Current:                        {steps: []step{{1e-6, "nA"}, {1e-3, "uA"}, {1, "mA"}, {inf, "A"}}, zero: "nA"},
+	dimCapacit:                     {steps: []step{{1e-9, "pF"}, {1e-6, "nF"}, {inf, "uF"}}, zero: "pF"},
+	dimCapacit.Div(Length.Pow(2)):  fixed("nF/cm^2"),
+	dimCapacit.Div(Length):         fixed("F/m"),
+	Length.Div(Time):               fixed("m/s"),
+	dimVoltage.Div(Length):         fixed("V/m"),
+	dimEnergy.Div(dimField):        fixed("meV/T"),
+	dimEnergy.Div(Temperature):     fixed("meV/K"),
+	dimEnergy.Mul(Time):            fixed("J s"),
+	Length.Pow(-2).Div(dimEnergy):  fixed("cm^-2 meV^-1"),
+	Length.Pow(-2).Div(dimVoltage): fixed("cm^-2 V^-1"),
+	dimFlux:                        fixed("Wb"),
+	dimCharge:                      fixed("C"),
+	dimPower:                       fixed("W"),
+	dimInduct:                      fixed("H"),
+	dimPressure:                    fixed("Pa"),
+	dimForce:                       fixed("N"),
+}
+
+// parsedDisplay caches the parsed display units.
+var parsedDisplay = func() map[string]Unit {
+	// The empty symbol is the dimensionless unit 1, which ParseUnit spells "1".
+	m := map[string]Unit{"": {Symbol: "", Scale: 1}}
+	for _, r := range displayRules {
+		for _, s := range append(r.steps, step{sym: r.zero}) {
+			if _, ok := m[s.sym]; !ok {
+				m[s.sym] = MustUnit(s.sym)
+			}
+		}
+	}
+	return m
+}()
+
+// Customary returns the trade's display unit for q: its dimension decides
+// the unit and, for some dimensions, the size of the value picks the prefix.
+// A dimension without a customary unit gets its SI base-unit string
+// ([Dim.String]) with scale 1.
+func Customary(q Quantity) Unit {
+	r, ok := displayRules[q.d]
+	if !ok {
+		return Unit{Symbol: q.d.String(), Scale: 1, D: q.d}
+	}
+	a := math.Abs(q.v)
+	if a == 0 || math.IsNaN(a) || math.IsInf(a, 0) {
+		return parsedDisplay[r.zero]
+	}
+	for _, s := range r.steps {
+		if a < s.below {
+			return parsedDisplay[s.sym]
+		}
+	}
+	return parsedDisplay[r.steps[len(r.steps)-1].sym]
+}
+
+// Format writes q in its [Customary] unit; see the package documentation
+// for the number format. The result is accepted by [ParseQuantity].
+func Format(q Quantity) string {
+	s, _ := FormatIn(q, Customary(q))
+	return s
+}
+
+// FormatIn writes q in unit u. The dimensions must agree, else the error is
+// a *[DimError].
+func FormatIn(q Quantity, u Unit) (string, error) {
+	v, err := q.In(u)
+	if err != nil {
+		return "", err
+	}
+	var num string
+	if sigma := fromSI(q.Uncertainty(), u.Scale); sigma == 0 || !q.HasUncertainty() {
+		num = formatExact(v)
+	} else {
+		num = formatUncertain(v, math.Abs(sigma))
+	}
+	if u.Symbol == "" {
+		return num, nil
+	}
+	return num + " " + u.Symbol, nil
+}
+
+// formatExact writes x to 5 significant figures, in scientific notation
+// ("3.0000e11") when the rounded |x| is at least 1e5 or below 1e-3.
+func formatExact(x float64) string {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return nonFinite(x)
+	}
+	if x == 0 {
+		return "0"
+	}
+	s := strconv.FormatFloat(x, 'e', 4, 64)
+	mant, exp, _ := strings.Cut(s, "e")
+	e, _ := strconv.Atoi(exp)
+	if e >= 5 || e < -3 {
+		return mant + "e" + strconv.Itoa(e)
+	}
+	return strconv.FormatFloat(x, 'f', max(0, 4-e), 64)
+}
+
+func nonFinite(x float64) string {
+	switch {
+	case math.IsNaN(x):
+		return "NaN"
+	case x > 0:
+		return "Inf"
+	}
+	return "-Inf"
+}
+
+// formatUncertain writes v ± u with u rounded to two significant figures and
+// v rounded to the same decimal place: "12.50 ± 0.20", or with a common
+// power of ten "(3.072 ± 0.041)e11" when the larger of the two is at least
+// 1e5 or below 1e-3.
+func formatUncertain(v, u float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) || math.IsNaN(u) || math.IsInf(u, 0) {
+		return formatExact(v) + " ± " + formatExact(u)
+	}
+	us := strconv.FormatFloat(u, 'e', 1, 64) // "4.1e-02"
+	udigits := us[:1] + us[2:3]
+	eu, _ := strconv.Atoi(us[4:])
+	last := eu - 1 // decimal exponent of the last printed digit
+	if v != 0 && math.Log10(math.Abs(v))-float64(last) > 16 {
+		// The uncertainty is below float64 resolution of v.
+		return formatExact(v) + " ± " + formatExact(u)
+	}
+	var n float64
+	if last < 0 {
+		n = math.Round(math.Abs(v) * math.Pow10(-last))
+	} else {
+		n = math.Round(math.Abs(v) / math.Pow10(last))
+	}
+	vdigits := strconv.FormatFloat(n, 'f', 0, 64)
+	e := eu
+	if n != 0 {
+		e = max(e, len(vdigits)-1+last)
+	}
+	x := 0
+	if e >= 5 || e < -3 {
+		x = e
+	}
+	sign := ""
+	if v < 0 && n != 0 {
+		sign = "-"
+	}
+	vs := sign + placePoint(vdigits, last-x)
+	uss := placePoint(udigits, last-x)
+	if x == 0 {
+		return vs + " ± " + uss
+	}
+	return "(" + vs + " ± " + uss + ")e" + strconv.Itoa(x)
+}
+
+// placePoint writes the integer digits times 10^k in positional notation.
+func placePoint(digits string, k int) string {
+	if k >= 0 {
+		if digits == "0" {
+			return "0"
+		}
+		return digits + strings.Repeat("0", k)
+	}
+	d := -k
+	if len(digits) <= d {
+		digits = strings.Repeat("0", d-len(digits)+1) + digits
+	}
+	return digits[:len(digits)-d] + "." + digits[len(digits)-d:]
+}
+
+// SyntaxError reports a malformed quantity outside its unit: Offset is the
+// byte offset in the input. errors.Is(err, [ErrSyntax]) holds.
+type SyntaxError struct {
+	Input  string
+	Offset int
+	Msg    string
+}
+
+func (e *SyntaxError) Error() string {
+	return fmt.Sprintf("quantity %q, offset %d: %s", e.Input, e.Offset, e.Msg)
+}
+
+// Unwrap returns [ErrSyntax].
+func (e *SyntaxError) Unwrap() error { return ErrSyntax }
+
+// ParseQuantity parses a number with an optional standard uncertainty and
+// an optional unit, as written in front matter and as [Format] writes:
+//
+//	5                        dimensionless
+//	20 um
+//	3.1e11 cm^-2
+//	0.067 m_e
+//	12.5 ± 0.2 um            also "12.5 +/- 0.2 um"
+//	(3.072 ± 0.041)e11 cm^-2 a common power of ten
+//
+// The unit is everything after the number (and uncertainty), parsed by
+// [ParseUnit]; a space between number and unit is optional ("20um"). The
+// numbers "Inf", "-Inf" and "NaN" are accepted because [Format] may write
+// them. An uncertainty makes a new independent input ([Uncertain]).
+//
+// Errors are a *[SyntaxError] or a *[UnitError], with byte offsets into s.
+func ParseQuantity(s string) (Quantity, error) {
+	p := &qparser{s: s}
+	p.space()
+	if p.pos == len(s) {
+		return Quantity{}, p.fail(p.pos, "empty quantity (expected a number such as 20, 3.1e11 or 12.5 ± 0.2)")
+	}
+	var val, sig string
+	if p.s[p.pos] == '(' {
+		open := p.pos
+		p.pos++
+		p.space()
+		var err error
+		if val, err = p.number(); err != nil {
+			return Quantity{}, err
+		}
+		p.space()
+		if !p.plusMinus() {
+			return Quantity{}, p.fail(p.pos, "expected '±' or '+/-' after the value in parentheses")
+		}
+		p.space()
+		if sig, err = p.number(); err != nil {
+			return Quantity{}, err
+		}
+		p.space()
+		if p.pos >= len(s) || s[p.pos] != ')' {
+			return Quantity{}, p.fail(open, "unclosed '(' (expected \"(value ± uncertainty)e<exponent>\")")
+		}
+		p.pos++
+		if p.pos < len(s) && (s[p.pos] == 'e' || s[p.pos] == 'E') {
+			start := p.pos
+			p.pos++
+			if p.pos < len(s) && (s[p.pos] == '-' || s[p.pos] == '+') {
+				p.pos++
+			}
+			d := p.pos
+			for p.pos < len(s) && isDigit(s[p.pos]) {
+				p.pos++
+			}
+			if p.pos == d {
+				return Quantity{}, p.fail(start, "expected an integer exponent after ')e'")
+			}
+			exp := s[start:p.pos]
+			val += exp
+			sig += exp
+		}
+	} else {
+		var err error
+		if val, err = p.number(); err != nil {
+			return Quantity{}, err
+		}
+		save := p.pos
+		p.space()
+		if p.plusMinus() {
+			p.space()
+			if sig, err = p.number(); err != nil {
+				return Quantity{}, err
+			}
+		} else {
+			p.pos = save
+		}
+	}
+	v, err := strconv.ParseFloat(val, 64)
+	if err != nil && !isRangeErr(err) {
+		return Quantity{}, p.fail(0, "malformed number %q", val)
+	}
+	var sigma float64
+	if sig != "" {
+		sigma, err = strconv.ParseFloat(sig, 64)
+		if err != nil && !isRangeErr(err) || sigma < 0 || math.IsNaN(sigma) {
+			return Quantity{}, p.fail(0, "uncertainty %q must be a non-negative number", sig)
+		}
+	}
+	p.space()
+	u := Unit{Scale: 1}
+	if p.pos < len(s) {
+		unitStart := p.pos
+		u, err = ParseUnit(s[unitStart:])
+		if err != nil {
+			ue := err.(*UnitError)
+			return Quantity{}, &UnitError{Input: s, Offset: unitStart + ue.Offset, Msg: ue.Msg}
+		}
+	}
+	return Uncertain(toSI(v, u.Scale), toSI(sigma, u.Scale), u.D), nil
+}
+
+func isRangeErr(err error) bool {
+	ne, ok := err.(*strconv.NumError)
+	return ok && ne.Err == strconv.ErrRange
+}
+
+func isDigit(c byte) bool { return c >= '0' && c <= '9' }
+
+type qparser struct {
+	s   string
+	pos int
+}
+
+func (p *qparser) fail(off int, format string, args ...any) error {
+	return &SyntaxError{Input: p.s, Offset: off, Msg: fmt.Sprintf(format, args...)}
+}
+
+func (p *qparser) space() {
+	for p.pos < len(p.s) {
+		r, n := utf8.DecodeRuneInString(p.s[p.pos:])
+		if !unicode.IsSpace(r) {
+			return
+		}
+		p.pos += n
+	}
+}
+
+func (p *qparser) plusMinus() bool {
+	for _, pm := range []string{"±", "+/-", "+-"} {
+		if strings.HasPrefix(p.s[p.pos:], pm) {
+			p.pos += len(pm)
+			return true
+		}
+	}
+	return false
+}
+
+// number scans [sign] (digits [. digits] | . digits) [e [sign] digits], or
+// Inf / NaN, and returns it in a form strconv.ParseFloat accepts.
+func (p *qparser) number() (string, error) {
+	start := p.pos
+	sign := ""
+	if p.pos < len(p.s) && (p.s[p.pos] == '-' || p.s[p.pos] == '+') {
+		sign = p.s[p.pos : p.pos+1]
+		p.pos++
+	} else if strings.HasPrefix(p.s[p.pos:], "−") { // U+2212 MINUS SIGN
+		sign = "-"
+		p.pos += len("−")
+	}
+	for _, w := range []string{"Inf", "NaN"} {
+		if strings.HasPrefix(p.s[p.pos:], w) {
+			p.pos += len(w)
+			return sign + w, nil
+		}
+	}
+	digits := p.pos
+	for p.pos < len(p.s) && isDigit(p.s[p.pos]) {
+		p.pos++
+	}
+	n := p.pos - digits
+	if p.pos < len(p.s) && p.s[p.pos] == '.' {
+		p.pos++
+		f := p.pos
+		for p.pos < len(p.s) && isDigit(p.s[p.pos]) {
+			p.pos++
+		}
+		n += p.pos - f
+	}
+	if n == 0 {
+		p.pos = start
+		return "", p.fail(start, "expected a number")
+	}
+	mant := p.s[digits:p.pos]
+	if p.pos < len(p.s) && (p.s[p.pos] == 'e' || p.s[p.pos] == 'E') {
+		q := p.pos + 1
+		if q < len(p.s) && (p.s[q] == '-' || p.s[q] == '+') {
+			q++
+		}
+		if q < len(p.s) && isDigit(p.s[q]) {
+			for q < len(p.s) && isDigit(p.s[q]) {
+				q++
+			}
+			mant += p.s[p.pos:q]
+			p.pos = q
+		}
+	}
+	return sign + mant, nil
+}
