@@ -1,0 +1,283 @@
+package calcblock
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/binary"
+	"encoding/hex"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+)
+
+// CacheVersion is mixed into every cache key and written into every entry.
+// Change it whenever the meaning of a cached entry changes.
+const CacheVersion = "cleave-calc-cache 1"
+
+// Cache is a directory of results keyed by SHA-256 hex strings. It is safe
+// for use by several processes at once: entries are written to a temporary
+// file and renamed into place, and a damaged entry reads as a miss.
+type Cache struct {
+	dir string
+}
+
+// GitDir returns the git directory of the work tree rooted at root: root/.git
+// if that is a directory, or the directory named by a "gitdir: <path>" line
+// if root/.git is a file (linked work trees, submodules).
+func GitDir(root string) (string, error) {
+	dotgit := filepath.Join(root, ".git")
+	fi, err := os.Stat(dotgit)
+	if err != nil {
+		return "", fmt.Errorf("finding the git directory of %s: %w", root, err)
+	}
+	if fi.IsDir() {
+		return dotgit, nil
+	}
+	data, err := os.ReadFile(dotgit)
+	if err != nil {
+		return "", fmt.Errorf("finding the git directory of %s: %w", root, err)
+	}
+	line, _, _ := strings.Cut(string(data), "\n")
+	line = strings.TrimRight(line, "\r")
+	target, ok := strings.CutPrefix(line, "gitdir:")
+	if !ok {
+		return "", fmt.Errorf("%s: line 1: expected \"gitdir: <path>\"", dotgit)
+	}
+	target = strings.TrimSpace(target)
+	if !filepath.IsAbs(target) {
+		target = filepath.Join(root, target)
+	}
+	return filepath.Clean(target), nil
+}
+
+// OpenCache opens (creating it if needed) the cache under
+// <gitDir>/cleave/cache.
+func OpenCache(gitDir string) (*Cache, error) {
+	dir := filepath.Join(gitDir, "cleave", "cache")
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		return nil, fmt.Errorf("opening the calc cache: %w", err)
+	}
+	return &Cache{dir: dir}, nil
+}
+
+// Dir returns the directory holding the entries.
+func (c *Cache) Dir() string { return c.dir }
+
+func validKey(key string) bool {
+	if len(key) != 2*sha256.Size {
+		return false
+	}
+	_, err := hex.DecodeString(key)
+	return err == nil
+}
+
+func (c *Cache) path(key string) string {
+	return filepath.Join(c.dir, key[:2], key[2:])
+}
+
+// entrySum is the checksum written into an entry: it covers the version, the
+// key and the payload, so a truncated, edited or misplaced file is a miss.
+func entrySum(key string, payload []byte) string {
+	h := sha256.New()
+	h.Write([]byte(CacheVersion + "\n" + key + "\n"))
+	h.Write(payload)
+	return hex.EncodeToString(h.Sum(nil))
+}
+
+// Get returns the strings stored under key. Any problem (no entry, a bad
+// key, a damaged entry) is a miss.
+func (c *Cache) Get(key string) ([]string, bool) {
+	if !validKey(key) {
+		return nil, false
+	}
+	data, err := os.ReadFile(c.path(key))
+	if err != nil {
+		return nil, false
+	}
+	header, rest, ok := bytes.Cut(data, []byte("\n"))
+	if !ok || string(header) != CacheVersion {
+		return nil, false
+	}
+	sum, payload, ok := bytes.Cut(rest, []byte("\n"))
+	if !ok || string(sum) != entrySum(key, payload) {
+		return nil, false
+	}
+	var out []string
+	if err := json.Unmarshal(payload, &out); err != nil || out == nil {
+		return nil, false
+	}
+	return out, true
+}
+
+// Put stores results under key, replacing any earlier entry.
+func (c *Cache) Put(key string, results []string) error {
+	if !validKey(key) {
+		return fmt.Errorf("calc cache: key %q is not a SHA-256 hex string", key)
+	}
+	if results == nil {
+		results = []string{}
+	}
+	payload, err := json.Marshal(results)
+	if err != nil {
+		return fmt.Errorf("calc cache: %w", err)
+	}
+	p := c.path(key)
+	if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+		return fmt.Errorf("calc cache: %w", err)
+	}
+	var buf bytes.Buffer
+	buf.WriteString(CacheVersion + "\n" + entrySum(key, payload) + "\n")
+	buf.Write(payload)
+	f, err := os.CreateTemp(filepath.Dir(p), ".tmp-*")
+	if err != nil {
+		return fmt.Errorf("calc cache: %w", err)
+	}
+	_, werr := f.Write(buf.Bytes())
+	cerr := f.Close()
+	if err := errors.Join(werr, cerr); err != nil {
+		os.Remove(f.Name())
+		return fmt.Errorf("calc cache: %w", err)
+	}
+	if err := os.Rename(f.Name(), p); err != nil {
+		os.Remove(f.Name())
+		return fmt.Errorf("calc cache: %w", err)
+	}
+	return nil
+}
+
+// keyHasher hashes length-prefixed fields, so that no two different
+// sequences of fields give the same input.
+type keyHasher struct{ buf []byte }
+
+func (k *keyHasher) add(fields ...string) {
+	for _, f := range fields {
+		k.buf = binary.AppendUvarint(k.buf, uint64(len(f)))
+		k.buf = append(k.buf, f...)
+	}
+}
+
+func (k *keyHasher) sum() string {
+	s := sha256.Sum256(k.buf)
+	return hex.EncodeToString(s[:])
+}
+
+// textKey hashes what the file's results depend on inside the file.
+func textKey(opt Options, path string, blocks []Block) string {
+	var k keyHasher
+	k.add(CacheVersion, "text", opt.Salt, path)
+	for _, b := range blocks {
+		k.add("block")
+		for _, l := range b.Lines {
+			if l.Kind() == Code {
+				k.add(strconv.Itoa(l.LineNo), l.Code)
+			}
+		}
+	}
+	return k.sum()
+}
+
+// fullKey hashes the text key with the current value of every dependency;
+// ok is false if one cannot be resolved.
+func fullKey(opt Options, tk string, deps []string) (string, bool) {
+	var k keyHasher
+	k.add(CacheVersion, "full", tk, strconv.Itoa(len(deps)))
+	for _, d := range deps {
+		v, err := opt.Resolve(d)
+		if err != nil {
+			return "", false
+		}
+		k.add(d, v)
+	}
+	return k.sum(), true
+}
+
+// cached is one code line's outcome.
+type cached struct {
+	failed bool
+	text   string // the display text, or the error message
+}
+
+func encodeResults(rs []cached) []string {
+	out := make([]string, len(rs))
+	for i, r := range rs {
+		if r.failed {
+			out[i] = "!" + r.text
+		} else {
+			out[i] = "=" + r.text
+		}
+	}
+	return out
+}
+
+func decodeResults(ss []string) ([]cached, bool) {
+	out := make([]cached, len(ss))
+	for i, s := range ss {
+		switch {
+		case strings.HasPrefix(s, "="):
+			out[i] = cached{text: s[1:]}
+		case strings.HasPrefix(s, "!"):
+			out[i] = cached{failed: true, text: s[1:]}
+		default:
+			return nil, false
+		}
+	}
+	return out, true
+}
+
+func countCode(blocks []Block) int {
+	n := 0
+	for _, b := range blocks {
+		for _, l := range b.Lines {
+			if l.Kind() == Code {
+				n++
+			}
+		}
+	}
+	return n
+}
+
+// lookup returns cached results for the file's code lines, or nil.
+func lookup(opt Options, path string, blocks []Block) []cached {
+	if opt.Cache == nil || opt.Resolve == nil {
+		return nil
+	}
+	tk := textKey(opt, path, blocks)
+	deps, ok := opt.Cache.Get(tk)
+	if !ok {
+		return nil
+	}
+	fk, ok := fullKey(opt, tk, deps)
+	if !ok {
+		return nil
+	}
+	enc, ok := opt.Cache.Get(fk)
+	if !ok || len(enc) != countCode(blocks) {
+		return nil
+	}
+	rs, ok := decodeResults(enc)
+	if !ok {
+		return nil
+	}
+	return rs
+}
+
+// store saves the results of a full evaluation. Failures to write are
+// ignored: the cache only saves time.
+func store(opt Options, path string, blocks []Block, deps []string, rs []cached) {
+	if opt.Cache == nil || opt.Resolve == nil {
+		return
+	}
+	tk := textKey(opt, path, blocks)
+	fk, ok := fullKey(opt, tk, deps)
+	if !ok {
+		return
+	}
+	if opt.Cache.Put(fk, encodeResults(rs)) != nil {
+		return
+	}
+	_ = opt.Cache.Put(tk, append([]string{}, deps...))
+}
