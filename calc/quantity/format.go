@@ -26,46 +26,58 @@ func fixed(sym string) displayRule { return displayRule{steps: []step{{math.Inf(
 
 var inf = math.Inf(1)
 
-// displayRules maps a dimension to its customary display; see the package
-// documentation for the list and its reasons.
-var displayRules = map[Dim]displayRule{
-	Dimensionless:               fixed(""),
-	Length:                      {steps: []step{{1e-6, "nm"}, {1e-2, "um"}, {10, "mm"}, {inf, "m"}}, zero: "nm"},
-	Length.Pow(2):               {steps: []step{{1e-6, "um^2"}, {1, "mm^2"}, {inf, "m^2"}}, zero: "um^2"},
-	Length.Pow(-1):              fixed("m^-1"),
-	Length.Pow(-2):              fixed("cm^-2"),
-	Length.Pow(-3):              fixed("cm^-3"),
-	Mass:                        fixed("m_e"),
-	Temperature:                 fixed("K"),
-	Time:                        {steps: []step{{1e-9, "ps"}, {1e-6, "ns"}, {1e-3, "us"}, {1, "ms"}, {inf, "s"}}, zero: "ps"},
-	dimFrequency:                fixed("s^-1"),
-	dimEnergy:                   {steps: []step{{10 * ElementaryCharge, "meV"}, {1e-9, "eV"}, {inf, "J"}}, zero: "meV"},
-	dimField:                    fixed("T"),
-	dimResistance:               fixed("Ohm"),
-	dimResistance.Pow(-1):       fixed("S"),
-	dimResistance.Mul(Length):   fixed("Ohm cm"),
-	dimResistance.Div(dimField): fixed("Ohm/T"),
+// displayTable lists the customary display for each dimension; see the
+// package documentation for the list and its reasons.
+var displayTable = []struct {
+	d Dim
+	r displayRule
+}{
+	{Dimensionless, fixed("")},
+	{Length, displayRule{steps: []step{{1e-6, "nm"}, {1e-2, "um"}, {10, "mm"}, {inf, "m"}}, zero: "nm"}},
+	{Length.Pow(2), displayRule{steps: []step{{1e-6, "um^2"}, {1, "mm^2"}, {inf, "m^2"}}, zero: "um^2"}},
+	{Length.Pow(-1), fixed("m^-1")},
+	{Length.Pow(-2), fixed("cm^-2")},
+	{Length.Pow(-3), fixed("cm^-3")},
+	{Mass, fixed("m_e")},
+	{Temperature, fixed("K")},
+	{Time, displayRule{steps: []step{{1e-9, "ps"}, {1e-6, "ns"}, {1e-3, "us"}, {1, "ms"}, {inf, "s"}}, zero: "ps"}},
+	{dimFrequency, fixed("s^-1")},
+	{dimEnergy, displayRule{steps: []step{{10 * ElementaryCharge, "meV"}, {1e-9, "eV"}, {inf, "J"}}, zero: "meV"}},
+	{dimField, fixed("T")},
+	{dimResistance, fixed("Ohm")},
+	{dimResistance.Pow(-1), fixed("S")},
+	{dimResistance.Mul(Length), fixed("Ohm cm")},
+	{dimResistance.Div(dimField), fixed("Ohm/T")},
 	// m^2/(V s) and T^-1 are the same dimension; mobility wins.
-	dimVoltage.Mul(Time).Pow(-1).Mul(Length.Pow(2)): fixed("cm^2/(V s)"),
-	dimVoltage:                     {steps: []step{{1, "mV"}, {inf, "V"}}, zero: "V"},
-	Current:                        {steps: []step{{1e-6, "nA"}, {1e-3, "uA"}, {1, "mA"}, {inf, "A"}}, zero: "nA"},
-	dimCapacit:                     {steps: []step{{1e-9, "pF"}, {1e-6, "nF"}, {inf, "uF"}}, zero: "pF"},
-	dimCapacit.Div(Length.Pow(2)):  fixed("nF/cm^2"),
-	dimCapacit.Div(Length):         fixed("F/m"),
-	Length.Div(Time):               fixed("m/s"),
-	dimVoltage.Div(Length):         fixed("V/m"),
-	dimEnergy.Div(dimField):        fixed("meV/T"),
-	dimEnergy.Div(Temperature):     fixed("meV/K"),
-	dimEnergy.Mul(Time):            fixed("J s"),
-	Length.Pow(-2).Div(dimEnergy):  fixed("cm^-2 meV^-1"),
-	Length.Pow(-2).Div(dimVoltage): fixed("cm^-2 V^-1"),
-	dimFlux:                        fixed("Wb"),
-	dimCharge:                      fixed("C"),
-	dimPower:                       fixed("W"),
-	dimInduct:                      fixed("H"),
-	dimPressure:                    fixed("Pa"),
-	dimForce:                       fixed("N"),
+	{dimVoltage.Mul(Time).Pow(-1).Mul(Length.Pow(2)), fixed("cm^2/(V s)")},
+	{dimVoltage, displayRule{steps: []step{{1, "mV"}, {inf, "V"}}, zero: "V"}},
+	{Current, displayRule{steps: []step{{1e-6, "nA"}, {1e-3, "uA"}, {1, "mA"}, {inf, "A"}}, zero: "nA"}},
+	{dimCapacit, displayRule{steps: []step{{1e-9, "pF"}, {1e-6, "nF"}, {inf, "uF"}}, zero: "pF"}},
+	{dimCapacit.Div(Length.Pow(2)), fixed("nF/cm^2")},
+	{dimCapacit.Div(Length), fixed("F/m")},
+	{Length.Div(Time), fixed("m/s")},
+	{dimVoltage.Div(Length), fixed("V/m")},
+	{dimEnergy.Div(dimField), fixed("meV/T")},
+	{dimEnergy.Div(Temperature), fixed("meV/K")},
+	{dimEnergy.Mul(Time), fixed("J s")},
+	{Length.Pow(-2).Div(dimEnergy), fixed("cm^-2 meV^-1")},
+	{Length.Pow(-2).Div(dimVoltage), fixed("cm^-2 V^-1")},
+	{dimFlux, fixed("Wb")},
+	{dimCharge, fixed("C")},
+	{dimPower, fixed("W")},
+	{dimInduct, fixed("H")},
+	{dimPressure, fixed("Pa")},
+	{dimForce, fixed("N")},
 }
+
+// displayRules indexes displayTable by dimension.
+var displayRules = func() map[Dim]displayRule {
+	m := make(map[Dim]displayRule, len(displayTable))
+	for _, e := range displayTable {
+		m[e.d] = e.r
+	}
+	return m
+}()
 
 // parsedDisplay caches the parsed display units.
 var parsedDisplay = func() map[string]Unit {
