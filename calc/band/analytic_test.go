@@ -1,0 +1,121 @@
+package band
+
+import (
+	"math"
+	"testing"
+)
+
+func relErr(got, want float64) float64 { return math.Abs(got-want) / math.Abs(want) }
+
+// TestFangHoward checks REFERENCE §5 row 21 (computed from Fang & Howard, PRL 16, 797 (1966),
+// with CODATA 2018 constants): GaAs m* = 0.067, eps_r = 12.9, n = 3e11 cm^-2.
+func TestFangHoward(t *testing.T) {
+	tests := []struct {
+		name      string
+		nDepl     float64
+		wantE0meV float64
+		wantZnm   float64
+		wantB     float64
+	}{
+		{"no depletion", 0, 43.737, 12.094, 2.48054e8},
+		{"N_depl 5e10 cm^-2", 5e14, 49.490, 10.601, 0},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			e0, b := FangHoward(0.067, 12.9, 3e15, tc.nDepl)
+			if relErr(e0*1e3, tc.wantE0meV) > 1e-4 {
+				t.Errorf("E0 = %.5f meV, want %.5f (REFERENCE row 21)", e0*1e3, tc.wantE0meV)
+			}
+			if relErr(3/b*1e9, tc.wantZnm) > 1e-4 {
+				t.Errorf("<z> = %.5f nm, want %.5f (REFERENCE row 21)", 3/b*1e9, tc.wantZnm)
+			}
+			if tc.wantB != 0 && relErr(b, tc.wantB) > 1e-4 {
+				t.Errorf("b = %.6g, want %.6g", b, tc.wantB)
+			}
+			// Without depletion charge E0 reduces to 5ħ²b²/(8m*) (REFERENCE §3.2).
+			if tc.nDepl == 0 {
+				closed := 5 * hbar * hbar * b * b / (8 * 0.067 * me) / qe
+				if relErr(e0, closed) > 1e-12 {
+					t.Errorf("E0 = %g, 5ħ²b²/8m* = %g", e0, closed)
+				}
+			}
+		})
+	}
+}
+
+// TestAnalyticRow25 checks REFERENCE §5 row 25 (the tool's own formulas of §3.3 evaluated
+// with CODATA 2018; illustrative inputs): ΔEc = 0.25914 eV, E_D' = 0.10 eV, ε_b = 12.05,
+// GaAs channel m* = 0.067, ε = 12.9.
+func TestAnalyticRow25(t *testing.T) {
+	base := AnalyticInput{DeltaEcEV: 0.25914, DonorDepthEV: 0.10, BarrierEpsR: 12.05,
+		ChannelMstar: 0.067, ChannelEpsR: 12.9}
+	tests := []struct {
+		name   string
+		mod    func(*AnalyticInput)
+		wantN  float64 // cm^-2
+		wantE0 float64 // meV, 0 = not checked
+	}{
+		{"delta 30 nm, no E0", func(a *AnalyticInput) { a.SpacerM = 30e-9; a.NoGroundState = true }, 3.2729e11, 0},
+		{"delta 30 nm, self-consistent Fang-Howard", func(a *AnalyticInput) { a.SpacerM = 30e-9 }, 2.4805e11, 38.53},
+		{"uniform 1e18, 20 nm, no E0 no EF", func(a *AnalyticInput) {
+			a.SpacerM = 20e-9
+			a.BulkDonorsM3 = 1e24
+			a.NoGroundState, a.NoFermiEnergy = true, true
+		}, 4.7376e11, 0},
+		{"uniform 1e18, 20 nm, full", func(a *AnalyticInput) { a.SpacerM = 20e-9; a.BulkDonorsM3 = 1e24 }, 3.1635e11, 0},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			in := base
+			tc.mod(&in)
+			r, err := Analytic(in)
+			if err != nil {
+				t.Fatal(err)
+			}
+			if relErr(r.N2D/1e4, tc.wantN) > 2e-4 {
+				t.Errorf("n = %.5g cm^-2, want %.5g (REFERENCE row 25)", r.N2D/1e4, tc.wantN)
+			}
+			if tc.wantE0 != 0 && relErr(r.E0EV*1e3, tc.wantE0) > 5e-4 {
+				t.Errorf("E0 = %.4f meV, want %.2f (REFERENCE row 25)", r.E0EV*1e3, tc.wantE0)
+			}
+			// The uniform closed form of REFERENCE §3.3 must agree with the bisection
+			// wherever E0 and E_F are dropped.
+			if in.BulkDonorsM3 > 0 && in.NoGroundState && in.NoFermiEnergy {
+				nd, d := in.BulkDonorsM3, in.SpacerM
+				closed := math.Sqrt(2*in.BarrierEpsR*eps0*nd*(in.DeltaEcEV-in.DonorDepthEV)/qe+nd*nd*d*d) - nd*d
+				if relErr(r.N2D, closed) > 1e-9 {
+					t.Errorf("bisection %g, closed form %g", r.N2D, closed)
+				}
+			}
+		})
+	}
+}
+
+func TestAnalyticEdgeCases(t *testing.T) {
+	r, err := Analytic(AnalyticInput{DeltaEcEV: 0.1, DonorDepthEV: 0.2, BarrierEpsR: 12, SpacerM: 10e-9, ChannelMstar: 0.067, ChannelEpsR: 12.9})
+	if err != nil || r.N2D != 0 {
+		t.Errorf("donor level above the offset: got n = %g, err %v; want 0, nil", r.N2D, err)
+	}
+	if _, err := Analytic(AnalyticInput{DeltaEcEV: 0.3}); err == nil {
+		t.Error("zero permittivity and mass: want an error")
+	}
+	if _, err := Analytic(AnalyticInput{DeltaEcEV: 0.3, BarrierEpsR: 12, ChannelEpsR: 12, ChannelMstar: 0.067, SpacerM: -1}); err == nil {
+		t.Error("negative spacer: want an error")
+	}
+}
+
+// TestAnalyticMonotone: a thicker spacer or a deeper donor level can only lower n
+// (property of the energy balance).
+func TestAnalyticMonotone(t *testing.T) {
+	prev := math.Inf(1)
+	for d := 5e-9; d <= 100e-9; d += 5e-9 {
+		r, err := Analytic(AnalyticInput{DeltaEcEV: 0.25914, DonorDepthEV: 0.1, BarrierEpsR: 12.05, SpacerM: d, ChannelMstar: 0.067, ChannelEpsR: 12.9})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !(r.N2D < prev) {
+			t.Fatalf("spacer %g nm: n = %g not below %g", d*1e9, r.N2D, prev)
+		}
+		prev = r.N2D
+	}
+}

@@ -1,0 +1,154 @@
+package band
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strings"
+
+	"cleave/calc/constants"
+	"cleave/calc/materials"
+)
+
+// Physical constants in SI, taken from cleave/calc/constants (CODATA 2018).
+var (
+	qe   = mustConst("e")    // C
+	hbar = mustConst("hbar") // J s
+	kB   = mustConst("k_B")  // J/K
+	me   = mustConst("m_e")  // kg
+	eps0 = mustConst("eps0") // F/m
+)
+
+func mustConst(sym string) float64 {
+	c, ok := constants.Lookup(sym)
+	if !ok {
+		panic("band: constant " + sym + " missing from cleave/calc/constants")
+	}
+	return c.Value
+}
+
+// rydbergEV is the hydrogen Rydberg energy m_e e⁴/(8 ε0² h²) in eV, computed from the
+// CODATA 2018 constants.
+var rydbergEV = me * qe * qe * qe / (8 * eps0 * eps0 * (2 * math.Pi * hbar) * (2 * math.Pi * hbar))
+
+// ErrUnknownMaterial is returned (wrapped) for a material with no band parameters.
+var ErrUnknownMaterial = errors.New("unknown material")
+
+// Params are the low-temperature (0 K) band parameters of one layer material.
+type Params struct {
+	Name     string  // the name as written, e.g. "Al0.33Ga0.67As"
+	Elements string  // the alloy without fractions, e.g. "AlGaAs"
+	X        float64 // alloy fraction of the first element (Al in AlGaAs); NaN for a binary
+	EgEV     float64 // Γ band gap at 0 K, eV
+	VBOEV    float64 // valence-band maximum on the common scale of Vurgaftman et al., eV
+	EcEV     float64 // Γ conduction-band edge on that scale, VBOEV + EgEV, eV
+	Mstar    float64 // Γ conduction-band effective mass, m*/m_e
+	EpsR     float64 // static relative permittivity
+	// DonorEV is the shallow (hydrogenic, effective-mass) donor binding energy
+	// Ry·(m*/m_e)/ε_r², eV. It is not the DX level.
+	DonorEV float64
+	Sources map[string]string // parameter name → source
+}
+
+// system is one row of the parameter table: a material or an alloy family.
+type system struct {
+	elements string
+	alloy    bool // needs a fraction x in [0, 1]
+	params   func(x float64) Params
+}
+
+const (
+	srcVMR   = "Vurgaftman, Meyer, Ram-Mohan, J. Appl. Phys. 89, 5815 (2001), 0 K"
+	srcIoffe = "Ioffe handbook (Levinshtein et al., Handbook Series on Semiconductor Parameters, World Scientific 1996)"
+	srcHydro = "effective-mass hydrogenic donor Ry·m*/ε_r², with Ry from CODATA 2018 constants"
+)
+
+// Vurgaftman et al. (2001) Table III/IV values at 0 K.
+const (
+	egGaAs  = 1.519 // eV, Γ gap
+	egAlAs  = 3.099 // eV, Γ gap
+	vboGaAs = -0.80 // eV
+	vboAlAs = -1.33 // eV
+	mGaAs   = 0.067 // Γ mass
+	mAlAs   = 0.15  // Γ mass
+)
+
+// gapBowingAlGaAs is the Γ-gap bowing of Al(x)Ga(1−x)As, C(x) = −0.127 + 1.310x eV
+// (Vurgaftman et al. 2001); Eg(x) = (1−x)Eg(GaAs) + x Eg(AlAs) − x(1−x)C(x).
+func gapBowingAlGaAs(x float64) float64 { return -0.127 + 1.310*x }
+
+// epsAlGaAs is the static permittivity 12.90 − 2.84x of Al(x)Ga(1−x)As (Ioffe handbook).
+func epsAlGaAs(x float64) float64 { return 12.90 - 2.84*x }
+
+func algaas(x float64) Params {
+	eg := (1-x)*egGaAs + x*egAlAs - x*(1-x)*gapBowingAlGaAs(x)
+	vbo := (1-x)*vboGaAs + x*vboAlAs // no VBO bowing for AlGaAs (Vurgaftman et al.)
+	m := (1-x)*mGaAs + x*mAlAs       // linear between the end points (Vurgaftman et al. give no bowing)
+	eps := epsAlGaAs(x)
+	return Params{
+		X: x, EgEV: eg, VBOEV: vbo, EcEV: vbo + eg, Mstar: m, EpsR: eps,
+		DonorEV: rydbergEV * m / (eps * eps),
+		Sources: map[string]string{
+			"EgEV":    srcVMR + " (Γ gap with bowing −0.127+1.310x eV)",
+			"VBOEV":   srcVMR + " (linear in x)",
+			"Mstar":   srcVMR + " (linear between GaAs 0.067 and AlAs 0.15)",
+			"EpsR":    srcIoffe + " (12.90 − 2.84x)",
+			"DonorEV": srcHydro,
+		},
+	}
+}
+
+var table = map[string]system{
+	"GaAs": {elements: "GaAs", params: func(float64) Params {
+		p := algaas(0)
+		p.X = math.NaN()
+		p.Sources["EpsR"] = srcIoffe + " (12.9)"
+		return p
+	}},
+	"AlAs": {elements: "AlAs", params: func(float64) Params {
+		p := algaas(1)
+		p.X = math.NaN()
+		p.Sources["EpsR"] = srcIoffe + " (12.90 − 2.84x at x = 1; tables disagree, 10.06–10.9)"
+		return p
+	}},
+	"AlGaAs": {elements: "AlGaAs", alloy: true, params: algaas},
+}
+
+// Known returns the material families that have band parameters, sorted.
+func Known() []string {
+	out := make([]string, 0, len(table))
+	for k := range table {
+		if table[k].alloy {
+			k = "Al(x)Ga(1-x)As"
+		}
+		out = append(out, k)
+	}
+	sort.Strings(out)
+	return out
+}
+
+// Lookup returns the band parameters of a material written as in a layer table: "GaAs",
+// "AlAs" or an alloy with its fraction, "Al0.33Ga0.67As". The error wraps
+// [ErrUnknownMaterial] and lists the known materials, or carries the composition error.
+func Lookup(name string) (Params, error) {
+	name = strings.TrimSpace(name)
+	elems, x, err := materials.ParseAlloy(name)
+	if err != nil {
+		return Params{}, fmt.Errorf("material %q: %w", name, err)
+	}
+	sys, ok := table[elems]
+	if !ok {
+		return Params{}, fmt.Errorf("material %q: %w (known: %s)", name, ErrUnknownMaterial, strings.Join(Known(), ", "))
+	}
+	if sys.alloy && math.IsNaN(x) {
+		return Params{}, fmt.Errorf("material %q: alloy needs its fraction, e.g. Al0.3Ga0.7As", name)
+	}
+	if !sys.alloy && !math.IsNaN(x) {
+		return Params{}, fmt.Errorf("material %q: %s takes no alloy fraction", name, elems)
+	}
+	p := sys.params(x)
+	p.Name = name
+	p.Elements = elems
+	return p, nil
+}
