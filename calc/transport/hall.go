@@ -1,0 +1,135 @@
+package transport
+
+import (
+	"fmt"
+	"math"
+)
+
+// HallResult is the outcome of HallDensity. It records everything the value
+// depends on (data hash, columns, range, points), so a changed file or range
+// shows as a changed result.
+type HallResult struct {
+	Density   Estimate // sheet density n = 1/(e|slope|), m^-2, always > 0
+	Carriers  string   // "electrons" (negative slope) or "holes" (positive slope)
+	Slope     Estimate // dR_xy/dB, Ohm/T
+	Intercept Estimate // R_xy at B = 0 from the linear fit, Ohm
+	Fit       *PolyFit // the linear fit
+
+	XCol, YCol string    // columns used
+	BMin, BMax float64   // |B| range, T
+	DataHash   string    // Dataset.Hash of the input
+	B, R       []float64 // the points used (SI)
+	Warnings   []Warning
+}
+
+// MinHallPoints is the fewest points HallDensity accepts in its range.
+const MinHallPoints = 5
+
+// HallDensity fits R_xy = a + s·B by least squares over bmin ≤ |B| ≤ bmax (T)
+// and returns the sheet density n = 1/(e|s|) with its standard uncertainty
+// σ_n = n σ_s/|s| from the slope's residual-based standard error.
+//
+// Sign convention (REFERENCE §2.6): with B along +z, current along +x and
+// ρ_xy = E_y/j_x, Drude gives ρ_xy = B/(q n), so a negative slope means
+// electrons and a positive one holes. Whether the file follows this convention
+// depends on the wiring and the magnet polarity, which the notebook records.
+//
+// Points with NaN in either column are dropped. Fewer than MinHallPoints points
+// in the range is an error wrapping ErrTooFewPoints. WithSigma weights the fit.
+//
+// Warnings: curvature (a significant quadratic term on one-sided data, or a
+// cubic term on ±B data: parallel conduction or a second subband, REFERENCE §2.6),
+// an even part on ±B data (R_xx pick-up; antisymmetrize first), an intercept
+// far from 0 (probe misalignment), and a large out-of-phase lock-in column.
+// A term is "significant" when it exceeds 3 standard errors and changes R_xy at
+// bmax by more than 0.5 % of the linear part (both thresholds common practice).
+func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Option) (*HallResult, error) {
+	o := newOptions(opts)
+	if !(bmin >= 0) || !(bmax > bmin) {
+		return nil, fmt.Errorf("%s: Hall fit: field range %g T to %g T: expected 0 ≤ bmin < bmax: %w", d.Name, bmin, bmax, ErrBadArgument)
+	}
+	xc, err := column(d, xcol, DimField, "magnetic field")
+	if err != nil {
+		return nil, err
+	}
+	yc, err := column(d, ycol, DimResistance, "resistance")
+	if err != nil {
+		return nil, err
+	}
+	var sig []float64
+	if o.sigma != "" {
+		sc, err := column(d, o.sigma, DimResistance, "resistance")
+		if err != nil {
+			return nil, err
+		}
+		sig = sc.Values
+	}
+	B, R, S := pairs(xc.Values, yc.Values, sig, bmin, bmax)
+	if len(B) < MinHallPoints {
+		return nil, fmt.Errorf("%s: Hall fit of %s over %g T ≤ |B| ≤ %g T: %d points; need at least %d: %w",
+			d.Name, yc.Name, bmin, bmax, len(B), MinHallPoints, ErrTooFewPoints)
+	}
+	lin, err := FitPoly(B, R, S, 1)
+	if err != nil {
+		return nil, fmt.Errorf("%s: Hall fit of %s: %w", d.Name, yc.Name, err)
+	}
+	res := &HallResult{
+		Slope: lin.CoefEstimate(1), Intercept: lin.CoefEstimate(0), Fit: lin,
+		XCol: xc.Name, YCol: yc.Name, BMin: bmin, BMax: bmax, DataHash: d.Hash, B: B, R: R,
+	}
+	s := res.Slope.Value
+	if s == 0 {
+		return nil, fmt.Errorf("%s: Hall fit of %s: zero slope, no density: %w", d.Name, yc.Name, ErrBadArgument)
+	}
+	n := 1 / (qe * math.Abs(s))
+	res.Density = Estimate{n, n * res.Slope.Uncertainty / math.Abs(s)}
+	res.Carriers = "electrons"
+	if s > 0 {
+		res.Carriers = "holes"
+	}
+
+	// Sanity checks.
+	bref := 0.0
+	neg, pos := false, false
+	for _, b := range B {
+		bref = math.Max(bref, math.Abs(b))
+		neg = neg || b < 0
+		pos = pos || b > 0
+	}
+	lin0 := math.Abs(s) * bref
+	significant := func(c Estimate, pow int) bool {
+		return math.Abs(c.Value) > 3*c.Uncertainty && math.Abs(c.Value)*math.Pow(bref, float64(pow)) > 0.005*lin0
+	}
+	if neg && pos {
+		if len(B) >= 6 {
+			if cub, err := FitPoly(B, R, S, 3); err == nil {
+				if c := cub.CoefEstimate(3); significant(c, 3) {
+					res.Warnings = append(res.Warnings, Warning{WarnCurvature, fmt.Sprintf(
+						"R_xy(B) is not linear over %g–%g T (cubic term %.3g ± %.2g Ohm/T^3): parallel conduction or a second subband?", bmin, bmax, c.Value, c.Uncertainty)})
+				}
+				if c := cub.CoefEstimate(2); significant(c, 2) {
+					res.Warnings = append(res.Warnings, Warning{WarnEvenPart, fmt.Sprintf(
+						"R_xy has a part even in B (quadratic term %.3g ± %.2g Ohm/T^2): R_xx pick-up; antisymmetrize over ±B", c.Value, c.Uncertainty)})
+				}
+			}
+		}
+	} else if quad, err := FitPoly(B, R, S, 2); err == nil {
+		if c := quad.CoefEstimate(2); significant(c, 2) {
+			res.Warnings = append(res.Warnings, Warning{WarnCurvature, fmt.Sprintf(
+				"R_xy(B) is not linear over %g–%g T (quadratic term %.3g ± %.2g Ohm/T^2): parallel conduction, a second subband, or R_xx pick-up?", bmin, bmax, c.Value, c.Uncertainty)})
+		}
+	}
+	curved := len(res.Warnings) > 0 && res.Warnings[0].Code == WarnCurvature
+	if a := res.Intercept; !curved && math.Abs(a.Value) > 3*a.Uncertainty && math.Abs(a.Value) > 0.01*lin0 {
+		res.Warnings = append(res.Warnings, Warning{WarnOffset, fmt.Sprintf(
+			"R_xy(0) = %.4g ± %.2g Ohm is %.1f %% of the Hall signal at %g T: misaligned Hall probes? antisymmetrize over ±B",
+			a.Value, a.Uncertainty, 100*math.Abs(a.Value)/lin0, bref)})
+	}
+	if len(B) < 10 {
+		res.Warnings = append(res.Warnings, Warning{WarnFewPoints, fmt.Sprintf("only %d points in the fit range", len(B))})
+	}
+	if w := outOfPhase(d, xc, yc, bmin, bmax, o.maxYFrac); w != nil {
+		res.Warnings = append(res.Warnings, *w)
+	}
+	return res, nil
+}
