@@ -1,0 +1,396 @@
+package calc
+
+import (
+	"errors"
+	"io/fs"
+	"math"
+	"sort"
+	"strings"
+
+	"cleave/calc/constants"
+	"cleave/calc/materials"
+	"cleave/calc/quantity"
+)
+
+// Resolver supplies names that are not variables, constants or materials: the entry's
+// own front-matter fields and its ancestors ("device", "mask", "wafer", "width"). The
+// notebook provides it. A returned *Record with an empty Path gets the looked-up name as
+// its Path, so its fields are recorded as dependencies "field:<name>.<field>".
+type Resolver interface {
+	Lookup(name string) (Value, bool)
+}
+
+// Namer is optionally implemented by a Resolver to list its names, for "did you mean"
+// suggestions.
+type Namer interface {
+	Names() []string
+}
+
+// Param is a function parameter. Default nil means required. Dim, when non-nil, is the
+// dimension the argument must have (checked before the call, with the error at the
+// argument). FromRecord, when set, lets a record argument stand in for the parameter by
+// its field of that name (so a material can be passed as a mass: `cyclotron_energy(B,
+// GaAs)` uses GaAs.mstar).
+type Param struct {
+	Name       string
+	Default    Value
+	Dim        *quantity.Dim
+	FromRecord string
+}
+
+// Func is a function callable from calc blocks. Call receives the arguments matched to
+// Params by position, then by name, with defaults filled in (and, when Variadic, the
+// extra positional arguments gathered as a List in the last one). An error of type
+// *ArgError is reported at that argument's position; any other at the call.
+type Func struct {
+	Name     string
+	Params   []Param
+	Doc      string
+	Variadic bool
+	Call     func(e *Env, args []Value) (Value, error)
+}
+
+// Signature is "name(a, b, gs=2)".
+func (f *Func) Signature() string {
+	parts := make([]string, len(f.Params))
+	for i, p := range f.Params {
+		parts[i] = p.Name
+		if p.Default != nil {
+			parts[i] += "=" + Display(p.Default)
+		}
+		if f.Variadic && i == len(f.Params)-1 {
+			parts[i] += "..."
+		}
+	}
+	return f.Name + "(" + strings.Join(parts, ", ") + ")"
+}
+
+// Env is the evaluation environment of one Markdown file: its variables in definition
+// order (shared by all calc blocks of the file), the functions, the notebook resolver, the
+// file system for data files, and the dependencies read so far. An Env is not safe for
+// concurrent use.
+type Env struct {
+	vars     map[string]Value
+	order    []string
+	failed   map[string]int // name -> line whose definition failed
+	funcs    map[string]*Func
+	resolver Resolver
+	fsys     fs.FS
+	dir      string
+	deps     map[string]string // dependency -> content hash ("" for fields)
+}
+
+// Option configures an Env.
+type Option func(*Env)
+
+// WithResolver sets the notebook resolver for entry fields.
+func WithResolver(r Resolver) Option { return func(e *Env) { e.resolver = r } }
+
+// WithFS sets the notebook root as an fs.FS and the entry's directory (a slash path
+// relative to the root, "." for the root) for data("...") paths. Paths are resolved
+// relative to dir and may not leave the root; symbolic links are followed only while they
+// stay inside it, which is checked through fs.ReadLink when fsys implements
+// fs.ReadLinkFS (os.DirFS does; see [Env.OpenData]).
+func WithFS(fsys fs.FS, dir string) Option {
+	return func(e *Env) {
+		e.fsys = fsys
+		e.dir = dir
+	}
+}
+
+// NewEnv returns an environment with the built-in functions registered.
+func NewEnv(opts ...Option) *Env {
+	e := &Env{
+		vars:   map[string]Value{},
+		failed: map[string]int{},
+		funcs:  map[string]*Func{},
+		deps:   map[string]string{},
+		dir:    ".",
+	}
+	registerBuiltins(e)
+	for _, o := range opts {
+		o(e)
+	}
+	return e
+}
+
+// Register adds or replaces a function.
+func (e *Env) Register(f Func) {
+	fc := f
+	e.funcs[f.Name] = &fc
+}
+
+// Funcs returns the registered functions sorted by name.
+func (e *Env) Funcs() []*Func {
+	out := make([]*Func, 0, len(e.funcs))
+	for _, f := range e.funcs {
+		out = append(out, f)
+	}
+	sort.Slice(out, func(i, j int) bool { return out[i].Name < out[j].Name })
+	return out
+}
+
+// Set defines (or redefines) a variable.
+func (e *Env) Set(name string, v Value) {
+	if _, ok := e.vars[name]; !ok {
+		e.order = append(e.order, name)
+	}
+	e.vars[name] = v
+	delete(e.failed, name)
+}
+
+// Var returns a variable's value.
+func (e *Env) Var(name string) (Value, bool) {
+	v, ok := e.vars[name]
+	return v, ok
+}
+
+// Vars returns the variable names in definition order.
+func (e *Env) Vars() []string { return append([]string(nil), e.order...) }
+
+// Deps returns what evaluation has read so far, sorted and deduplicated: notebook fields
+// as "field:<path>" (e.g. "field:device.width") and data files as "file:<path>".
+func (e *Env) Deps() []string {
+	out := make([]string, 0, len(e.deps))
+	for d := range e.deps {
+		out = append(out, d)
+	}
+	sort.Strings(out)
+	return out
+}
+
+// DepHash returns the content hash ("sha256:<hex>") recorded for a "file:" dependency.
+func (e *Env) DepHash(dep string) (string, bool) {
+	h, ok := e.deps[dep]
+	return h, ok && h != ""
+}
+
+func (e *Env) addDep(d, hash string) { e.deps[d] = hash }
+
+// LineResult is the outcome of one calc line.
+type LineResult struct {
+	Kind    LineKind
+	Name    string // for Assign
+	Value   Value  // nil for Blank, Comment, and on error
+	Display string // the text for the result region; "" for blank and comment lines
+	Err     error  // a *Error, or nil
+}
+
+// EvalLine parses and evaluates one calc line (the result region already stripped; a
+// "#=" is treated as the end of the line anyway). An assignment defines the name for later
+// lines and later blocks sharing this Env, replacing an earlier definition; a failed
+// assignment leaves the name undefined, and later uses say which line failed.
+func (e *Env) EvalLine(line string, lineNo int) LineResult {
+	st, err := ParseLine(line, lineNo)
+	if err != nil {
+		return errResult(Expr, "", err)
+	}
+	res := LineResult{Kind: st.Kind, Name: st.Name}
+	if st.Kind == Blank || st.Kind == Comment {
+		return res
+	}
+	v, err := e.eval(st.Expr)
+	if err == nil {
+		if r, ok := v.(*Record); ok && r.Path != "" {
+			e.addDep("field:"+r.Path, "")
+		}
+	}
+	if err != nil {
+		if st.Kind == Assign {
+			if _, ok := e.vars[st.Name]; ok {
+				delete(e.vars, st.Name)
+				e.order = removeName(e.order, st.Name)
+			}
+			e.failed[st.Name] = lineNo
+		}
+		return errResult(st.Kind, st.Name, err)
+	}
+	if st.Kind == Assign {
+		e.Set(st.Name, v)
+	}
+	res.Value = v
+	res.Display = Display(v)
+	return res
+}
+
+func removeName(names []string, n string) []string {
+	out := names[:0]
+	for _, x := range names {
+		if x != n {
+			out = append(out, x)
+		}
+	}
+	return out
+}
+
+func errResult(k LineKind, name string, err error) LineResult {
+	var ce *Error
+	if !errors.As(err, &ce) {
+		ce = &Error{Line: 0, Col: 0, Err: err}
+	}
+	return LineResult{Kind: k, Name: name, Err: ce, Display: "error: " + ce.Error()}
+}
+
+// Eval evaluates one expression (as `cleave eval` does). Positions in errors are on
+// line 1.
+func (e *Env) Eval(expr string) (Value, error) {
+	x, err := ParseExpr(expr)
+	if err != nil {
+		return nil, err
+	}
+	v, err := e.eval(x)
+	if err != nil {
+		return nil, err
+	}
+	if r, ok := v.(*Record); ok && r.Path != "" {
+		e.addDep("field:"+r.Path, "")
+	}
+	return v, nil
+}
+
+// lookupName resolves an identifier: variables first, then pi, then constants (CODATA 2018, from
+// calc/constants), then materials (calc/materials), then the notebook resolver. A
+// variable may therefore shadow a constant (`e = 2` hides the elementary charge for the
+// rest of the file), and a notebook field named like a constant is reached through its
+// entry (`device.h`).
+func (e *Env) lookupName(id *Ident) (Value, error) {
+	if v, ok := e.vars[id.Name]; ok {
+		return v, nil
+	}
+	if id.Name == "pi" || id.Name == "π" {
+		return Q(quantity.Scalar(math.Pi)), nil
+	}
+	if c, ok := constants.Lookup(id.Name); ok {
+		return Q(c.Quantity()), nil
+	}
+	if m, err := materials.Lookup(id.Name); err == nil {
+		return materialRecord(m), nil
+	}
+	if e.resolver != nil {
+		if v, ok := e.resolver.Lookup(id.Name); ok {
+			if r, ok := v.(*Record); ok && r.Path == "" {
+				cp := *r
+				cp.Path = id.Name
+				v = &cp
+			}
+			if _, ok := v.(*Record); !ok {
+				e.addDep("field:"+id.Name, "")
+			}
+			return v, nil
+		}
+	}
+	if ln, ok := e.failed[id.Name]; ok {
+		return nil, &Error{Line: id.Pos.Line, Col: id.Pos.Col, Err: ErrUnknownName,
+			Msg: "\"" + id.Name + "\" has no value: its definition on line " + itoa(ln) + " failed"}
+	}
+	msg := "unknown name \"" + id.Name + "\""
+	if s := nearest(id.Name, e.knownNames()); s != "" {
+		msg += " (did you mean " + s + "?)"
+	}
+	return nil, &Error{Line: id.Pos.Line, Col: id.Pos.Col, Msg: msg, Err: ErrUnknownName}
+}
+
+func (e *Env) knownNames() []string {
+	names := append([]string(nil), e.order...)
+	names = append(names, "pi")
+	names = append(names, constants.Symbols()...)
+	names = append(names, "GaAs", "AlAs", "InAs", "InSb", "In0.53Ga0.47As", "Si", "Ge", "graphene")
+	if n, ok := e.resolver.(Namer); ok && e.resolver != nil {
+		names = append(names, n.Names()...)
+	}
+	return names
+}
+
+// materialRecord turns a material into a record: name, mstar (a mass, mstar·m_e),
+// eps_r, g, gs, gv, vF (m/s), carrier, x. Fields that do not apply (NaN or zero in the
+// table, such as graphene's mass) are left out.
+func materialRecord(m materials.Material) *Record {
+	r := &Record{}
+	add := func(n string, v Value) { r.Fields = append(r.Fields, RecordField{n, v}) }
+	add("name", String(m.Name))
+	if m.Mstar > 0 {
+		// an exact multiple of the unit m_e: the table gives no uncertainty for m*/m_e
+		add("mstar", Q(quantity.New(m.Mstar*quantity.ElectronMass, quantity.Mass)))
+	}
+	if !math.IsNaN(m.EpsR) && m.EpsR > 0 {
+		add("eps_r", Q(quantity.Scalar(m.EpsR)))
+	}
+	if !math.IsNaN(m.G) {
+		add("g", Q(quantity.Scalar(m.G)))
+	}
+	add("gs", Q(quantity.Scalar(float64(m.Gs))))
+	add("gv", Q(quantity.Scalar(float64(m.Gv))))
+	if m.VF > 0 {
+		add("vF", Q(quantity.New(m.VF, quantity.Length.Div(quantity.Time))))
+	}
+	if m.Carrier != "" {
+		add("carrier", String(m.Carrier))
+	}
+	if !math.IsNaN(m.X) {
+		add("x", Q(quantity.Scalar(m.X)))
+	}
+	return r
+}
+
+// nearest returns the candidate closest to name by edit distance, if it is close enough
+// to be a plausible typo.
+func nearest(name string, cands []string) string {
+	best, bestD := "", -1
+	for _, c := range cands {
+		if c == name {
+			continue
+		}
+		d := editDistance(strings.ToLower(name), strings.ToLower(c))
+		if bestD < 0 || d < bestD || d == bestD && c < best {
+			best, bestD = c, d
+		}
+	}
+	limit := 1 + len([]rune(name))/3
+	if bestD < 0 || bestD > limit {
+		return ""
+	}
+	return best
+}
+
+func editDistance(a, b string) int {
+	ra, rb := []rune(a), []rune(b)
+	prev := make([]int, len(rb)+1)
+	cur := make([]int, len(rb)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(ra); i++ {
+		cur[0] = i
+		for j := 1; j <= len(rb); j++ {
+			cost := 1
+			if ra[i-1] == rb[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(rb)]
+}
+
+func itoa(n int) string {
+	if n == 0 {
+		return "0"
+	}
+	neg := n < 0
+	if neg {
+		n = -n
+	}
+	var b [20]byte
+	i := len(b)
+	for n > 0 {
+		i--
+		b[i] = byte('0' + n%10)
+		n /= 10
+	}
+	if neg {
+		i--
+		b[i] = '-'
+	}
+	return string(b[i:])
+}

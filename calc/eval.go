@@ -1,0 +1,435 @@
+package calc
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+
+	"cleave/calc/quantity"
+)
+
+func posErr(p Pos, err error, format string, args ...any) *Error {
+	return &Error{Line: p.Line, Col: p.Col, Msg: fmt.Sprintf(format, args...), Err: err}
+}
+
+// dimName describes a dimension for messages: its SI base-unit string, with the trade's
+// display unit in parentheses when that reads differently, or "dimensionless".
+func dimName(d quantity.Dim) string {
+	if d.IsDimensionless() {
+		return "dimensionless"
+	}
+	s := d.String()
+	if u, ok := tradeNames[d]; ok && u != s {
+		s += " (" + u + ")"
+	}
+	return s
+}
+
+// tradeNames are the units a practitioner recognises a dimension by, for messages.
+var tradeNames = map[quantity.Dim]string{
+	quantity.MustUnit("T").D:          "T",
+	quantity.MustUnit("cm^-2").D:      "cm^-2",
+	quantity.MustUnit("eV").D:         "energy",
+	quantity.MustUnit("Ohm").D:        "Ohm",
+	quantity.MustUnit("cm^2/(V s)").D: "mobility, cm^2/(V s)",
+	quantity.MustUnit("m/s").D:        "velocity",
+	quantity.MustUnit("V").D:          "V",
+	quantity.MustUnit("C").D:          "charge",
+	quantity.MustUnit("J s").D:        "action",
+	quantity.MustUnit("S").D:          "S",
+	quantity.MustUnit("Hz").D:         "frequency",
+}
+
+func (e *Env) eval(n Node) (Value, error) {
+	switch n := n.(type) {
+	case *NumberLit:
+		return e.evalNumber(n)
+	case *StringLit:
+		return String(n.Value), nil
+	case *Ident:
+		return e.lookupName(n)
+	case *Unary:
+		x, err := e.evalQuantity(n.X, "the operand of "+n.Op)
+		if err != nil {
+			return nil, err
+		}
+		if n.Op == "-" {
+			return Q(x.Neg()), nil
+		}
+		return Q(x), nil
+	case *Binary:
+		return e.evalBinary(n)
+	case *RangeExpr:
+		lo, err := e.evalQuantity(n.Lo, "the start of a range")
+		if err != nil {
+			return nil, err
+		}
+		hi, err := e.evalQuantity(n.Hi, "the end of a range")
+		if err != nil {
+			return nil, err
+		}
+		if lo.Dim() != hi.Dim() {
+			return nil, posErr(n.Pos, &quantity.DimError{Op: "..", Left: lo.Dim(), Right: hi.Dim()},
+				"the ends of a range must have the same dimension: %s .. %s", dimName(lo.Dim()), dimName(hi.Dim()))
+		}
+		return Range{Lo: lo, Hi: hi}, nil
+	case *ListExpr:
+		out := make(List, 0, len(n.Elems))
+		for _, x := range n.Elems {
+			v, err := e.eval(x)
+			if err != nil {
+				return nil, err
+			}
+			out = append(out, v)
+		}
+		return out, nil
+	case *Field:
+		return e.evalField(n)
+	case *Call:
+		return e.evalCall(n)
+	case *Convert:
+		return e.evalConvert(n)
+	}
+	return nil, fmt.Errorf("calc: unknown node %T", n)
+}
+
+// parseUnitAt parses unit text written at p, mapping a unit error to its column.
+func parseUnitAt(text string, p Pos) (quantity.Unit, error) {
+	u, err := quantity.ParseUnit(text)
+	if err == nil {
+		return u, nil
+	}
+	var ue *quantity.UnitError
+	col := p.Col
+	msg := err.Error()
+	if errors.As(err, &ue) {
+		off := min(max(ue.Offset, 0), len(text))
+		col += utf8.RuneCountInString(text[:off])
+		msg = "in unit \"" + text + "\": " + ue.Msg
+	}
+	return quantity.Unit{}, &Error{Line: p.Line, Col: col, Msg: msg, Err: err}
+}
+
+func parseFloatAt(text string, p Pos) (float64, error) {
+	v, err := strconv.ParseFloat(text, 64)
+	if err != nil || math.IsInf(v, 0) {
+		return 0, posErr(p, nil, "number %s is out of range", text)
+	}
+	return v, nil
+}
+
+func (e *Env) evalNumber(n *NumberLit) (Value, error) {
+	unit := quantity.Unit{Scale: 1}
+	if n.Unit != "" {
+		u, err := parseUnitAt(n.Unit, n.UnitPos)
+		if err != nil {
+			return nil, err
+		}
+		unit = u
+	}
+	v, err := parseFloatAt(n.Text, n.Pos)
+	if err != nil {
+		return nil, err
+	}
+	if n.Unc == "" {
+		return Q(quantity.New(v*unit.Scale, unit.D)), nil
+	}
+	var sigma float64 // in SI
+	if strings.HasPrefix(n.Unc, "(") {
+		// concise form: the digits count in the last place of the mantissa, then the exponent applies.
+		mant, exp := splitExponent(n.Text)
+		digits := strings.Trim(n.Unc, "()")
+		decimals := 0
+		if i := strings.IndexByte(mant, '.'); i >= 0 {
+			decimals = len(mant) - i - 1
+		}
+		s := digits + "e" + strconv.Itoa(-decimals)
+		u, err := strconv.ParseFloat(s, 64)
+		if err != nil {
+			return nil, posErr(n.UncPos, nil, "uncertainty %s is out of range", n.Unc)
+		}
+		if exp != "" {
+			p, err := strconv.Atoi(strings.TrimPrefix(exp[1:], "+"))
+			if err != nil || p > 400 || p < -400 {
+				return nil, posErr(n.Pos, nil, "number %s is out of range", n.Text)
+			}
+			u *= math.Pow(10, float64(p))
+		}
+		sigma = u * unit.Scale
+	} else {
+		u, err := parseFloatAt(n.Unc, n.UncPos)
+		if err != nil {
+			return nil, err
+		}
+		uScale := unit.Scale
+		if n.UncAfter && n.UncUnit != "" {
+			uu, err := parseUnitAt(n.UncUnit, n.UncUPos)
+			if err != nil {
+				return nil, err
+			}
+			if uu.D != unit.D {
+				return nil, posErr(n.UncUPos, &quantity.DimError{Op: "±", Left: unit.D, Right: uu.D},
+					"the uncertainty's unit %s (%s) does not match the value's unit %s (%s)", n.UncUnit, dimName(uu.D), n.Unit, dimName(unit.D))
+			}
+			uScale = uu.Scale
+		}
+		sigma = u * uScale
+	}
+	if sigma < 0 || math.IsInf(sigma, 0) || math.IsNaN(sigma) {
+		return nil, posErr(n.UncPos, nil, "an uncertainty must be a finite number >= 0")
+	}
+	return Q(quantity.Uncertain(v*unit.Scale, sigma, unit.D)), nil
+}
+
+// evalQuantity evaluates n and requires a quantity; what names the operand for messages.
+func (e *Env) evalQuantity(n Node, what string) (quantity.Quantity, error) {
+	v, err := e.eval(n)
+	if err != nil {
+		return quantity.Quantity{}, err
+	}
+	q, ok := v.(Quantity)
+	if !ok {
+		p := n.Position()
+		return quantity.Quantity{}, posErr(p, ErrType, "%s must be a quantity, found a %s", what, v.Type())
+	}
+	return q.Q, nil
+}
+
+func (e *Env) evalBinary(n *Binary) (Value, error) {
+	x, err := e.evalQuantity(n.X, "the left operand of "+n.Op)
+	if err != nil {
+		return nil, err
+	}
+	y, err := e.evalQuantity(n.Y, "the right operand of "+n.Op)
+	if err != nil {
+		return nil, err
+	}
+	switch n.Op {
+	case "+", "-":
+		var r quantity.Quantity
+		if n.Op == "+" {
+			r, err = quantity.Add(x, y)
+		} else {
+			r, err = quantity.Sub(x, y)
+		}
+		if err != nil {
+			verb := map[string]string{"+": "add", "-": "subtract"}[n.Op]
+			return nil, posErr(n.Pos, err, "cannot %s %s and %s: the dimensions differ", verb, dimName(x.Dim()), dimName(y.Dim()))
+		}
+		return Q(r), nil
+	case "*":
+		return Q(quantity.Mul(x, y)), nil
+	case "/":
+		if y.Value() == 0 {
+			return nil, posErr(n.Pos, nil, "division by zero")
+		}
+		return Q(quantity.Div(x, y)), nil
+	case "^":
+		if !y.Dim().IsDimensionless() {
+			return nil, posErr(n.Y.Position(), &quantity.DimError{Op: "^", Left: x.Dim(), Right: y.Dim()},
+				"an exponent must be dimensionless, found %s", dimName(y.Dim()))
+		}
+		if y.HasUncertainty() && y.Uncertainty() > 0 {
+			return nil, posErr(n.Y.Position(), nil, "an exponent must be exact (it has an uncertainty)")
+		}
+		r, err := quantity.Pow(x, y.Value())
+		if err != nil {
+			return nil, posErr(n.Pos, err, "cannot raise %s to the power %g: %v", dimName(x.Dim()), y.Value(), err)
+		}
+		if math.IsNaN(r.Value()) || math.IsInf(r.Value(), 0) {
+			return nil, posErr(n.Pos, nil, "%g ^ %g is not a finite real number", x.Value(), y.Value())
+		}
+		return Q(r), nil
+	}
+	return nil, posErr(n.Pos, nil, "unknown operator %s", n.Op)
+}
+
+func (e *Env) evalConvert(n *Convert) (Value, error) {
+	u, err := parseUnitAt(n.Unit, n.Pos)
+	if err != nil {
+		return nil, err
+	}
+	v, err := e.eval(n.X)
+	if err != nil {
+		return nil, err
+	}
+	return convertValue(v, u, n)
+}
+
+func convertValue(v Value, u quantity.Unit, n *Convert) (Value, error) {
+	check := func(d quantity.Dim) error {
+		if d != u.D {
+			return posErr(n.Pos, &quantity.DimError{Op: "->", Left: d, Right: u.D},
+				"cannot show %s in %s (%s)", dimName(d), n.Unit, u.D.String())
+		}
+		return nil
+	}
+	switch v := v.(type) {
+	case Quantity:
+		if err := check(v.Q.Dim()); err != nil {
+			return nil, err
+		}
+		return Quantity{Q: v.Q, Unit: &u}, nil
+	case Range:
+		if err := check(v.Lo.Dim()); err != nil {
+			return nil, err
+		}
+		return Range{Lo: v.Lo, Hi: v.Hi, Unit: &u}, nil
+	case List:
+		out := make(List, len(v))
+		for i, x := range v {
+			c, err := convertValue(x, u, n)
+			if err != nil {
+				return nil, err
+			}
+			out[i] = c
+		}
+		return out, nil
+	}
+	return nil, posErr(n.ArrowAt, ErrType, "-> needs a quantity, range or list, found a %s", v.Type())
+}
+
+func (e *Env) evalField(n *Field) (Value, error) {
+	x, err := e.eval(n.X)
+	if err != nil {
+		return nil, err
+	}
+	f, ok := x.(Fielder)
+	if !ok {
+		return nil, posErr(n.Pos, ErrType, "a %s has no fields (found .%s)", x.Type(), n.Name)
+	}
+	v, ok := f.Field(n.Name)
+	if !ok {
+		names := f.FieldNames()
+		msg := fmt.Sprintf("no field %q", n.Name)
+		if r, ok := x.(*Record); ok && r.Path != "" {
+			msg = fmt.Sprintf("%s has no field %q", r.Path, n.Name)
+		}
+		if s := nearest(n.Name, names); s != "" {
+			msg += " (did you mean " + s + "?)"
+		} else if len(names) > 0 {
+			msg += "; fields: " + strings.Join(names, ", ")
+		}
+		return nil, posErr(n.Pos, ErrUnknownName, "%s", msg)
+	}
+	if r, ok := x.(*Record); ok && r.Path != "" {
+		path := r.Path + "." + n.Name
+		if sub, ok := v.(*Record); ok {
+			cp := *sub
+			cp.Path = path
+			return &cp, nil
+		}
+		e.addDep("field:"+path, "")
+	}
+	return v, nil
+}
+
+func (e *Env) evalCall(n *Call) (Value, error) {
+	f, ok := e.funcs[n.Func]
+	if !ok {
+		msg := fmt.Sprintf("unknown function %q", n.Func)
+		names := make([]string, 0, len(e.funcs))
+		for k := range e.funcs {
+			names = append(names, k)
+		}
+		if s := nearest(n.Func, names); s != "" {
+			msg += " (did you mean " + s + "?)"
+		}
+		return nil, posErr(n.Pos, ErrUnknownFunction, "%s", msg)
+	}
+	args := make([]Value, len(f.Params))
+	argPos := make([]Pos, len(f.Params))
+	var extra List
+	for i, a := range n.Args {
+		v, err := e.eval(a.Value)
+		if err != nil {
+			return nil, err
+		}
+		if r, ok := v.(*Record); ok && r.Path != "" {
+			e.addDep("field:"+r.Path, "")
+		}
+		idx := -1
+		if a.Name == "" {
+			switch {
+			case f.Variadic && i >= len(f.Params)-1:
+				extra = append(extra, v)
+				argPos[len(f.Params)-1] = a.Pos
+				continue
+			case i >= len(f.Params):
+				return nil, posErr(a.Pos, ErrArgument, "too many arguments: %s takes %d", f.Signature(), len(f.Params))
+			}
+			idx = i
+		} else {
+			for j, p := range f.Params {
+				if p.Name == a.Name {
+					idx = j
+				}
+			}
+			if idx < 0 {
+				return nil, posErr(a.Pos, ErrArgument, "%s has no parameter %q; parameters: %s", n.Func, a.Name, f.Signature())
+			}
+			if args[idx] != nil {
+				return nil, posErr(a.Pos, ErrArgument, "argument %s given twice in %s", a.Name, f.Signature())
+			}
+		}
+		args[idx] = v
+		argPos[idx] = a.Pos
+	}
+	if f.Variadic {
+		last := len(f.Params) - 1
+		if extra != nil {
+			if len(extra) == 1 {
+				if l, ok := extra[0].(List); ok {
+					extra = l
+				}
+			}
+			args[last] = extra
+		}
+	}
+	for i, p := range f.Params {
+		if args[i] == nil {
+			if p.Default == nil {
+				return nil, posErr(n.Pos, ErrArgument, "missing argument %s: %s", p.Name, f.Signature())
+			}
+			args[i] = p.Default
+			argPos[i] = n.Pos
+			continue
+		}
+		if p.FromRecord != "" {
+			if fl, ok := args[i].(Fielder); ok {
+				if fv, ok := fl.Field(p.FromRecord); ok {
+					args[i] = fv
+				}
+			}
+		}
+		if p.Dim != nil {
+			q, ok := args[i].(Quantity)
+			if !ok {
+				return nil, posErr(argPos[i], ErrType, "%s: argument %s must be a quantity (%s), found a %s", n.Func, p.Name, dimName(*p.Dim), args[i].Type())
+			}
+			if q.Q.Dim() != *p.Dim {
+				return nil, posErr(argPos[i], &quantity.DimError{Op: n.Func, Left: q.Q.Dim(), Right: *p.Dim},
+					"%s: argument %s must be %s, found %s", n.Func, p.Name, dimName(*p.Dim), dimName(q.Q.Dim()))
+			}
+		}
+	}
+	v, err := f.Call(e, args)
+	if err != nil {
+		var ae *ArgError
+		if errors.As(err, &ae) && ae.Arg >= 0 && ae.Arg < len(argPos) {
+			return nil, posErr(argPos[ae.Arg], ae.Err, "%s: %v", n.Func, ae.Err)
+		}
+		var ce *Error
+		if errors.As(err, &ce) {
+			return nil, ce
+		}
+		return nil, posErr(n.Pos, err, "%s: %v", n.Func, err)
+	}
+	if q, ok := v.(Quantity); ok && (math.IsNaN(q.Q.Value()) || math.IsInf(q.Q.Value(), 0)) {
+		return nil, posErr(n.Pos, nil, "%s: the result is not a finite number", n.Func)
+	}
+	return v, nil
+}

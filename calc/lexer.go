@@ -1,0 +1,479 @@
+package calc
+
+import (
+	"fmt"
+	"strings"
+	"unicode"
+)
+
+// tokKind is the kind of a lexical token.
+type tokKind int
+
+const (
+	tEOF     tokKind = iota
+	tNumber          // a number literal with optional uncertainty and unit (see numLit)
+	tIdent           // identifier, including alloy names such as Al0.33Ga0.67As
+	tString          // "..." with \" and \\ escapes
+	tOp              // one of + - * / ^ ( ) [ ] , . = .. ->
+	tComment         // # ... to the end of the line (not #=)
+	tUnit            // the unit text of a display request after ->
+)
+
+// token is one lexical token. Pos is the 1-based line and column (in characters) of its
+// first character.
+type token struct {
+	kind tokKind
+	text string // operator text, identifier, string contents (unescaped), comment text
+	pos  Pos
+	num  *numLit
+}
+
+// numLit is the lexed form of a number literal such as `12.5 ± 0.2 um`,
+// `3.07(4)e11 cm^-2` or `2e6 cm^2/(V s)`.
+type numLit struct {
+	Text     string // the number as written, e.g. "3.1e11"
+	Unc      string // the uncertainty as written ("" if none); for the concise form "(4)" it is "(4)"
+	Unit     string // unit text as written ("" if none)
+	UncUnit  string // unit written after the uncertainty when it differs in position from Unit ("" if none)
+	UnitPos  Pos
+	UncPos   Pos
+	UncUPos  Pos
+	UncAfter bool // the uncertainty follows the unit: `12.5 um ± 0.2 um`
+}
+
+// lexer splits one line into tokens. It works on runes so that columns count characters.
+type lexer struct {
+	src  []rune
+	i    int
+	line int
+	toks []token
+
+	lastPos  Pos // where the last uncertainty number started
+	lastText string
+}
+
+func isIdentStart(r rune) bool { return r == '_' || unicode.IsLetter(r) }
+func isIdentPart(r rune) bool {
+	return r == '_' || unicode.IsLetter(r) || unicode.IsDigit(r) || unicode.IsNumber(r)
+}
+func isDigit(r rune) bool { return r >= '0' && r <= '9' }
+
+// lex tokenizes src (one line; a newline is an error). It stops at "#=", the start of the
+// tool-owned result region, as if the line ended there.
+func lex(src string, line int) ([]token, error) {
+	lx := &lexer{src: []rune(src), line: line}
+	for {
+		lx.skipSpace()
+		if lx.i >= len(lx.src) {
+			break
+		}
+		start := lx.pos()
+		r := lx.src[lx.i]
+		switch {
+		case r == '#':
+			if lx.peek(1) == '=' {
+				lx.i = len(lx.src)
+				continue
+			}
+			j := lx.i + 1
+			for j < len(lx.src) && !(lx.src[j] == '#' && j+1 < len(lx.src) && lx.src[j+1] == '=') {
+				j++
+			}
+			lx.toks = append(lx.toks, token{kind: tComment, text: string(lx.src[lx.i+1 : j]), pos: start})
+			lx.i = j
+		case r == '\n' || r == '\r':
+			return nil, lx.errAt(start, "unexpected line break: a calc line is one line")
+		case isDigit(r) || (r == '.' && isDigit(lx.peek(1))):
+			n, err := lx.number()
+			if err != nil {
+				return nil, err
+			}
+			lx.toks = append(lx.toks, token{kind: tNumber, text: n.Text, pos: start, num: n})
+		case isIdentStart(r):
+			lx.toks = append(lx.toks, token{kind: tIdent, text: lx.ident(), pos: start})
+		case r == '"':
+			s, err := lx.str()
+			if err != nil {
+				return nil, err
+			}
+			lx.toks = append(lx.toks, token{kind: tString, text: s, pos: start})
+		default:
+			op := ""
+			switch r {
+			case '+', '*', '/', '^', '(', ')', '[', ']', ',', '=':
+				op = string(r)
+			case '-':
+				op = "-"
+				if lx.peek(1) == '>' {
+					op = "->"
+				}
+			case '.':
+				op = "."
+				if lx.peek(1) == '.' {
+					op = ".."
+				}
+			case '→':
+				op = "->"
+			case '×', '·':
+				op = "*"
+			case '÷':
+				op = "/"
+			case '−':
+				op = "-"
+			}
+			if op == "" {
+				return nil, lx.errAt(start, fmt.Sprintf("unexpected character %q", r))
+			}
+			if op == "->" && r == '-' || op == ".." {
+				lx.i += 2
+			} else {
+				lx.i++
+			}
+			lx.toks = append(lx.toks, token{kind: tOp, text: op, pos: start})
+			if op == "->" {
+				// The rest of the display request is a unit, up to a comment or the end.
+				if err := lx.targetUnit(); err != nil {
+					return nil, err
+				}
+			}
+		}
+	}
+	lx.toks = append(lx.toks, token{kind: tEOF, pos: lx.pos()})
+	return lx.toks, nil
+}
+
+func (lx *lexer) pos() Pos { return Pos{Line: lx.line, Col: lx.i + 1} }
+
+func (lx *lexer) errAt(p Pos, msg string) error { return &Error{Line: p.Line, Col: p.Col, Msg: msg} }
+
+func (lx *lexer) peek(k int) rune {
+	if lx.i+k < len(lx.src) {
+		return lx.src[lx.i+k]
+	}
+	return 0
+}
+
+func (lx *lexer) at(j int) rune {
+	if j >= 0 && j < len(lx.src) {
+		return lx.src[j]
+	}
+	return 0
+}
+
+func isSpace(r rune) bool { return r == ' ' || r == '\t' || r == '\u00a0' }
+
+func (lx *lexer) skipSpace() {
+	for lx.i < len(lx.src) && isSpace(lx.src[lx.i]) {
+		lx.i++
+	}
+}
+
+// ident reads an identifier. A '.' between two digits stays inside the identifier, so
+// that alloy names such as Al0.33Ga0.67As are one name.
+func (lx *lexer) ident() string {
+	j := lx.i
+	for j < len(lx.src) {
+		r := lx.src[j]
+		if isIdentPart(r) {
+			j++
+			continue
+		}
+		if r == '.' && j > lx.i && isDigit(lx.src[j-1]) && isDigit(lx.at(j+1)) {
+			j++
+			continue
+		}
+		break
+	}
+	s := string(lx.src[lx.i:j])
+	lx.i = j
+	return s
+}
+
+// decimal reads digits [. digits] [e [+-] digits] at j and returns the end index, or j if
+// there is no number there.
+func (lx *lexer) decimal(j int) int {
+	k := j
+	for isDigit(lx.at(k)) {
+		k++
+	}
+	if lx.at(k) == '.' && isDigit(lx.at(k+1)) {
+		k++
+		for isDigit(lx.at(k)) {
+			k++
+		}
+	}
+	if k == j {
+		return j
+	}
+	return lx.exponent(k)
+}
+
+func (lx *lexer) exponent(k int) int {
+	if r := lx.at(k); r == 'e' || r == 'E' {
+		m := k + 1
+		if s := lx.at(m); s == '+' || s == '-' {
+			m++
+		}
+		if isDigit(lx.at(m)) {
+			for isDigit(lx.at(m)) {
+				m++
+			}
+			return m
+		}
+	}
+	return k
+}
+
+// number lexes a number literal with its optional uncertainty and unit.
+func (lx *lexer) number() (*numLit, error) {
+	start := lx.i
+	j := lx.decimal(lx.i)
+	if j == lx.i { // ".5"
+		j = lx.i + 1
+		for isDigit(lx.at(j)) {
+			j++
+		}
+		j = lx.exponent(j)
+	}
+	n := &numLit{}
+	// Concise uncertainty: 3.07(4) or 3.07(4)e11, directly attached.
+	if lx.at(j) == '(' && isDigit(lx.at(j+1)) {
+		k := j + 1
+		for isDigit(lx.at(k)) {
+			k++
+		}
+		if lx.at(k) == ')' {
+			mant := string(lx.src[start:j])
+			if strings.ContainsAny(mant, "eE") {
+				return nil, lx.errAt(Pos{lx.line, j + 1}, "concise uncertainty goes before the exponent, as in 3.07(4)e11")
+			}
+			n.UncPos = Pos{lx.line, j + 1}
+			n.Unc = string(lx.src[j : k+1])
+			e := lx.exponent(k + 1)
+			n.Text = mant + string(lx.src[k+1:e])
+			j = e
+		}
+	}
+	if n.Text == "" {
+		n.Text = string(lx.src[start:j])
+	}
+	if lx.at(j) == '.' && isDigit(lx.at(j+1)) {
+		return nil, lx.errAt(Pos{lx.line, j + 1}, "malformed number: a second decimal point")
+	}
+	lx.i = j
+	if n.Unc == "" {
+		if ok, err := lx.uncertainty(); err != nil {
+			return nil, err
+		} else if ok {
+			n.UncPos, n.Unc = lx.lastPos, lx.lastText
+		}
+	}
+	if u, p, ok := lx.unit(); ok {
+		n.Unit, n.UnitPos = u, p
+	}
+	if n.Unc == "" && n.Unit != "" {
+		ok, err := lx.uncertainty()
+		if err != nil {
+			return nil, err
+		}
+		if ok {
+			n.UncPos, n.Unc, n.UncAfter = lx.lastPos, lx.lastText, true
+			if u, p, ok := lx.unit(); ok {
+				n.UncUnit, n.UncUPos = u, p
+			}
+		}
+	}
+	return n, nil
+}
+
+// uncertainty reads an optional "± number" or "+/- number" after spaces.
+func (lx *lexer) uncertainty() (bool, error) {
+	j := lx.i
+	for isSpace(lx.at(j)) {
+		j++
+	}
+	switch {
+	case lx.at(j) == '±':
+		j++
+	case lx.at(j) == '+' && lx.at(j+1) == '/' && lx.at(j+2) == '-':
+		j += 3
+	default:
+		return false, nil
+	}
+	for isSpace(lx.at(j)) {
+		j++
+	}
+	e := lx.decimal(j)
+	if e == j && lx.at(j) == '.' && isDigit(lx.at(j+1)) {
+		e = j + 1
+		for isDigit(lx.at(e)) {
+			e++
+		}
+		e = lx.exponent(e)
+	}
+	if e == j {
+		return false, lx.errAt(Pos{lx.line, j + 1}, "expected a number (the uncertainty) after ±")
+	}
+	lx.lastPos = Pos{lx.line, j + 1}
+	lx.lastText = string(lx.src[j:e])
+	lx.i = e
+	return true, nil
+}
+
+// unit reads a unit written after a number. The rule (documented in LANGUAGE.md):
+// after optional spaces, a unit starts with a letter; it is a sequence of unit symbols
+// (letters, digits, '_') each with an optional exponent ^n or ^-n, joined by '*' or '/'
+// written without spaces, or by spaces followed by another symbol (juxtaposition means
+// multiplication). A '(' directly after '/' opens a group in which spaces are free.
+// So `2e6 cm^2/(V s)` and `1 kg m^2 s^-2` are units, while in `5 T / B` and `5 T * x`
+// the operator is arithmetic.
+func (lx *lexer) unit() (string, Pos, bool) {
+	j := lx.i
+	for isSpace(lx.at(j)) {
+		j++
+	}
+	if !isUnitStart(lx.at(j)) {
+		return "", Pos{}, false
+	}
+	start := j
+	end, ok := lx.unitSeq(j, 0)
+	if !ok || end == start {
+		return "", Pos{}, false
+	}
+	lx.i = end
+	return strings.TrimRight(string(lx.src[start:end]), " \t"), Pos{lx.line, start + 1}, true
+}
+
+func isUnitStart(r rune) bool {
+	return isIdentStart(r) || r == 'µ' || r == 'Ω' || r == 'Å' || r == '°' || r == '%'
+}
+
+func isUnitPart(r rune) bool { return isIdentPart(r) || isUnitStart(r) }
+
+// unitSeq scans a unit sequence starting at j and returns the end of the longest valid
+// prefix. depth > 0 means inside parentheses, where spaces are free.
+func (lx *lexer) unitSeq(j, depth int) (int, bool) {
+	good := -1
+	for {
+		fe, ok := lx.unitFactor(j, depth)
+		if !ok {
+			if good < 0 {
+				return j, false
+			}
+			return good, true
+		}
+		good = fe
+		// a joint: '*', '/' or '·' without spaces (free inside parentheses), or spaces
+		// followed by another symbol.
+		k := fe
+		if depth > 0 {
+			k = skipSp(lx, k)
+		}
+		switch r := lx.at(k); {
+		case r == '*' || r == '/' || r == '·':
+			nx := k + 1
+			if depth > 0 {
+				nx = skipSp(lx, nx)
+			}
+			if !isUnitStart(lx.at(nx)) && lx.at(nx) != '(' || lx.at(nx) == '(' && r != '/' && depth == 0 {
+				return good, true
+			}
+			j = nx
+		case depth > 0 && isUnitStart(r):
+			j = k
+		case depth == 0 && isSpace(lx.at(fe)):
+			m := skipSp(lx, fe)
+			if !isUnitStart(lx.at(m)) {
+				return good, true
+			}
+			j = m
+		default:
+			return good, true
+		}
+	}
+}
+
+// unitFactor scans one unit symbol or parenthesised group with an optional integer
+// exponent.
+func (lx *lexer) unitFactor(j, depth int) (int, bool) {
+	switch {
+	case lx.at(j) == '(':
+		e, ok := lx.unitSeq(skipSp(lx, j+1), depth+1)
+		if !ok {
+			return j, false
+		}
+		e = skipSp(lx, e)
+		if lx.at(e) != ')' {
+			return j, false
+		}
+		j = e + 1
+	case isUnitStart(lx.at(j)):
+		for isUnitPart(lx.at(j)) {
+			j++
+		}
+	default:
+		return j, false
+	}
+	if lx.at(j) == '^' {
+		k := j + 1
+		if lx.at(k) == '-' || lx.at(k) == '+' {
+			k++
+		}
+		if isDigit(lx.at(k)) {
+			for isDigit(lx.at(k)) {
+				k++
+			}
+			j = k
+		}
+	}
+	return j, true
+}
+
+func skipSp(lx *lexer, j int) int {
+	for isSpace(lx.at(j)) {
+		j++
+	}
+	return j
+}
+
+// targetUnit lexes the unit of a display request `-> unit`, with the same rule as a unit
+// after a number.
+func (lx *lexer) targetUnit() error {
+	u, p, ok := lx.unit()
+	if !ok {
+		lx.skipSpace()
+		return lx.errAt(lx.pos(), "expected a unit after ->")
+	}
+	lx.toks = append(lx.toks, token{kind: tUnit, text: u, pos: p})
+	return nil
+}
+
+// str reads a "..." string. Escapes: \" and \\ only.
+func (lx *lexer) str() (string, error) {
+	start := lx.pos()
+	var b strings.Builder
+	j := lx.i + 1
+	for {
+		if j >= len(lx.src) {
+			return "", lx.errAt(start, "unterminated string: expected a closing \"")
+		}
+		r := lx.src[j]
+		switch r {
+		case '"':
+			lx.i = j + 1
+			return b.String(), nil
+		case '\\':
+			nx := lx.at(j + 1)
+			if nx != '"' && nx != '\\' {
+				return "", lx.errAt(Pos{lx.line, j + 1}, `unknown escape in string: only \" and \\ are allowed`)
+			}
+			b.WriteRune(nx)
+			j += 2
+		case '\n', '\r':
+			return "", lx.errAt(Pos{lx.line, j + 1}, "unexpected line break in string")
+		default:
+			b.WriteRune(r)
+			j++
+		}
+	}
+}
