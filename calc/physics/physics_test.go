@@ -195,7 +195,7 @@ func relUnc(x quantity.Quantity) float64 { return x.Uncertainty() / math.Abs(x.V
 // TestUncertaintyPropagation checks first-order propagation against the analytic
 // derivatives of each formula (power laws give relative uncertainty times the exponent).
 func TestUncertaintyPropagation(t *testing.T) {
-	B := qu(2, 0.02, "T")          // 1 %
+	B := qu(2, 0.02, "T")           // 1 %
 	n := qu(3e11, 0.06e11, "cm^-2") // 2 %
 	m := qu(0.067, 0.00067, "m_e")  // 1 %
 	tests := []struct {
