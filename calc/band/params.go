@@ -135,7 +135,7 @@ func Lookup(name string) (Params, error) {
 	name = strings.TrimSpace(name)
 	elems, x, err := materials.ParseAlloy(name)
 	if err != nil {
-		return Params{}, fmt.Errorf("material %q: %w", name, err)
+		return Params{}, fmt.Errorf("%w; %w (known: %s)", err, ErrUnknownMaterial, strings.Join(Known(), ", "))
 	}
 	sys, ok := table[elems]
 	if !ok {

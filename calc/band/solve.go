@@ -130,6 +130,7 @@ type grid struct {
 	phi0   float64   // Dirichlet value of φ at the surface node
 	kT     float64   // eV
 	maxSub int
+	cut    float64 // eigenvalues above this (eV) are not computed; 0 selects 40 kT + 5 meV
 }
 
 func newGrid(s Stack, ps []Params, o Options) (*grid, error) {
@@ -269,7 +270,10 @@ func (g *grid) schrodinger(phi []float64, hint []float64, spread float64) *state
 			tri.e[j-1] = -t * g.mInv[j]
 		}
 	}
-	cut := 40*g.kT + 0.005
+	cut := g.cut
+	if cut == 0 {
+		cut = 40*g.kT + 0.005
+	}
 	vals, vecs := tri.lowest(cut, g.maxSub, hint, spread)
 	st := &states{e: vals}
 	sq := 1 / math.Sqrt(g.h)

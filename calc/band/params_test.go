@@ -1,0 +1,81 @@
+package band
+
+import (
+	"errors"
+	"math"
+	"testing"
+)
+
+// TestLookup checks the band table against REFERENCE §4: Vurgaftman, Meyer & Ram-Mohan,
+// J. Appl. Phys. 89, 5815 (2001) at 0 K, and the Ioffe handbook permittivity 12.90 − 2.84x.
+func TestLookup(t *testing.T) {
+	gaas, err := Lookup("GaAs")
+	if err != nil {
+		t.Fatal(err)
+	}
+	tests := []struct {
+		name string
+		got  float64
+		want float64
+		tol  float64
+		src  string
+	}{
+		{"GaAs Eg", gaas.EgEV, 1.519, 1e-12, "Vurgaftman 2001"},
+		{"GaAs m*", gaas.Mstar, 0.067, 1e-12, "Vurgaftman 2001"},
+		{"GaAs eps_r", gaas.EpsR, 12.9, 1e-12, "Ioffe"},
+		{"GaAs VBO", gaas.VBOEV, -0.80, 1e-12, "Vurgaftman 2001"},
+	}
+	al, err := Lookup("Al0.3Ga0.7As")
+	if err != nil {
+		t.Fatal(err)
+	}
+	tests = append(tests, []struct {
+		name string
+		got  float64
+		want float64
+		tol  float64
+		src  string
+	}{
+		{"Al0.3 Eg_Gamma", al.EgEV, 1.93714, 1e-5, "REFERENCE §4 [C] from Vurgaftman 2001"},
+		{"Al0.3 dEv", gaas.VBOEV - al.VBOEV, 0.15900, 1e-5, "REFERENCE §4 [C]"},
+		{"Al0.3 dEc", al.EcEV - gaas.EcEV, 0.25914, 1e-5, "REFERENCE §4 [C]"},
+		{"Al0.3 m*", al.Mstar, 0.0919, 1e-4, "REFERENCE §4 linear interpolation"},
+		{"Al0.3 eps_r", al.EpsR, 12.048, 1e-4, "Ioffe 12.90 − 2.84x"},
+		{"Al0.3 dEc/dEg", (al.EcEV - gaas.EcEV) / (al.EgEV - gaas.EgEV), 0.620, 2e-3, "REFERENCE §4 [C]"},
+	}...)
+	for _, tc := range tests {
+		if math.Abs(tc.got-tc.want) > tc.tol*math.Max(1, math.Abs(tc.want)) {
+			t.Errorf("%s = %.6g, want %.6g (%s)", tc.name, tc.got, tc.want, tc.src)
+		}
+	}
+	if al.Sources["EgEV"] == "" || al.Sources["EpsR"] == "" {
+		t.Error("parameters must carry their sources")
+	}
+}
+
+// TestRydberg: the hydrogen Rydberg energy from CODATA 2018 e, h, m_e, ε0 is 13.605693 eV
+// (CODATA 2018 R∞hc = 13.605693122994 eV, from memory), and the GaAs hydrogenic donor is
+// Ry·0.067/12.9² = 5.478 meV, within 10 % of the measured Si donor level 5.8 meV (Ioffe
+// handbook, from memory).
+func TestRydberg(t *testing.T) {
+	if relErr(rydbergEV, 13.605693122994) > 1e-9 {
+		t.Errorf("Ry = %.12g eV", rydbergEV)
+	}
+	g, _ := Lookup("GaAs")
+	if relErr(g.DonorEV*1e3, 5.478) > 1e-3 {
+		t.Errorf("GaAs hydrogenic donor %.4f meV, want 5.478", g.DonorEV*1e3)
+	}
+	if relErr(g.DonorEV*1e3, 5.8) > 0.1 {
+		t.Errorf("GaAs hydrogenic donor %.4f meV, more than 10 %% from 5.8 meV", g.DonorEV*1e3)
+	}
+}
+
+func TestLookupErrors(t *testing.T) {
+	for _, name := range []string{"InP", "Unobtainium", "AlGaAs", "Al0.3Ga0.5As", "GaAs0.5"} {
+		if _, err := Lookup(name); err == nil {
+			t.Errorf("Lookup(%q): want an error", name)
+		} else if name == "InP" && !errors.Is(err, ErrUnknownMaterial) {
+			t.Errorf("Lookup(%q) = %v, want ErrUnknownMaterial", name, err)
+		}
+	}
+}
