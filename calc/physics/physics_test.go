@@ -343,7 +343,7 @@ func TestArgumentErrors(t *testing.T) {
 		{"tau_q zero", func() (quantity.Quantity, error) { return QuantumMobility(q(0, "s"), m) }, false, "quantum_mobility: argument tau_q: must be positive"},
 		{"LK negative T", func() (quantity.Quantity, error) { return ThermalDamping(q(-1, "K"), B, m) }, false, "thermal_damping: argument T"},
 		{"Dingle B zero", func() (quantity.Quantity, error) { return DingleFactor(q(0, "T"), q(1, "ps"), m) }, false, "dingle_factor: argument B"},
-		{"slope", func() (quantity.Quantity, error) { return HallDensity(q(1, "Ohm")) }, true, "hall_density_from_slope: argument slope"},
+		{"slope", func() (quantity.Quantity, error) { return HallDensity(q(1, "Ohm")) }, true, "hall_density: argument slope"},
 		{"eps_r", func() (quantity.Quantity, error) { return InteractionParameter(n3e11, m, q(1, "F/m")) }, true, "interaction_parameter: argument eps_r"},
 		{"sdh n", func() (quantity.Quantity, error) { return SdHFrequency(q(0, "cm^-2"), 2, 1) }, false, "sdh_frequency: argument n"},
 		{"DOS", func() (quantity.Quantity, error) { return DensityOfStates(q(1, "J"), 2, 1) }, true, "density_of_states: argument m"},

@@ -99,7 +99,7 @@ func MeanFreePath(mu, n quantity.Quantity, gs, gv int) (quantity.Quantity, error
 // (3.0000e11 cm^-2 for 2080.5 Ohm/T). The sign of the slope depends on wiring and field
 // polarity, so only its magnitude is used.
 func HallDensity(slope quantity.Quantity) (quantity.Quantity, error) {
-	if err := nonzero("hall_density_from_slope", "slope", slope, kHallSlope); err != nil {
+	if err := nonzero("hall_density", "slope", slope, kHallSlope); err != nil {
 		return quantity.Quantity{}, err
 	}
 	return quantity.Div(quantity.Scalar(1), quantity.Mul(cE, abs(slope))), nil

@@ -24,6 +24,9 @@ func VdpSheetResistance(R1, R2 quantity.Quantity) (quantity.Quantity, error) {
 		return quantity.Quantity{}, err
 	}
 	r1, r2 := R1.Value(), R2.Value()
+	if math.Min(r1, r2)/math.Max(r1, r2) < 1e-300 {
+		return quantity.Quantity{}, domain(fn, "R1, R2", "ratio %g/%g is beyond floating-point range; check the contacts and wiring", r1, r2)
+	}
 	rs := vdpSolve(r1, r2)
 	e1, e2 := math.Exp(-math.Pi*r1/rs), math.Exp(-math.Pi*r2/rs)
 	den := r1*e1 + r2*e2
