@@ -57,10 +57,16 @@ func FuzzFunctions(f *testing.F) {
 			{"transport_time", quantity.Time, func() (quantity.Quantity, error) { return TransportTime(quantity.New(x, mob), m) }},
 			{"mean_free_path", quantity.Length, func() (quantity.Quantity, error) { return MeanFreePath(quantity.New(x, mob), n, gs, gv) }},
 			{"hall_density", m2, func() (quantity.Quantity, error) { return HallDensity(quantity.New(x, quantity.MustUnit("Ohm/T").D)) }},
-			{"vdp", ohm, func() (quantity.Quantity, error) { return VdpSheetResistance(quantity.New(x, ohm), quantity.New(y, ohm)) }},
+			{"vdp", ohm, func() (quantity.Quantity, error) {
+				return VdpSheetResistance(quantity.New(x, ohm), quantity.New(y, ohm))
+			}},
 			{"interaction_parameter", quantity.Dimensionless, func() (quantity.Quantity, error) { return InteractionParameter(n, m, num) }},
-			{"dirac_fermi_energy", J, func() (quantity.Quantity, error) { return DiracFermiEnergy(n, quantity.New(x, quantity.MustUnit("m/s").D)) }},
-			{"dirac_cyclotron_mass", quantity.Mass, func() (quantity.Quantity, error) { return DiracCyclotronMass(n, quantity.New(x, quantity.MustUnit("m/s").D)) }},
+			{"dirac_fermi_energy", J, func() (quantity.Quantity, error) {
+				return DiracFermiEnergy(n, quantity.New(x, quantity.MustUnit("m/s").D))
+			}},
+			{"dirac_cyclotron_mass", quantity.Mass, func() (quantity.Quantity, error) {
+				return DiracCyclotronMass(n, quantity.New(x, quantity.MustUnit("m/s").D))
+			}},
 			{"squares", quantity.Dimensionless, func() (quantity.Quantity, error) {
 				h := HallBar{Width: quantity.New(w, quantity.Length), Probes: []Probe{
 					{Name: "a", Position: quantity.New(x, quantity.Length), Side: "top"},
