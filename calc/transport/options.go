@@ -124,9 +124,8 @@ func pairs(x, y, s []float64, lo, hi float64) (xs, ys, ss []float64) {
 // coupling or resistive contacts; REFERENCE §6).
 func outOfPhase(d *Dataset, xc, yc *Column, lo, hi, frac float64) *Warning {
 	cands := []string{yc.Name + "_Y", yc.Name + "Y"}
-	up := strings.ToUpper(yc.Name)
-	if strings.HasSuffix(up, "_X") || strings.HasSuffix(up, "X") && len(up) > 1 {
-		cands = append(cands, yc.Name[:len(yc.Name)-1]+"Y")
+	if n := yc.Name; len(n) > 2 && strings.EqualFold(n[len(n)-2:], "_X") {
+		cands = append(cands, n[:len(n)-1]+"Y")
 	}
 	var ycol *Column
 	for _, n := range cands {
