@@ -1,0 +1,57 @@
+package band_test
+
+import (
+	"fmt"
+
+	"cleave/calc/band"
+)
+
+// An invented delta-doped wafer, listed from the surface down.
+func ExampleSolve() {
+	thick := func(s string) float64 { v, _ := band.ParseThickness(s); return v }
+	delta, _ := band.ParseDoping("Si delta 3e12 cm^-2")
+	bg, _ := band.ParseDoping("C 5e14 cm^-3")
+	st := band.Stack{Layers: []band.Layer{
+		{Name: "cap", Material: "GaAs", ThicknessM: thick("10 nm")},
+		{Name: "barrier", Material: "Al0.3Ga0.7As", ThicknessM: thick("300 nm")},
+		{Name: "doping", Material: "Al0.3Ga0.7As", Doping: delta},
+		{Name: "spacer", Material: "Al0.3Ga0.7As", ThicknessM: thick("30 nm")},
+		{Name: "buffer", Material: "GaAs", ThicknessM: thick("300 nm"), Doping: bg},
+	}}
+	r, err := band.Solve(st, band.Options{DonorDepthEV: 0.10})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	w := r.Density2D[len(r.Density2D)-1]
+	fmt.Printf("2DEG: %.2f e11 cm^-2 at %.0f nm\n", w.N2D/1e15, r.Subbands[0].MeanZ*1e9)
+	fmt.Printf("E0 = %.0f meV below E_F\n", -r.Subbands[0].E*1e3)
+	// Output:
+	// 2DEG: 2.46 e11 cm^-2 at 350 nm
+	// E0 = 9 meV below E_F
+}
+
+// The quick estimate of REFERENCE row 25: a Si delta layer 30 nm behind the interface.
+func ExampleAnalytic() {
+	r, err := band.Analytic(band.AnalyticInput{
+		DeltaEcEV: 0.25914, DonorDepthEV: 0.10, BarrierEpsR: 12.05, SpacerM: 30e-9,
+		ChannelMstar: 0.067, ChannelEpsR: 12.9,
+	})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("n = %.4g cm^-2, E0 = %.2f meV, <z> = %.1f nm\n", r.N2D/1e4, r.E0EV*1e3, 3/r.B*1e9)
+	// Output:
+	// n = 2.481e+11 cm^-2, E0 = 38.53 meV, <z> = 12.9 nm
+}
+
+func ExampleParseDoping() {
+	d, err := band.ParseDoping("Si delta 2.5e12 cm^-2")
+	fmt.Println(d.Species, d.Sheet, d.Density, err)
+	_, err = band.ParseDoping("Si 1e18 furlongs")
+	fmt.Println(err)
+	// Output:
+	// Si true 2.5e+16 <nil>
+	// bad doping "Si 1e18 furlongs", column 9: expected a unit: cm^-3 or m^-3 for bulk, cm^-2 or m^-2 for a sheet; found "furlongs"
+}
