@@ -173,7 +173,9 @@ func textKey(opt Options, path string, blocks []Block) string {
 		k.add("block")
 		for _, l := range b.Lines {
 			if l.Kind() == Code {
-				k.add(strconv.Itoa(l.LineNo), l.Code)
+				// Blanks before the marker never matter, and the first
+				// write adds two, so they are left out of the key.
+				k.add(strconv.Itoa(l.LineNo), strings.TrimRight(l.Code, " \t"))
 			}
 		}
 	}

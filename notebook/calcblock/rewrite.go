@@ -13,7 +13,7 @@ import (
 // backslash. A fenceLen below 3 is treated as 3.
 func Sanitize(result string, fence byte, fenceLen int) string {
 	fenceLen = max(fenceLen, 3)
-	r := strings.TrimSpace(strings.NewReplacer("\r\n", " ", "\r", " ", "\n", " ").Replace(result))
+	r := strings.TrimSpace(lineBreaks.Replace(result))
 	if fence != '`' && fence != '~' {
 		return r
 	}
@@ -43,6 +43,8 @@ func Sanitize(result string, fence byte, fenceLen int) string {
 	}
 	return b.String()
 }
+
+var lineBreaks = strings.NewReplacer("\r\n", " ", "\r", " ", "\n", " ")
 
 // edit replaces Raw[start:end] with text (an insertion when start == end).
 type edit struct {
