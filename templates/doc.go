@@ -11,13 +11,16 @@
 //
 //   - yq STRING: the string as a YAML scalar, quoted only where a plain scalar
 //     would read as something else (a number, a boolean, null, a date).
-//   - date STRING: a YYYY-MM-DD date as a plain YAML scalar ("" when empty).
+//   - date STRING: a YYYY-MM-DD date as a plain YAML scalar; nothing (YAML
+//     null) when empty.
 //
 // and the method .Parent (the first id given with --from, or "").
 //
 // Every rendered kind template is a valid entry: the front matter holds id and
 // kind, the parents are filled into the link fields of that kind (piece and
-// device: from; process: pieces; cooldown: devices), and every quantity field
+// device: from; process: pieces; cooldown: devices). A link with no parent
+// given is left empty (a YAML null, which the notebook reads as "not filled
+// in"; an empty string would read as a link to the id ""). Every quantity field
 // holds an example value with a unit, marked "# edit", never a bare number.
 // Calc blocks in the templates hold comment lines only, so a fresh entry
 // evaluates without error before the user fills it in.

@@ -93,10 +93,10 @@ func IsKind(name string) bool {
 
 var funcs = template.FuncMap{"yq": yamlScalar, "date": yamlDate}
 
-// yamlDate writes a YYYY-MM-DD date as a plain YAML scalar, "" when empty,
-// and anything else quoted by yamlScalar.
+// yamlDate writes a YYYY-MM-DD date as a plain YAML scalar, nothing (a YAML
+// null, "not filled in") when empty, and anything else quoted by yamlScalar.
 func yamlDate(s string) string {
-	if _, err := time.Parse(time.DateOnly, s); err == nil {
+	if _, err := time.Parse(time.DateOnly, s); err == nil || s == "" {
 		return s
 	}
 	return yamlScalar(s)
@@ -185,8 +185,8 @@ func Render(override fs.FS, name string, d Data) ([]byte, error) {
 			return nil, fmt.Errorf("template %q: %w (built-in: %s)", name, ErrUnknownTemplate, strings.Join(Names(), ", "))
 		}
 	}
-	var buf bytes.Buffer
-	if err := t.Execute(&buf, d); err != nil {
+	buf := &cappedBuffer{max: MaxOutput}
+	if err := t.Execute(buf, d); err != nil {
 		return nil, positioned(file, isOverride, err)
 	}
 	out := buf.Bytes()
@@ -194,6 +194,23 @@ func Render(override fs.FS, name string, d Data) ([]byte, error) {
 		return nil, &Error{File: file, Override: isOverride, Err: err}
 	}
 	return out, nil
+}
+
+// MaxOutput is the largest rendered entry Render returns, in bytes: a
+// template that writes more (a runaway range in a notebook's own template)
+// fails with an error instead of filling memory.
+const MaxOutput = 1 << 20
+
+type cappedBuffer struct {
+	bytes.Buffer
+	max int
+}
+
+func (b *cappedBuffer) Write(p []byte) (int, error) {
+	if b.Len()+len(p) > b.max {
+		return 0, fmt.Errorf("rendered output exceeds %d bytes", b.max)
+	}
+	return b.Buffer.Write(p)
 }
 
 func parse(file string, src []byte, override bool) (*template.Template, error) {
