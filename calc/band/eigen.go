@@ -76,7 +76,9 @@ func (t tridiag) lowest(cut float64, maxN int, hint []float64, spread float64) (
 		return nil, nil
 	}
 	scale := math.Max(math.Abs(glo), math.Abs(ghi))
-	tol := 4 * 2.220446049250313e-16 * scale
+	// Bisection stops at 1e-11 of the matrix scale; the Rayleigh quotient of the inverse-
+	// iteration vector then refines each eigenvalue to rounding level.
+	tol := 1e-11 * scale
 	lo := make([]float64, k)
 	hi := make([]float64, k)
 	for i := range lo {
@@ -165,6 +167,21 @@ func (t tridiag) lowest(cut float64, maxN int, hint []float64, spread float64) (
 			}
 		}
 		vecs[i] = x
+		// Rayleigh quotient xᵀTx (x has unit norm)
+		rq := 0.0
+		for j := 0; j < n; j++ {
+			tx := t.d[j] * x[j]
+			if j > 0 {
+				tx += t.e[j-1] * x[j-1]
+			}
+			if j < n-1 {
+				tx += t.e[j] * x[j+1]
+			}
+			rq += x[j] * tx
+		}
+		if math.Abs(rq-vals[i]) <= 2*tol {
+			vals[i] = rq
+		}
 	}
 	return vals, vecs
 }

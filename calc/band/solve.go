@@ -255,6 +255,9 @@ type states struct {
 	psi [][]float64 // per node, ∫ψ² dz = 1, length n+1 (zero at both ends)
 	dos []float64   // m*/(πħ²) per eV per m², spin 2
 	m   []float64   // m*/m_e
+	// lo, hi bound the nodes where |ψ|² exceeds 1e-14 of its peak; outside them the state
+	// adds nothing measurable to the density.
+	lo, hi []int
 }
 
 // schrodinger solves the BenDaniel–Duke equation on the potential v0 − φ, with ψ = 0 at
@@ -284,6 +287,19 @@ func (g *grid) schrodinger(phi []float64, hint []float64, spread float64) *state
 			psi[j] = v[j-1] * sq
 			mm += v[j-1] * v[j-1] * g.mNode[j]
 		}
+		peak := 0.0
+		for _, p := range psi {
+			peak = math.Max(peak, p*p)
+		}
+		lo, hi := 0, n
+		for lo < n && psi[lo]*psi[lo] < 1e-14*peak {
+			lo++
+		}
+		for hi > 0 && psi[hi]*psi[hi] < 1e-14*peak {
+			hi--
+		}
+		st.lo = append(st.lo, lo)
+		st.hi = append(st.hi, hi)
 		st.psi = append(st.psi, psi)
 		st.m = append(st.m, mm)
 		st.dos = append(st.dos, mm*me/(math.Pi*hbar*hbar)*qe)
@@ -321,16 +337,23 @@ func (g *grid) charge(phi, phiRef []float64, st *states, q, dq, nel []float64) {
 				shift = phi[j] - phiRef[j]
 			}
 			for i, e := range st.e {
-				p2 := st.psi[i][j] * st.psi[i][j]
-				if p2 == 0 {
+				if j < st.lo[i] || j > st.hi[i] {
 					continue
 				}
+				p2 := st.psi[i][j] * st.psi[i][j]
 				x := (shift - e) / kT
 				if x < -45 {
 					continue
 				}
-				nj += p2 * st.dos[i] * kT * f0(x)
-				dn += p2 * st.dos[i] * logistic(x)
+				// one exponential serves ln(1+eˣ) and the logistic 1/(1+e⁻ˣ)
+				ex := math.Exp(-math.Abs(x))
+				f, l := math.Log1p(ex), ex/(1+ex)
+				if x > 0 {
+					f += x
+					l = 1 / (1 + ex)
+				}
+				nj += p2 * st.dos[i] * kT * f
+				dn += p2 * st.dos[i] * l
 			}
 		}
 		ndp, dnd := 0.0, 0.0
