@@ -1,0 +1,190 @@
+package transport
+
+import (
+	"fmt"
+	"math"
+	"slices"
+
+	"gonum.org/v1/gonum/interp"
+)
+
+// SymResult is the outcome of Symmetrize or Antisymmetrize: one column put on
+// a common grid of |B| from the +B and −B branches of a data set.
+type SymResult struct {
+	B      []float64 // the common |B| grid, T, increasing
+	Values []float64 // (R(+B) ± R(−B))/2 on the grid, Ohm
+	Other  []float64 // the part that was removed, (R(+B) ∓ R(−B))/2, Ohm
+	Kind   string    // "symmetric" or "antisymmetric"
+
+	XCol, YCol   string
+	Plus, Minus  int // distinct field values on each branch after averaging repeats
+	BMin, BMax   float64
+	DataHash     string
+	RemovedRatio float64 // RMS(Other)/RMS(Values) over the grid
+	Warnings     []Warning
+}
+
+// WarnOddPart is raised by Symmetrize when R_xx differs between +B and −B
+// by more than 5 % (RMS; common practice): a density gradient makes the two
+// edges of a Hall bar differ and they swap under field reversal (PRACTICE §2).
+const WarnOddPart = "odd-part"
+
+// WarnNegative is raised when a symmetrised R_xx is negative somewhere
+// (REFERENCE §6): a wiring or offset problem.
+const WarnNegative = "negative-rxx"
+
+// Symmetrize returns R^sym(|B|) = [R(+B) + R(−B)]/2 of column ycol against
+// xcol (REFERENCE §2.8), the usual treatment of R_xx.
+//
+// Method: the points with B > 0 and those with B < 0 are taken as two
+// branches (a point at B = 0 belongs to both); on each branch points with the
+// same |B| (up and down sweeps, repeats) are averaged; both branches are
+// interpolated linearly (gonum/interp) onto a common grid that spans the
+// overlap of their |B| ranges, with as many points as the sparser branch has
+// inside the overlap. Data without both signs of B is an error wrapping
+// ErrNoField.
+//
+// Warnings: a negative symmetrised value; an antisymmetric part above 5 % of
+// the symmetric one (RMS; common practice).
+func Symmetrize(d *Dataset, xcol, ycol string) (*SymResult, error) {
+	return symmetrize(d, xcol, ycol, +1)
+}
+
+// Antisymmetrize returns R^anti(|B|) = [R(+B) − R(−B)]/2 of column ycol
+// against xcol (REFERENCE §2.8), the usual treatment of R_xy: it removes the
+// R_xx pick-up of misaligned Hall probes. The method is that of Symmetrize.
+// It warns (WarnEvenPart) when the removed even part exceeds 1 % of the odd
+// part (RMS; REFERENCE §6 sets that bound for |R_xy(+B) + R_xy(−B)|).
+func Antisymmetrize(d *Dataset, xcol, ycol string) (*SymResult, error) {
+	return symmetrize(d, xcol, ycol, -1)
+}
+
+// branch is one field polarity: |B| strictly increasing, repeats averaged.
+type branch struct{ b, y []float64 }
+
+func makeBranch(B, R []float64, sign float64) branch {
+	type pt struct{ b, y float64 }
+	var pts []pt
+	for i := range B {
+		if math.IsNaN(B[i]) || math.IsNaN(R[i]) || math.IsInf(B[i], 0) || math.IsInf(R[i], 0) {
+			continue
+		}
+		if B[i] == 0 || math.Signbit(B[i]) == (sign < 0) {
+			pts = append(pts, pt{math.Abs(B[i]), R[i]})
+		}
+	}
+	slices.SortFunc(pts, func(a, b pt) int {
+		switch {
+		case a.b < b.b:
+			return -1
+		case a.b > b.b:
+			return 1
+		}
+		return 0
+	})
+	var br branch
+	for i := 0; i < len(pts); {
+		j, s := i, 0.0
+		for j < len(pts) && pts[j].b == pts[i].b {
+			s += pts[j].y
+			j++
+		}
+		br.b = append(br.b, pts[i].b)
+		br.y = append(br.y, s/float64(j-i))
+		i = j
+	}
+	return br
+}
+
+func (br branch) countIn(lo, hi float64) int {
+	n := 0
+	for _, b := range br.b {
+		if b >= lo && b <= hi {
+			n++
+		}
+	}
+	return n
+}
+
+func symmetrize(d *Dataset, xcol, ycol string, sign float64) (*SymResult, error) {
+	kind, what := "symmetric", "symmetrize"
+	if sign < 0 {
+		kind, what = "antisymmetric", "antisymmetrize"
+	}
+	xc, err := column(d, xcol, DimField, "magnetic field")
+	if err != nil {
+		return nil, err
+	}
+	yc, err := column(d, ycol, DimResistance, "resistance")
+	if err != nil {
+		return nil, err
+	}
+	plus := makeBranch(xc.Values, yc.Values, +1)
+	minus := makeBranch(xc.Values, yc.Values, -1)
+	if countNonZero(plus.b) == 0 || countNonZero(minus.b) == 0 {
+		return nil, fmt.Errorf("%s: %s %s: the data need both B > 0 and B < 0 (got %d and %d field values): %w",
+			d.Name, what, yc.Name, countNonZero(plus.b), countNonZero(minus.b), ErrNoField)
+	}
+	lo := math.Max(plus.b[0], minus.b[0])
+	hi := math.Min(plus.b[len(plus.b)-1], minus.b[len(minus.b)-1])
+	m := min(plus.countIn(lo, hi), minus.countIn(lo, hi))
+	if len(plus.b) < 2 || len(minus.b) < 2 || !(hi > lo) || m < 2 {
+		return nil, fmt.Errorf("%s: %s %s: the +B and −B branches overlap in fewer than 2 points (|B| %g–%g T): %w",
+			d.Name, what, yc.Name, lo, hi, ErrTooFewPoints)
+	}
+	var fp, fm interp.PiecewiseLinear
+	if err := fp.Fit(plus.b, plus.y); err != nil {
+		return nil, fmt.Errorf("%s: %s: %v: %w", d.Name, what, err, ErrBadArgument)
+	}
+	if err := fm.Fit(minus.b, minus.y); err != nil {
+		return nil, fmt.Errorf("%s: %s: %v: %w", d.Name, what, err, ErrBadArgument)
+	}
+	res := &SymResult{Kind: kind, XCol: xc.Name, YCol: yc.Name, Plus: len(plus.b), Minus: len(minus.b),
+		BMin: lo, BMax: hi, DataHash: d.Hash,
+		B: make([]float64, m), Values: make([]float64, m), Other: make([]float64, m)}
+	var sv, so float64
+	neg := 0
+	for i := range res.B {
+		b := lo + (hi-lo)*float64(i)/float64(m-1)
+		p, q := fp.Predict(b), fm.Predict(b)
+		res.B[i] = b
+		res.Values[i] = (p + sign*q) / 2
+		res.Other[i] = (p - sign*q) / 2
+		sv += res.Values[i] * res.Values[i]
+		so += res.Other[i] * res.Other[i]
+		if sign > 0 && res.Values[i] < 0 {
+			neg++
+		}
+	}
+	if sv > 0 {
+		res.RemovedRatio = math.Sqrt(so / sv)
+	} else if so > 0 {
+		res.RemovedRatio = math.Inf(1)
+	}
+	if sign > 0 {
+		if neg > 0 {
+			res.Warnings = append(res.Warnings, Warning{WarnNegative, fmt.Sprintf(
+				"symmetrised %s is negative at %d of %d grid points: check the wiring and offsets", yc.Name, neg, m)})
+		}
+		if res.RemovedRatio > 0.05 {
+			res.Warnings = append(res.Warnings, Warning{WarnOddPart, fmt.Sprintf(
+				"%s differs between +B and −B: the odd part is %.1f %% of the even part (RMS; tolerance 5 %%, common practice): density gradient? record which contact pair was used",
+				yc.Name, 100*res.RemovedRatio)})
+		}
+	} else if res.RemovedRatio > 0.01 {
+		res.Warnings = append(res.Warnings, Warning{WarnEvenPart, fmt.Sprintf(
+			"%s has an even part of %.1f %% of the odd part (RMS; bound 1 %%, REFERENCE §6): R_xx pick-up from misaligned probes",
+			yc.Name, 100*res.RemovedRatio)})
+	}
+	return res, nil
+}
+
+func countNonZero(b []float64) int {
+	n := 0
+	for _, v := range b {
+		if v != 0 {
+			n++
+		}
+	}
+	return n
+}
