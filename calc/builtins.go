@@ -159,8 +159,11 @@ const maxLinkHops = 40
 // check needs an FS that implements fs.ReadLinkFS (os.DirFS and fstest.MapFS do); an FS
 // without it is trusted not to follow links out of its root (an os.Root's FS never does).
 func (e *Env) OpenData(p string) (Value, error) {
+	if err := checkDataPath(p); err != nil {
+		return nil, err
+	}
 	if e.fsys == nil {
-		return nil, fmt.Errorf("%w: no notebook folder is open, so data(%q) cannot be read", ErrPath, p)
+		return nil, fmt.Errorf("no notebook folder is open, so data(%s) cannot be read", quoteString(p))
 	}
 	name, real, err := e.resolveDataPath(p)
 	if err != nil {
@@ -189,15 +192,8 @@ func (e *Env) OpenData(p string) (Value, error) {
 // resolveDataPath returns the cleaned notebook path of p and the path with symbolic links
 // resolved.
 func (e *Env) resolveDataPath(p string) (string, string, error) {
-	switch {
-	case p == "":
-		return "", "", fmt.Errorf("%w: empty path", ErrPath)
-	case strings.HasPrefix(p, "/") || strings.HasPrefix(p, `\`) || len(p) >= 2 && p[1] == ':':
-		return "", "", fmt.Errorf("%w: %q is absolute; write a path relative to the entry", ErrPath, p)
-	case strings.Contains(p, `\`):
-		return "", "", fmt.Errorf("%w: %q contains a backslash; use / between folders", ErrPath, p)
-	case strings.ContainsRune(p, 0):
-		return "", "", fmt.Errorf("%w: %q contains a NUL byte", ErrPath, p)
+	if err := checkDataPath(p); err != nil {
+		return "", "", err
 	}
 	dir := e.dir
 	if dir == "" {
@@ -209,6 +205,21 @@ func (e *Env) resolveDataPath(p string) (string, string, error) {
 	}
 	real, err := e.followLinks(name, p)
 	return name, real, err
+}
+
+// checkDataPath refuses paths that cannot be relative slash paths.
+func checkDataPath(p string) error {
+	switch {
+	case p == "":
+		return fmt.Errorf("%w: empty path", ErrPath)
+	case strings.HasPrefix(p, "/") || strings.HasPrefix(p, `\`) || len(p) >= 2 && p[1] == ':':
+		return fmt.Errorf("%w: %q is absolute; write a path relative to the entry", ErrPath, p)
+	case strings.Contains(p, `\`):
+		return fmt.Errorf("%w: %q contains a backslash; use / between folders", ErrPath, p)
+	case strings.ContainsRune(p, 0):
+		return fmt.Errorf("%w: %q contains a NUL byte", ErrPath, p)
+	}
+	return nil
 }
 
 func inside(name string) bool {

@@ -5,6 +5,7 @@ import (
 	"io/fs"
 	"math"
 	"sort"
+	"strconv"
 	"strings"
 
 	"cleave/calc/constants"
@@ -56,13 +57,23 @@ func (f *Func) Signature() string {
 	for i, p := range f.Params {
 		parts[i] = p.Name
 		if p.Default != nil {
-			parts[i] += "=" + Display(p.Default)
+			parts[i] += "=" + displayDefault(p.Default)
 		}
 		if f.Variadic && i == len(f.Params)-1 {
 			parts[i] += "..."
 		}
 	}
 	return f.Name + "(" + strings.Join(parts, ", ") + ")"
+}
+
+// displayDefault shows a whole dimensionless default as an integer ("gs=2").
+func displayDefault(v Value) string {
+	if q, ok := v.(Quantity); ok && q.Q.Dim().IsDimensionless() && !q.Q.HasUncertainty() {
+		if x := q.Q.Value(); x == math.Trunc(x) && math.Abs(x) < 1e15 {
+			return strconv.FormatFloat(x, 'f', -1, 64)
+		}
+	}
+	return Display(v)
 }
 
 // Env is the evaluation environment of one Markdown file: its variables in definition
@@ -281,7 +292,7 @@ func (e *Env) lookupName(id *Ident) (Value, error) {
 	}
 	if ln, ok := e.failed[id.Name]; ok {
 		return nil, &Error{Line: id.Pos.Line, Col: id.Pos.Col, Err: ErrUnknownName,
-			Msg: "\"" + id.Name + "\" has no value: its definition on line " + itoa(ln) + " failed"}
+			Msg: "\"" + id.Name + "\" has no value: its definition on line " + strconv.Itoa(ln) + " failed"}
 	}
 	msg := "unknown name \"" + id.Name + "\""
 	if s := nearest(id.Name, e.knownNames()); s != "" {
@@ -371,26 +382,4 @@ func editDistance(a, b string) int {
 		prev, cur = cur, prev
 	}
 	return prev[len(rb)]
-}
-
-func itoa(n int) string {
-	if n == 0 {
-		return "0"
-	}
-	neg := n < 0
-	if neg {
-		n = -n
-	}
-	var b [20]byte
-	i := len(b)
-	for n > 0 {
-		i--
-		b[i] = byte('0' + n%10)
-		n /= 10
-	}
-	if neg {
-		i--
-		b[i] = '-'
-	}
-	return string(b[i:])
 }

@@ -172,7 +172,7 @@ func (e *Env) evalNumber(n *NumberLit) (Value, error) {
 			}
 			if uu.D != unit.D {
 				return nil, posErr(n.UncUPos, &quantity.DimError{Op: "±", Left: unit.D, Right: uu.D},
-					"the uncertainty's unit %s (%s) does not match the value's unit %s (%s)", n.UncUnit, dimName(uu.D), n.Unit, dimName(unit.D))
+					"the uncertainty is in %s but the value is in %s: their dimensions differ (%s vs %s)", n.UncUnit, n.Unit, dimName(uu.D), dimName(unit.D))
 			}
 			uScale = uu.Scale
 		}

@@ -1,0 +1,239 @@
+package calc
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"io"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"testing/fstest"
+
+	"cleave/calc/quantity"
+)
+
+// mapResolver is a notebook stand-in: an invented device D-7 on piece P-3 of wafer W-2.
+type mapResolver map[string]Value
+
+func (m mapResolver) Lookup(name string) (Value, bool) { v, ok := m[name]; return v, ok }
+func (m mapResolver) Names() []string {
+	var out []string
+	for k := range m {
+		out = append(out, k)
+	}
+	return out
+}
+
+func demoResolver(t *testing.T) mapResolver {
+	t.Helper()
+	mustQ := func(s string) Value {
+		q, err := quantity.ParseQuantity(s)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return Q(q)
+	}
+	return mapResolver{
+		"device": NewRecord("", "width", mustQ("100 um"), "length", mustQ("500 um"),
+			"mask", NewRecord("", "name", String("HB-100"), "arm", mustQ("10 um"))),
+		"width": mustQ("100 um"),
+	}
+}
+
+// TestDeps checks that reading notebook fields records their paths.
+func TestDeps(t *testing.T) {
+	e := NewEnv(WithResolver(demoResolver(t)))
+	lines := []string{
+		"sq = device.length / device.width",
+		"w = width",
+		"a = device.mask.arm",
+		"r = 50 Ohm / sq",
+	}
+	for i, l := range lines {
+		if r := e.EvalLine(l, i+1); r.Err != nil {
+			t.Fatalf("%s: %v", l, r.Err)
+		}
+	}
+	want := []string{"field:device.length", "field:device.mask.arm", "field:device.width", "field:width"}
+	if got := e.Deps(); !equalStrings(got, want) {
+		t.Errorf("Deps() = %v, want %v", got, want)
+	}
+	q := evalQ(t, e, "r")
+	if got, _ := q.In(quantity.MustUnit("Ohm")); !within(got, 10, 1e-12) {
+		t.Errorf("r = %g Ohm, want 10 (50 Ohm over 5 squares)", got)
+	}
+	// A misspelt field names the record and suggests the right one.
+	r := e.EvalLine("device.widht", 9)
+	if r.Err == nil || !strings.Contains(r.Err.Error(), `device has no field "widht" (did you mean width?)`) {
+		t.Errorf("got %v", r.Err)
+	}
+	// Unknown names are suggested from the resolver too.
+	r = e.EvalLine("devise.width", 10)
+	if r.Err == nil || !strings.Contains(r.Err.Error(), "did you mean device?") {
+		t.Errorf("got %v", r.Err)
+	}
+}
+
+func sha(b string) string {
+	s := sha256.Sum256([]byte(b))
+	return "sha256:" + hex.EncodeToString(s[:])
+}
+
+// TestData checks data() path resolution, refusal of paths that leave the notebook, the
+// dependency with its content hash, and the loader hook.
+func TestData(t *testing.T) {
+	csv := "B_T,Rxy_Ohm\n0,0\n1,2080.5\n"
+	fsys := fstest.MapFS{
+		"cooldowns/cd-01/raw/hall.csv": {Data: []byte(csv)},
+		"shared/cal.csv":               {Data: []byte("x\n1\n")},
+		"cooldowns/cd-01/link.csv":     {Data: []byte("../../shared/cal.csv"), Mode: fs.ModeSymlink},
+		"cooldowns/cd-01/escape.csv":   {Data: []byte("../../../outside.csv"), Mode: fs.ModeSymlink},
+		"cooldowns/cd-01/abs.csv":      {Data: []byte("/etc/hosts"), Mode: fs.ModeSymlink},
+	}
+	tests := []struct {
+		arg     string
+		want    string // resolved path, or "" for an error
+		wantErr error
+	}{
+		{"raw/hall.csv", "cooldowns/cd-01/raw/hall.csv", nil},
+		{"./raw/../raw/hall.csv", "cooldowns/cd-01/raw/hall.csv", nil},
+		{"../../shared/cal.csv", "shared/cal.csv", nil},
+		{"link.csv", "cooldowns/cd-01/link.csv", nil},
+		{"../../../outside.csv", "", ErrPath},
+		{"/etc/passwd", "", ErrPath},
+		{`C:\data\x.csv`, "", ErrPath},
+		{`raw\hall.csv`, "", ErrPath},
+		{"escape.csv", "", ErrPath},
+		{"abs.csv", "", ErrPath},
+		{"raw/missing.csv", "", nil},
+	}
+	for _, tc := range tests {
+		e := NewEnv(WithFS(fsys, "cooldowns/cd-01"))
+		v, err := e.Eval("data(" + quoteString(tc.arg) + ")")
+		if tc.want == "" {
+			if err == nil {
+				t.Errorf("data(%q) = %v, want an error", tc.arg, Display(v))
+				continue
+			}
+			if tc.wantErr != nil && !errors.Is(err, tc.wantErr) {
+				t.Errorf("data(%q): %v, want %v", tc.arg, err, tc.wantErr)
+			}
+			var ce *Error
+			if !errors.As(err, &ce) || ce.Col != 6 {
+				t.Errorf("data(%q): %v, want an *Error at column 6", tc.arg, err)
+			}
+			continue
+		}
+		if err != nil {
+			t.Errorf("data(%q): %v", tc.arg, err)
+			continue
+		}
+		df, ok := v.(*DataFile)
+		if !ok || df.Path != tc.want {
+			t.Errorf("data(%q) = %#v, want path %s", tc.arg, v, tc.want)
+			continue
+		}
+		b, _ := fs.ReadFile(fsys, "cooldowns/cd-01/raw/hall.csv")
+		if tc.want == "cooldowns/cd-01/raw/hall.csv" && df.Hash != sha(string(b)) {
+			t.Errorf("hash %s, want %s", df.Hash, sha(string(b)))
+		}
+		if got := e.Deps(); len(got) != 1 || got[0] != "file:"+tc.want {
+			t.Errorf("Deps() = %v, want [file:%s]", got, tc.want)
+		}
+		if h, ok := e.DepHash("file:" + tc.want); !ok || h != df.Hash {
+			t.Errorf("DepHash = %q, want %q", h, df.Hash)
+		}
+	}
+
+	// The loader hook receives the bytes.
+	old := DataLoader
+	t.Cleanup(func() { DataLoader = old })
+	DataLoader = func(name string, r io.Reader) (Value, error) {
+		b, err := io.ReadAll(r)
+		if err != nil {
+			return nil, err
+		}
+		return NewRecord("", "name", String(name), "lines", Q(quantity.Scalar(float64(strings.Count(string(b), "\n"))))), nil
+	}
+	e := NewEnv(WithFS(fsys, "cooldowns/cd-01"))
+	v, err := e.Eval(`data("raw/hall.csv").lines`)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if q := v.(Quantity).Q.Value(); q != 3 {
+		t.Errorf("loader saw %g lines, want 3", q)
+	}
+}
+
+// TestDataSymlinkOnDisk checks the link rule on a real directory through os.DirFS.
+func TestDataSymlinkOnDisk(t *testing.T) {
+	outside := t.TempDir()
+	root := t.TempDir()
+	if err := os.WriteFile(filepath.Join(outside, "secret.csv"), []byte("s\n"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.MkdirAll(filepath.Join(root, "e"), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(filepath.Join(root, "e", "ok.csv"), []byte("ok\n"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	if err := os.Symlink(filepath.Join(outside, "secret.csv"), filepath.Join(root, "e", "out.csv")); err != nil {
+		t.Skipf("symlinks unavailable: %v", err)
+	}
+	if err := os.Symlink("ok.csv", filepath.Join(root, "e", "in.csv")); err != nil {
+		t.Fatal(err)
+	}
+	e := NewEnv(WithFS(os.DirFS(root), "e"))
+	if _, err := e.Eval(`data("out.csv")`); !errors.Is(err, ErrPath) {
+		t.Errorf("link to outside: err = %v, want ErrPath", err)
+	}
+	v, err := e.Eval(`data("in.csv")`)
+	if err != nil {
+		t.Fatalf("link inside: %v", err)
+	}
+	if df := v.(*DataFile); df.Hash != sha("ok\n") {
+		t.Errorf("hash %s, want %s", df.Hash, sha("ok\n"))
+	}
+}
+
+// TestRegister checks argument matching for a user-registered function: positional then
+// named, defaults, variadic, and the error messages naming the parameters.
+func TestRegister(t *testing.T) {
+	e := NewEnv()
+	e.Register(Func{Name: "lin", Params: []Param{{Name: "a"}, {Name: "b", Default: Q(quantity.Scalar(10))}},
+		Call: func(_ *Env, args []Value) (Value, error) {
+			a, err := argQuantity(args, 0)
+			if err != nil {
+				return nil, err
+			}
+			b, err := argQuantity(args, 1)
+			if err != nil {
+				return nil, err
+			}
+			return Q(quantity.Mul(a, b)), nil
+		}})
+	for _, tc := range []struct {
+		expr string
+		want float64
+	}{{"lin(2)", 20}, {"lin(2, 3)", 6}, {"lin(b=4, a=2)", 8}, {"lin(2, b=5)", 10}} {
+		if got := evalQ(t, e, tc.expr).Value(); got != tc.want {
+			t.Errorf("%s = %g, want %g", tc.expr, got, tc.want)
+		}
+	}
+	for _, tc := range []struct{ expr, msg string }{
+		{"lin()", "missing argument a: lin(a, b=10)"},
+		{"lin(1, 2, 3)", "too many arguments"},
+		{"lin(1, a=2)", "argument a given twice"},
+		{"lin(c=1)", `lin has no parameter "c"`},
+		{`lin("x")`, "needs a quantity, found a string"},
+	} {
+		_, err := e.Eval(tc.expr)
+		if err == nil || !strings.Contains(err.Error(), tc.msg) {
+			t.Errorf("%s: %v, want %q", tc.expr, err, tc.msg)
+		}
+	}
+}

@@ -1,0 +1,53 @@
+package calc
+
+import (
+	"errors"
+	"io/fs"
+	"strings"
+	"testing"
+	"testing/fstest"
+	"unicode/utf8"
+)
+
+var evalSeeds = []string{
+	"x = 5 ± 0.1 T", "x - x", "fermi_energy(3e11 cm^-2, GaAs, gs=1)", "magnetic_length(0 T)",
+	"landau_level(-3, 1 T, GaAs)", "dirac_landau_level(-2, 9 T, graphene)", "1 / 0", "0 ^ -1",
+	"(-8)^(1/3)", "sqrt(2 m)", "ln(0)", "exp(1000)", `data("../x")`, `data("raw/a.csv").hash`,
+	"device.width * 2", "vdp_sheet_resistance(0 Ohm, 0 Ohm)", "vdp_sheet_resistance(-1 Ohm, 5 Ohm)",
+	"hall_resistance(0)", "filling_factor(3e11 cm^-2, -5 T)", "mean([])", "min(1 T, [2 T])",
+	"1e308 * 1e308", "3.07(4)e400 cm^-2", "0.067 m_e -> meV", "[1, 2] -> T", "GaAs -> T",
+	"Al1.5Ga-0.5As.mstar", "sdh_frequency(3e11 cm^-2, gs=0)", "E = 2 meV -> ueV",
+}
+
+// FuzzEval: evaluating any line never panics, and every error is a *Error on that line
+// with a column inside the line (or just past its end).
+func FuzzEval(f *testing.F) {
+	for _, s := range append(evalSeeds, parseSeeds...) {
+		f.Add(s)
+	}
+	fsys := fstest.MapFS{
+		"e/raw/a.csv": {Data: []byte("B,R\n0,1\n")},
+		"e/up.csv":    {Data: []byte("../../x"), Mode: fs.ModeSymlink},
+	}
+	f.Fuzz(func(t *testing.T, line string) {
+		if !utf8.ValidString(line) || strings.ContainsAny(line, "\r\n") {
+			t.Skip("a calc line is one line of UTF-8 text")
+		}
+		e := NewEnv(WithFS(fsys, "e"), WithResolver(demoResolver(t)))
+		e.EvalLine("x = 5 ± 0.1 T", 1)
+		r := e.EvalLine(line, 2)
+		if r.Err == nil {
+			if (r.Kind == Assign || r.Kind == Expr) && r.Value == nil {
+				t.Fatalf("%q: no error and no value", line)
+			}
+			return
+		}
+		var ce *Error
+		if !errors.As(r.Err, &ce) {
+			t.Fatalf("%q: error %v is not a *Error", line, r.Err)
+		}
+		if n := utf8.RuneCountInString(line); ce.Line != 2 || ce.Col < 1 || ce.Col > n+1 {
+			t.Fatalf("%q: error at %d:%d, outside line 2 of %d characters: %v", line, ce.Line, ce.Col, n, ce)
+		}
+	})
+}
