@@ -1,0 +1,58 @@
+package notebook
+
+import (
+	"bytes"
+	"fmt"
+	"testing"
+	"testing/fstest"
+	"time"
+)
+
+// FuzzLoad loads a two-file notebook whose second file has fuzzed front
+// matter and body. Load and Validate must not panic, and every problem must
+// point inside its file: 1 ≤ line ≤ number of lines, col ≥ 1.
+func FuzzLoad(f *testing.F) {
+	f.Add("id: W1\nkind: wafer", "## Layers\n\n| material | thickness |\n|---|---|\n| GaAs | 10 nm |\n")
+	f.Add("id: P1\nkind: piece\nfrom: W0\nwidth: 20", "body")
+	f.Add("id: D1\nkind: device\nfrom: [W0, W0]\nmask: W0", "")
+	f.Add("substrate: [GaAs\n", "")
+	f.Add("- a\n- b", "---\n")
+	f.Add("a: &x [*x]\nid: *x\nkind: *x", "")
+	f.Add("id: P2\nkind: piece\nfrom: P2", "")
+	f.Add("id: W2\nkind: wafer", "## Layers\n\n|\tmaterial | thickness |\n|--|--|\n|\t| 5 K |\n> | a |\n")
+	f.Add("id: W3\r\nkind: wafer\r\nprobes:\n  - 1\n  x: 2", "\xef\xbb\xbf")
+	f.Fuzz(func(t *testing.T, front, body string) {
+		watchdog := time.AfterFunc(30*time.Second, func() {
+			panic(fmt.Sprintf("FuzzLoad: no answer after 30 s for front=%q body=%q", front, body))
+		})
+		defer watchdog.Stop()
+		fsys := fstest.MapFS{
+			"wafers/W0.md": {Data: []byte("---\nid: W0\nkind: wafer\n---\n")},
+			"x/fuzz.md":    {Data: []byte("---\n" + front + "\n---\n" + body)},
+			"x/raw.md":     {Data: []byte(front + body)},
+		}
+		nb, err := Load(fsys)
+		if err != nil {
+			t.Fatal(err)
+		}
+		ps := nb.Validate()
+		for _, p := range ps {
+			fl, ok := nb.File(p.Path)
+			if !ok {
+				t.Fatalf("problem in unknown file: %v", p)
+			}
+			lines := bytes.Count(fl.Src.Raw, []byte("\n")) + 1
+			if p.Line < 1 || p.Line > lines || p.Col < 1 {
+				t.Fatalf("position outside the file (%d lines): %v", lines, p)
+			}
+		}
+		for _, e := range nb.Entries {
+			_ = nb.Context(e)
+			_ = e.Links()
+		}
+		var b bytes.Buffer
+		if err := nb.Tree(&b, ""); err != nil {
+			t.Fatal(err)
+		}
+	})
+}

@@ -1,0 +1,197 @@
+package notebook
+
+import (
+	"slices"
+	"strings"
+)
+
+// index builds the id map and the lineage graph. A link to a missing id, or to
+// an entry of a kind the field does not allow, is left out of the graph (and
+// reported by Validate).
+func (nb *Notebook) index() {
+	nb.byID = make(map[string]*Entry, len(nb.Entries))
+	nb.dups = map[string][]*Entry{}
+	for _, e := range nb.Entries {
+		if first, ok := nb.byID[e.ID]; ok {
+			if len(nb.dups[e.ID]) == 0 {
+				nb.dups[e.ID] = []*Entry{first}
+			}
+			nb.dups[e.ID] = append(nb.dups[e.ID], e)
+			continue
+		}
+		nb.byID[e.ID] = e
+	}
+	nb.parents = make(map[*Entry][]*Entry, len(nb.Entries))
+	nb.children = make(map[*Entry][]*Entry, len(nb.Entries))
+	for _, e := range nb.Entries {
+		if nb.byID[e.ID] != e {
+			continue // a duplicate: its links would make the graph ambiguous
+		}
+		fields := map[string]Field{}
+		for _, f := range linkFields(e.Kind) {
+			fields[f.Name] = f
+		}
+		for _, l := range e.Links() {
+			t, ok := nb.byID[l.ID]
+			if !ok || !slices.Contains(fields[l.Field].Kinds, t.Kind) || slices.Contains(nb.parents[e], t) {
+				continue
+			}
+			nb.parents[e] = append(nb.parents[e], t)
+			nb.children[t] = append(nb.children[t], e)
+		}
+	}
+	for _, cs := range nb.children {
+		slices.SortFunc(cs, byKindThenID)
+	}
+}
+
+// childOrder is the order in which children are listed: devices before the
+// processes that also lead to them, so a tree reads wafer → piece → device.
+var childOrder = map[Kind]int{KindPiece: 0, KindDevice: 1, KindCooldown: 2, KindProcess: 3, KindMask: 4, KindWafer: 5}
+
+func byKindThenID(a, b *Entry) int {
+	ka, okA := childOrder[a.Kind]
+	kb, okB := childOrder[b.Kind]
+	if !okA {
+		ka = 99
+	}
+	if !okB {
+		kb = 99
+	}
+	if ka != kb {
+		return ka - kb
+	}
+	if c := strings.Compare(a.ID, b.ID); c != 0 {
+		return c
+	}
+	return strings.Compare(a.Path, b.Path)
+}
+
+// Parents returns the entries that e links to (from, mask, process, pieces,
+// devices), in link order. Links to missing entries or to the wrong kind are
+// not included.
+func (nb *Notebook) Parents(e *Entry) []*Entry { return slices.Clone(nb.parents[e]) }
+
+// Children returns the entries that link to e, ordered by kind (piece,
+// device, cooldown, process) then id.
+func (nb *Notebook) Children(e *Entry) []*Entry { return slices.Clone(nb.children[e]) }
+
+// Ancestors returns the ancestors of the entry with the given id, nearest
+// first (breadth first; within one generation in link order). It is nil for
+// an unknown id. Cycles do not make it loop.
+func (nb *Notebook) Ancestors(id string) []*Entry {
+	e, ok := nb.byID[id]
+	if !ok {
+		return nil
+	}
+	return nb.walk(e, nb.parents)
+}
+
+// Descendants returns the descendants of the entry with the given id,
+// nearest first (breadth first; within one generation by kind then id).
+func (nb *Notebook) Descendants(id string) []*Entry {
+	e, ok := nb.byID[id]
+	if !ok {
+		return nil
+	}
+	return nb.walk(e, nb.children)
+}
+
+func (nb *Notebook) walk(start *Entry, next map[*Entry][]*Entry) []*Entry {
+	seen := map[*Entry]bool{start: true}
+	var out []*Entry
+	queue := []*Entry{start}
+	for len(queue) > 0 {
+		e := queue[0]
+		queue = queue[1:]
+		for _, n := range next[e] {
+			if !seen[n] {
+				seen[n] = true
+				out = append(out, n)
+				queue = append(queue, n)
+			}
+		}
+	}
+	return out
+}
+
+// Context returns e followed by its ancestors, nearest first: the entries a
+// calc block in e reads fields from (`device.width`, `mask.probes`,
+// `wafer.layers`).
+func (nb *Notebook) Context(e *Entry) []*Entry {
+	if e == nil {
+		return nil
+	}
+	out := []*Entry{e}
+	if nb.byID[e.ID] != e {
+		return out // a duplicate id has no place in the graph
+	}
+	return append(out, nb.walk(e, nb.parents)...)
+}
+
+// Nearest returns the first entry of kind k in e's context (e itself, then
+// its ancestors nearest first).
+func (nb *Notebook) Nearest(e *Entry, k Kind) (*Entry, bool) {
+	for _, c := range nb.Context(e) {
+		if c.Kind == k {
+			return c, true
+		}
+	}
+	return nil, false
+}
+
+// cycles returns each elementary cycle of the parent graph once, as a list of
+// entries starting at the one with the smallest path, found with a
+// depth-first search (Tarjan's strongly connected components would also do;
+// a lineage graph is small and nearly acyclic, so a colouring DFS suffices to
+// find one cycle through every back edge).
+func (nb *Notebook) cycles() [][]*Entry {
+	const (
+		white = iota
+		grey
+		black
+	)
+	colour := make(map[*Entry]int, len(nb.Entries))
+	var stack []*Entry
+	var found [][]*Entry
+	seen := map[string]bool{}
+	var visit func(e *Entry)
+	visit = func(e *Entry) {
+		colour[e] = grey
+		stack = append(stack, e)
+		for _, p := range nb.parents[e] {
+			switch colour[p] {
+			case white:
+				visit(p)
+			case grey:
+				i := slices.Index(stack, p)
+				cyc := slices.Clone(stack[i:])
+				// rotate so the smallest path comes first: one report per cycle
+				m := 0
+				for j := range cyc {
+					if cyc[j].Path < cyc[m].Path {
+						m = j
+					}
+				}
+				cyc = append(cyc[m:], cyc[:m]...)
+				var key []string
+				for _, c := range cyc {
+					key = append(key, c.Path)
+				}
+				k := strings.Join(key, "\x00")
+				if !seen[k] {
+					seen[k] = true
+					found = append(found, cyc)
+				}
+			}
+		}
+		stack = stack[:len(stack)-1]
+		colour[e] = black
+	}
+	for _, e := range nb.Entries {
+		if colour[e] == white && nb.byID[e.ID] == e {
+			visit(e)
+		}
+	}
+	return found
+}

@@ -1,0 +1,316 @@
+package notebook
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"path"
+	"path/filepath"
+	"regexp"
+	"runtime"
+	"sort"
+	"strconv"
+	"strings"
+	"sync"
+
+	"cleave/notebook/mdsrc"
+
+	"go.yaml.in/yaml/v3"
+)
+
+// Notebook is a loaded notebook.
+type Notebook struct {
+	Files    []*File  // every *.md file, sorted by path
+	Entries  []*Entry // every entry, sorted by path
+	Problems []Problem
+	byID     map[string]*Entry // first entry (in path order) for each id
+	dups     map[string][]*Entry
+	parents  map[*Entry][]*Entry // existing link targets, in link order, without repeats
+	children map[*Entry][]*Entry // reverse of parents, sorted for display
+}
+
+// FindRoot returns the top of the git work tree that contains dir: the
+// nearest directory at or above dir holding a `.git` file or directory.
+func FindRoot(dir string) (string, error) {
+	abs, err := filepath.Abs(dir)
+	if err != nil {
+		return "", fmt.Errorf("notebook root: %w", err)
+	}
+	for d := abs; ; {
+		if _, err := os.Lstat(filepath.Join(d, ".git")); err == nil {
+			return d, nil
+		}
+		up := filepath.Dir(d)
+		if up == d {
+			return "", fmt.Errorf("notebook root: no git work tree (no .git) at or above %s", abs)
+		}
+		d = up
+	}
+}
+
+// LoadDir loads the notebook in directory dir (see [Load]).
+func LoadDir(dir string) (*Notebook, error) {
+	return Load(os.DirFS(dir))
+}
+
+// Load reads every *.md file of fsys (skipping hidden files and directories,
+// `.git` and the top-level `templates/` folder), parses front matter and layer
+// tables and builds the lineage graph. Problems in files do not stop it: they
+// are collected in nb.Problems (see also [Notebook.Validate]). The error is
+// non-nil only when the file system itself cannot be walked.
+func Load(fsys fs.FS) (*Notebook, error) {
+	var paths []string
+	var walkProblems []Problem
+	err := fs.WalkDir(fsys, ".", func(p string, d fs.DirEntry, err error) error {
+		if err != nil {
+			if p == "." {
+				return err
+			}
+			walkProblems = append(walkProblems, Problem{Path: p, Line: 1, Col: 1, Msg: "cannot read: " + errText(err)})
+			return nil
+		}
+		name := d.Name()
+		if d.IsDir() {
+			if p != "." && (strings.HasPrefix(name, ".") || p == "templates") {
+				return fs.SkipDir
+			}
+			return nil
+		}
+		if strings.HasPrefix(name, ".") || !strings.HasSuffix(name, ".md") || !d.Type().IsRegular() {
+			return nil
+		}
+		paths = append(paths, p)
+		return nil
+	})
+	if err != nil {
+		return nil, fmt.Errorf("load notebook: %w", err)
+	}
+	sort.Strings(paths)
+
+	// Parse files in parallel; each result lands in its own slot so the
+	// outcome does not depend on scheduling.
+	type result struct {
+		file     *File
+		problems []Problem
+	}
+	results := make([]result, len(paths))
+	workers := min(runtime.GOMAXPROCS(0), max(len(paths), 1))
+	var next int
+	var mu sync.Mutex
+	var wg sync.WaitGroup
+	for range workers {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				mu.Lock()
+				i := next
+				next++
+				mu.Unlock()
+				if i >= len(paths) {
+					return
+				}
+				f, probs := loadFile(fsys, paths[i])
+				results[i] = result{f, probs}
+			}
+		}()
+	}
+	wg.Wait()
+
+	nb := &Notebook{Problems: walkProblems}
+	for _, r := range results {
+		nb.Files = append(nb.Files, r.file)
+		nb.Problems = append(nb.Problems, r.problems...)
+		if r.file.Entry != nil {
+			nb.Entries = append(nb.Entries, r.file.Entry)
+		}
+	}
+	nb.index()
+	sortProblems(nb.Problems)
+	return nb, nil
+}
+
+func errText(err error) string {
+	var pe *fs.PathError
+	if errors.As(err, &pe) {
+		return pe.Err.Error()
+	}
+	return err.Error()
+}
+
+var idPattern = regexp.MustCompile(`^[A-Za-z0-9._-]+$`)
+
+// ValidID reports whether id is a valid entry id: letters, digits, '-', '_', '.'.
+func ValidID(id string) bool { return idPattern.MatchString(id) }
+
+// loadFile reads and parses one file. It never returns a nil *File.
+func loadFile(fsys fs.FS, p string) (*File, []Problem) {
+	f := &File{Path: p}
+	raw, err := fs.ReadFile(fsys, p)
+	if err != nil {
+		f.Src, _ = mdsrc.Parse(nil)
+		return f, []Problem{{Path: p, Line: 1, Col: 1, Msg: "cannot read: " + errText(err)}}
+	}
+	src, err := mdsrc.Parse(raw)
+	f.Src = src
+	var probs []Problem
+	if err != nil {
+		var pe *mdsrc.PosError
+		if errors.As(err, &pe) {
+			probs = append(probs, Problem{Path: p, Line: max(pe.Line, 1), Col: max(pe.Col, 1), Msg: pe.Msg})
+		} else {
+			probs = append(probs, Problem{Path: p, Line: 1, Col: 1, Msg: err.Error()})
+		}
+	}
+	if src == nil {
+		f.Src, _ = mdsrc.Parse(nil)
+		return f, probs
+	}
+	if !src.HasFrontMatter {
+		return f, probs
+	}
+	e, eprobs := parseEntry(p, src)
+	f.Entry = e
+	probs = append(probs, eprobs...)
+	if e != nil && e.Kind == KindWafer {
+		probs = append(probs, e.readLayers()...)
+	}
+	return f, probs
+}
+
+// yamlParserProblem lists the problems the YAML parser (as opposed to its
+// scanner) reports; their line numbers are 0-based.
+var yamlParserProblem = map[string]bool{
+	"did not find expected <document start>": true,
+	"did not find expected node content":     true,
+	"did not find expected key":              true,
+	"did not find expected '-' indicator":    true,
+	"did not find expected ',' or ']'":       true,
+	"did not find expected ',' or '}'":       true,
+}
+
+var yamlLineMsg = regexp.MustCompile(`^yaml: line (\d+): (.*)$`)
+
+// parseEntry decodes the front matter. It returns nil (and problems) when the
+// front matter cannot give an entry (syntax error, not a mapping, no valid id).
+func parseEntry(p string, src *mdsrc.Source) (e *Entry, probs []Problem) {
+	delimLine := max(src.FrontMatterLine-1, 1) // the opening --- line
+	// The last line of the front matter text, used to keep YAML error
+	// positions inside the file.
+	lastLine, _ := src.Pos(src.FrontMatter.End)
+	lastLine = max(lastLine, delimLine)
+	prob := func(line, col int, format string, args ...any) {
+		probs = append(probs, Problem{Path: p, Line: line, Col: max(col, 1), Msg: fmt.Sprintf(format, args...)})
+	}
+	var doc yaml.Node
+	if err := decodeYAML(src.Raw[src.FrontMatter.Start:src.FrontMatter.End], &doc); err != nil {
+		line, msg := delimLine, err.Error()
+		if m := yamlLineMsg.FindStringSubmatch(msg); m != nil {
+			n, _ := strconv.Atoi(m[1])
+			if yamlParserProblem[m[2]] {
+				// yaml v3 numbers lines from 0 in parser (not scanner)
+				// errors: decode.go adds 1 only for scanner errors.
+				n++
+			}
+			line = min(n+src.FrontMatterLine-1, lastLine)
+			msg = m[2]
+		} else {
+			msg = strings.TrimPrefix(msg, "yaml: ")
+		}
+		prob(line, 1, "front matter: YAML syntax error: %s", msg)
+		return nil, probs
+	}
+	if doc.Kind == 0 || len(doc.Content) == 0 {
+		prob(delimLine, 1, "front matter is empty: expected at least `id:` and `kind:`")
+		return nil, probs
+	}
+	m := doc.Content[0]
+	tmp := &Entry{Path: p, Src: src, Meta: m}
+	if m.Kind != yaml.MappingNode {
+		line, col := tmp.Pos(m)
+		prob(line, col, "front matter must be a map of fields (`id: ...`, `kind: ...`), found a %s", nodeKindName(m))
+		return nil, probs
+	}
+	// Repeated keys: YAML decoding into a node does not catch them.
+	seen := map[string]int{}
+	for i := 0; i+1 < len(m.Content); i += 2 {
+		k := m.Content[i]
+		if first, ok := seen[k.Value]; ok {
+			line, col := tmp.Pos(k)
+			prob(line, col, "front matter: key `%s` repeated (first at line %d)", k.Value, first+src.FrontMatterLine-1)
+			continue
+		}
+		seen[k.Value] = k.Line
+	}
+	idNode, hasID := tmp.Field("id")
+	kindNode, hasKind := tmp.Field("kind")
+	ok := true
+	switch {
+	case !hasID:
+		prob(delimLine, 1, "front matter: missing `id` (an entry needs `id:` and `kind:`)")
+		ok = false
+	case idNode.Kind != yaml.ScalarNode || !ValidID(idNode.Value):
+		line, col := tmp.Pos(idNode)
+		prob(line, col, "id: %q is not a valid id: use letters, digits, '-', '_' and '.'", scalarOr(idNode))
+		ok = false
+	}
+	switch {
+	case !hasKind:
+		prob(delimLine, 1, "front matter: missing `kind` (one of %s)", kindList())
+		ok = false
+	case kindNode.Kind != yaml.ScalarNode:
+		line, col := tmp.Pos(kindNode)
+		prob(line, col, "kind: expected one of %s, found a %s", kindList(), nodeKindName(kindNode))
+		ok = false
+	}
+	if !ok {
+		return nil, probs
+	}
+	tmp.ID = idNode.Value
+	tmp.Kind = Kind(kindNode.Value)
+	return tmp, probs
+}
+
+// decodeYAML decodes into a node, turning a panic inside the YAML library
+// into an error so that bad input can never crash a load.
+func decodeYAML(b []byte, n *yaml.Node) (err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			err = fmt.Errorf("yaml: cannot parse: %v", r)
+		}
+	}()
+	return yaml.Unmarshal(b, n)
+}
+
+func scalarOr(n *yaml.Node) string {
+	if n.Kind == yaml.ScalarNode {
+		return n.Value
+	}
+	return nodeKindName(n)
+}
+
+func kindList() string {
+	var s []string
+	for _, k := range Kinds() {
+		s = append(s, string(k))
+	}
+	return strings.Join(s, ", ")
+}
+
+// Entry returns the entry with the given id. When the id is used twice, it is
+// the first in path order.
+func (nb *Notebook) Entry(id string) (*Entry, bool) {
+	e, ok := nb.byID[id]
+	return e, ok
+}
+
+// File returns the file at a slash path.
+func (nb *Notebook) File(p string) (*File, bool) {
+	p = path.Clean(p)
+	i := sort.Search(len(nb.Files), func(i int) bool { return nb.Files[i].Path >= p })
+	if i < len(nb.Files) && nb.Files[i].Path == p {
+		return nb.Files[i], true
+	}
+	return nil, false
+}

@@ -1,0 +1,67 @@
+package notebook
+
+import (
+	"errors"
+	"fmt"
+	"slices"
+)
+
+// Errors of [Notebook.CheckNew], for errors.Is.
+var (
+	ErrExists    = errors.New("id already used")
+	ErrNotFound  = errors.New("no such entry")
+	ErrWrongKind = errors.New("wrong kind")
+	ErrBadID     = errors.New("invalid id")
+)
+
+var folders = map[Kind]string{
+	KindWafer: "wafers", KindPiece: "pieces", KindMask: "masks",
+	KindProcess: "processes", KindDevice: "devices", KindCooldown: "cooldowns",
+}
+
+// DefaultPath is the conventional slash path of a new entry:
+// wafers/, pieces/, masks/, processes/, devices/ or cooldowns/, then id.md.
+// An unknown kind goes to the top level.
+func DefaultPath(kind Kind, id string) string {
+	if dir, ok := folders[kind]; ok {
+		return dir + "/" + id + ".md"
+	}
+	return id + ".md"
+}
+
+// CheckNew says whether an entry of the given kind and id can be added with
+// the given parents (ids its link fields will name). It refuses an unknown
+// kind, an invalid or existing id, a missing parent, and a parent whose kind
+// none of the kind's link fields accepts (a wafer or mask takes no parents).
+// All reasons are joined into one error.
+func (nb *Notebook) CheckNew(kind Kind, id string, parents []string) error {
+	var errs []error
+	if !kind.Known() {
+		errs = append(errs, fmt.Errorf("new entry: unknown kind %q: expected one of %s", kind, kindList()))
+	}
+	if !ValidID(id) {
+		errs = append(errs, fmt.Errorf("new entry: %w %q: use letters, digits, '-', '_' and '.'", ErrBadID, id))
+	} else if e, ok := nb.byID[id]; ok {
+		errs = append(errs, fmt.Errorf("new entry: %w: %q is the %s in %s", ErrExists, id, e.Kind, e.Path))
+	}
+	var accepted []Kind
+	for _, f := range linkFields(kind) {
+		for _, k := range f.Kinds {
+			if !slices.Contains(accepted, k) {
+				accepted = append(accepted, k)
+			}
+		}
+	}
+	for _, p := range parents {
+		pe, ok := nb.byID[p]
+		switch {
+		case !ok:
+			errs = append(errs, fmt.Errorf("new %s %s: parent %q: %w", kind, id, p, ErrNotFound))
+		case len(accepted) == 0 && kind.Known():
+			errs = append(errs, fmt.Errorf("new %s %s: parent %q: %w: a %s has no parents", kind, id, p, ErrWrongKind, kind))
+		case kind.Known() && !slices.Contains(accepted, pe.Kind):
+			errs = append(errs, fmt.Errorf("new %s %s: parent %q is a %s: %w, expected a %s", kind, id, p, pe.Kind, ErrWrongKind, orKinds(accepted)))
+		}
+	}
+	return errors.Join(errs...)
+}

@@ -1,0 +1,239 @@
+package notebook
+
+import (
+	"slices"
+
+	"cleave/calc/quantity"
+)
+
+// Kind is the kind of an entry, as written in its `kind:` field.
+type Kind string
+
+// The six entry kinds.
+const (
+	KindWafer    Kind = "wafer"
+	KindPiece    Kind = "piece"
+	KindMask     Kind = "mask"
+	KindProcess  Kind = "process"
+	KindDevice   Kind = "device"
+	KindCooldown Kind = "cooldown"
+)
+
+// Kinds returns the known kinds in lineage order.
+func Kinds() []Kind {
+	return []Kind{KindWafer, KindPiece, KindMask, KindProcess, KindDevice, KindCooldown}
+}
+
+// Known reports whether k is one of [Kinds].
+func (k Kind) Known() bool { return slices.Contains(Kinds(), k) }
+
+// FieldType says what a front-matter field holds.
+type FieldType int
+
+// Field types. A Map or List field may describe its members in Field.Fields.
+const (
+	TypeText      FieldType = iota // any scalar, kept as text
+	TypeDate                       // a date, YYYY-MM-DD
+	TypeBool                       // true or false
+	TypeEnum                       // one of Field.Values
+	TypeQuantity                   // a number with a unit of dimension Field.Dims[0] (or another of Dims)
+	TypeLink                       // the id of one entry of one of Field.Kinds
+	TypeLinks                      // a list of ids (a single id is accepted as a list of one)
+	TypeTextList                   // a list of scalars
+	TypeMap                        // a mapping; members in Field.Fields
+	TypeList                       // a list of mappings, each with members in Field.Fields
+	TypeMapOrList                  // a mapping or a list (e.g. contact numbering)
+)
+
+var typeNames = [...]string{"text", "date", "bool", "enum", "quantity", "link", "list of links", "list", "map", "list of maps", "map or list"}
+
+func (t FieldType) String() string {
+	if int(t) < len(typeNames) {
+		return typeNames[t]
+	}
+	return "unknown"
+}
+
+// Field describes one front-matter field of a kind.
+type Field struct {
+	Name     string
+	Type     FieldType
+	Dims     []quantity.Dim // TypeQuantity: accepted dimensions, the first is the usual one
+	Example  string         // TypeQuantity: an example value used in messages, e.g. "20 um"
+	Kinds    []Kind         // TypeLink, TypeLinks: kinds the link may name
+	Values   []string       // TypeEnum: allowed values
+	Fields   []Field        // TypeMap, TypeList: members (other members are allowed)
+	TextOK   bool           // TypeMap: a plain text is accepted instead (position: centre; illumination: none)
+	Required bool
+	Doc      string
+}
+
+// Dimensions used by the schema.
+var (
+	dimLength     = quantity.Length
+	dimDensity2D  = quantity.Length.Pow(-2)
+	dimTemp       = quantity.Temperature
+	dimTime       = quantity.Time
+	dimFrequency  = quantity.Time.Pow(-1)
+	dimCurrent    = quantity.Current
+	dimVoltage    = quantity.Mass.Mul(quantity.Length.Pow(2)).Div(quantity.Time.Pow(3)).Div(quantity.Current)
+	dimResistance = dimVoltage.Div(quantity.Current)
+	dimField      = quantity.Mass.Div(quantity.Time.Pow(2)).Div(quantity.Current) // tesla
+)
+
+// dimNames names the dimensions the schema uses, for messages.
+var dimNames = map[quantity.Dim]string{
+	dimLength:     "a length",
+	dimDensity2D:  "a sheet density",
+	dimTemp:       "a temperature",
+	dimTime:       "a time",
+	dimFrequency:  "a frequency",
+	dimCurrent:    "a current",
+	dimVoltage:    "a voltage",
+	dimResistance: "a resistance",
+	dimField:      "a magnetic field",
+}
+
+func dimName(d quantity.Dim) string {
+	if n, ok := dimNames[d]; ok {
+		return n
+	}
+	if d.IsDimensionless() {
+		return "a dimensionless number"
+	}
+	return "a quantity of dimension " + d.String()
+}
+
+func q(name string, d quantity.Dim, example, doc string) Field {
+	return Field{Name: name, Type: TypeQuantity, Dims: []quantity.Dim{d}, Example: example, Doc: doc}
+}
+
+func text(name, doc string) Field { return Field{Name: name, Type: TypeText, Doc: doc} }
+
+func link(name string, required bool, doc string, kinds ...Kind) Field {
+	return Field{Name: name, Type: TypeLink, Kinds: kinds, Required: required, Doc: doc}
+}
+
+func links(name string, doc string, kinds ...Kind) Field {
+	return Field{Name: name, Type: TypeLinks, Kinds: kinds, Doc: doc}
+}
+
+// common fields every entry may carry.
+var common = []Field{
+	{Name: "id", Type: TypeText, Required: true, Doc: "unique id: letters, digits, '-', '_', '.'"},
+	{Name: "kind", Type: TypeEnum, Required: true, Doc: "the entry kind", Values: []string{"wafer", "piece", "mask", "process", "device", "cooldown"}},
+	text("title", "free title"),
+	{Name: "date", Type: TypeDate, Doc: "date of the record"},
+	text("by", "initials of who did it"),
+	{Name: "tags", Type: TypeTextList, Doc: "free tags"},
+	text("notes", "free notes"),
+}
+
+var probeFields = []Field{
+	text("name", "probe name"),
+	q("position", dimLength, "250 um", "position along the bar from the source end"),
+	q("arm_width", dimLength, "10 um", "width of the probe arm"),
+	{Name: "side", Type: TypeEnum, Values: []string{"top", "bottom"}, Doc: "side of the bar"},
+}
+
+var schemas = map[Kind][]Field{
+	KindWafer: {
+		{Name: "grown", Type: TypeDate, Doc: "growth date"},
+		text("system", "growth chamber"),
+		text("substrate", `substrate, e.g. "GaAs (001), semi-insulating, 3 inch"`),
+		text("material_system", `e.g. "GaAs/AlGaAs"`),
+		text("channel", "material of the 2D gas"),
+		{Name: "carrier", Type: TypeEnum, Values: []string{"electrons", "holes"}, Doc: "carrier type"},
+		{Name: "doping_scheme", Type: TypeEnum, Values: []string{"uniform", "delta", "none"}, Doc: "doping scheme"},
+		{Name: "rotation", Type: TypeBool, Doc: "substrate rotation during growth"},
+		q("design_density", dimDensity2D, "3e11 cm^-2", "designed sheet density"),
+	},
+	KindPiece: {
+		link("from", true, "the wafer or piece it was cleaved from", KindWafer, KindPiece),
+		q("width", dimLength, "4 mm", "piece width"),
+		q("length", dimLength, "5 mm", "piece length"),
+		{Name: "position", Type: TypeMap, TextOK: true, Doc: `position on the wafer: x, y from the centre, or a text such as "centre"`,
+			Fields: []Field{q("x", dimLength, "5 mm", "x from the wafer centre"), q("y", dimLength, "-3 mm", "y from the wafer centre")}},
+		text("orientation", "long edge relative to the major flat and crystal direction"),
+		{Name: "cleaved", Type: TypeDate, Doc: "cleave date"},
+	},
+	KindMask: {
+		text("version", "mask version"),
+		q("width", dimLength, "20 um", "channel width"),
+		q("length", dimLength, "500 um", "source-drain length"),
+		{Name: "probes", Type: TypeList, Fields: probeFields, Doc: "voltage probes"},
+		{Name: "contacts", Type: TypeMapOrList, Doc: "contact numbering"},
+	},
+	KindProcess: {
+		links("pieces", "the pieces it treated", KindPiece),
+	},
+	KindDevice: {
+		link("from", true, "the piece it was patterned on", KindPiece),
+		link("mask", false, "the mask used", KindMask),
+		links("process", "fabrication runs", KindProcess),
+		text("axis", "Hall-bar axis relative to the crystal, e.g. [1-10]"),
+		{Name: "as_built", Type: TypeMap, Doc: "measured geometry overriding the mask's",
+			Fields: []Field{q("width", dimLength, "19.6 um", "as-built channel width"), q("length", dimLength, "500 um", "as-built length"),
+				{Name: "probes", Type: TypeList, Fields: probeFields, Doc: "as-built probes"}}},
+		{Name: "good_contacts", Type: TypeTextList, Doc: "contacts that work"},
+		{Name: "bonding", Type: TypeMap, Doc: "pin to contact"},
+	},
+	KindCooldown: {
+		links("devices", "devices measured", KindDevice),
+		text("system", "cryostat"),
+		text("thermometer", "which thermometer a temperature means"),
+		q("base_temperature", dimTemp, "20 mK", "base temperature"),
+		{Name: "magnet", Type: TypeMap, Doc: "magnet", Fields: []Field{
+			q("max_field", dimField, "12 T", "maximum field"), q("offset", dimField, "2 mT", "field offset near zero")}},
+		{Name: "illumination", Type: TypeMap, TextOK: true, Doc: "illumination, or none", Fields: []Field{
+			text("source", "light source"), q("current", dimCurrent, "1 mA", "LED current"),
+			q("duration", dimTime, "60 s", "duration"), q("temperature", dimTemp, "4.2 K", "temperature during illumination"),
+			q("gate_bias", dimVoltage, "0 V", "gate bias during illumination")}},
+		{Name: "excitation", Type: TypeMap, Doc: "excitation", Fields: []Field{
+			q("bias_resistor", dimResistance, "10 MOhm", "bias resistor"), q("source_voltage", dimVoltage, "1 V", "source voltage"),
+			q("current", dimCurrent, "100 nA", "measured current"), q("frequency", dimFrequency, "13 Hz", "lock-in frequency")}},
+		{Name: "lockins", Type: TypeList, Doc: "lock-in settings", Fields: []Field{
+			text("channel", "instrument channel"), q("time_constant", dimTime, "300 ms", "time constant"),
+			text("phase", "phase setting"),
+			{Name: "sensitivity", Type: TypeQuantity, Dims: []quantity.Dim{dimVoltage, dimCurrent}, Example: "10 mV", Doc: "sensitivity (voltage or current input)"}}},
+		{Name: "wiring", Type: TypeMap, Doc: "instrument channel to contact pair"},
+		{Name: "gate_history", Type: TypeTextList, Doc: "gate biases in order"},
+		{Name: "data", Type: TypeList, Doc: "data files", Fields: []Field{
+			text("file", "path relative to the entry"), text("note", "what it is"),
+			q("temperature", dimTemp, "20 mK", "temperature"), q("gate", dimVoltage, "-0.2 V", "gate voltage")}},
+	},
+}
+
+// Schema returns the fields of kind k: the fields common to all kinds first
+// (id, kind, title, date, by, tags, notes), then the kind's own. It returns
+// false for an unknown kind. The returned slice is a copy.
+func Schema(k Kind) ([]Field, bool) {
+	own, ok := schemas[k]
+	if !ok {
+		return nil, false
+	}
+	out := make([]Field, 0, len(common)+len(own))
+	out = append(out, common...)
+	return append(out, own...), true
+}
+
+// lookupField finds a field in a field list by name.
+func lookupField(fields []Field, name string) (Field, bool) {
+	for _, f := range fields {
+		if f.Name == name {
+			return f, true
+		}
+	}
+	return Field{}, false
+}
+
+// linkFields returns the link fields of kind k in schema order.
+func linkFields(k Kind) []Field {
+	var out []Field
+	for _, f := range schemas[k] {
+		if f.Type == TypeLink || f.Type == TypeLinks {
+			out = append(out, f)
+		}
+	}
+	return out
+}

@@ -1,0 +1,276 @@
+package notebook
+
+import (
+	"cmp"
+	"fmt"
+	"slices"
+	"strings"
+	"time"
+
+	"cleave/calc/quantity"
+
+	"go.yaml.in/yaml/v3"
+)
+
+// Problem is one thing wrong in the notebook, at a file position.
+type Problem struct {
+	Path      string // slash path relative to the notebook root
+	Line, Col int    // 1-based; Col counts characters
+	Msg       string
+}
+
+// Error formats the problem as path:line:col: message.
+func (p Problem) Error() string { return fmt.Sprintf("%s:%d:%d: %s", p.Path, p.Line, p.Col, p.Msg) }
+
+func sortProblems(ps []Problem) {
+	slices.SortStableFunc(ps, func(a, b Problem) int {
+		return cmp.Or(strings.Compare(a.Path, b.Path), cmp.Compare(a.Line, b.Line), cmp.Compare(a.Col, b.Col), strings.Compare(a.Msg, b.Msg))
+	})
+}
+
+// Validate returns every problem in the notebook, sorted by path, line and
+// column: the load problems (front matter, layer tables) and those found by
+// checking entries against [Schema] and each other: duplicate ids, unknown
+// kinds, dangling links, links to the wrong kind, cycles in the lineage,
+// quantity fields without a unit or of the wrong dimension, bad dates, enums
+// and booleans.
+func (nb *Notebook) Validate() []Problem {
+	ps := slices.Clone(nb.Problems)
+	add := func(p string, line, col int, format string, args ...any) {
+		ps = append(ps, Problem{Path: p, Line: line, Col: max(col, 1), Msg: fmt.Sprintf(format, args...)})
+	}
+	// Duplicate ids: each copy names the others.
+	for id, es := range nb.dups {
+		for _, e := range es {
+			var others []string
+			for _, o := range es {
+				if o != e {
+					l, _ := o.Pos(idNode(o))
+					others = append(others, fmt.Sprintf("%s:%d", o.Path, l))
+				}
+			}
+			l, c := e.Pos(idNode(e))
+			add(e.Path, l, c, "duplicate id %q: also used in %s", id, strings.Join(others, ", "))
+		}
+	}
+	for _, e := range nb.Entries {
+		fields, ok := Schema(e.Kind)
+		if !ok {
+			n, _ := e.Field("kind")
+			l, c := e.Pos(n)
+			add(e.Path, l, c, "unknown kind %q: expected one of %s", e.Kind, kindList())
+			continue
+		}
+		for _, pr := range checkFields(e, e.Meta, fields, "") {
+			ps = append(ps, pr)
+		}
+		// links
+		for _, f := range linkFields(e.Kind) {
+			n, ok := e.Field(f.Name)
+			if !ok {
+				if f.Required {
+					l, _ := e.Pos(e.Meta)
+					add(e.Path, max(l-1, 1), 1, "missing `%s:` (%s: the id of a %s)", f.Name, f.Doc, orKinds(f.Kinds))
+				}
+				continue
+			}
+			if f.Type == TypeLink && n.Kind != yaml.ScalarNode {
+				l, c := e.Pos(n)
+				add(e.Path, l, c, "%s: expected one id, found a %s", f.Name, nodeKindName(n))
+			}
+		}
+		for _, l := range e.Links() {
+			f, _ := lookupField(fields, l.Field)
+			t, ok := nb.byID[l.ID]
+			switch {
+			case !ok:
+				add(e.Path, l.Line, l.Col, "%s: no entry has id %q (dangling link; expected a %s)", l.Field, l.ID, orKinds(f.Kinds))
+			case !slices.Contains(f.Kinds, t.Kind):
+				add(e.Path, l.Line, l.Col, "%s: %q is a %s (%s), expected a %s", l.Field, l.ID, t.Kind, t.Path, orKinds(f.Kinds))
+			case t == e:
+				add(e.Path, l.Line, l.Col, "%s: an entry cannot link to itself", l.Field)
+			}
+		}
+	}
+	for _, cyc := range nb.cycles() {
+		if len(cyc) == 1 {
+			continue // a self-link, reported above
+		}
+		var ids []string
+		for _, c := range cyc {
+			ids = append(ids, c.ID)
+		}
+		ids = append(ids, cyc[0].ID)
+		e, next := cyc[0], cyc[1%len(cyc)]
+		line, col := e.Pos(e.Meta)
+		for _, l := range e.Links() {
+			if l.ID == next.ID {
+				line, col = l.Line, l.Col
+				break
+			}
+		}
+		add(e.Path, line, col, "lineage cycle: %s (an entry cannot descend from itself)", strings.Join(ids, " → "))
+	}
+	sortProblems(ps)
+	return slices.Compact(ps)
+}
+
+func idNode(e *Entry) *yaml.Node {
+	n, _ := e.Field("id")
+	return n
+}
+
+func orKinds(ks []Kind) string {
+	var s []string
+	for _, k := range ks {
+		s = append(s, string(k))
+	}
+	return strings.Join(s, " or ")
+}
+
+// checkFields checks the members of mapping m against fields. prefix is the
+// dotted path of m ("" at the top).
+func checkFields(e *Entry, m *yaml.Node, fields []Field, prefix string) []Problem {
+	var ps []Problem
+	for i := 0; i+1 < len(m.Content); i += 2 {
+		k, v := m.Content[i], deref(m.Content[i+1])
+		f, ok := lookupField(fields, k.Value)
+		if !ok || v == nil || isNull(v) {
+			continue // a free field, or left empty
+		}
+		ps = append(ps, checkValue(e, v, f, prefix+f.Name)...)
+	}
+	return ps
+}
+
+func checkValue(e *Entry, v *yaml.Node, f Field, name string) []Problem {
+	line, col := e.Pos(v)
+	bad := func(format string, args ...any) []Problem {
+		return []Problem{{Path: e.Path, Line: line, Col: col, Msg: name + ": " + fmt.Sprintf(format, args...)}}
+	}
+	switch f.Type {
+	case TypeText:
+		if v.Kind != yaml.ScalarNode {
+			return bad("expected text, found a %s", nodeKindName(v))
+		}
+	case TypeDate:
+		if v.Kind != yaml.ScalarNode {
+			return bad("expected a date like 2024-03-18, found a %s", nodeKindName(v))
+		}
+		if !isDate(v.Value) {
+			return bad("%q is not a date: expected YYYY-MM-DD, e.g. 2024-03-18", v.Value)
+		}
+	case TypeBool:
+		if v.Kind != yaml.ScalarNode || v.Tag != "!!bool" {
+			return bad("expected true or false, found %q", scalarOr(v))
+		}
+	case TypeEnum:
+		if v.Kind != yaml.ScalarNode || !slices.Contains(f.Values, v.Value) {
+			if f.Name == "kind" {
+				return nil // reported as an unknown kind
+			}
+			return bad("%q is not allowed: expected one of %s", scalarOr(v), strings.Join(f.Values, ", "))
+		}
+	case TypeQuantity:
+		return checkQuantity(e, v, f, name)
+	case TypeLink, TypeLinks:
+		if v.Kind == yaml.SequenceNode && f.Type == TypeLinks {
+			var ps []Problem
+			for _, c := range v.Content {
+				c = deref(c)
+				if c != nil && c.Kind != yaml.ScalarNode {
+					l, cc := e.Pos(c)
+					ps = append(ps, Problem{Path: e.Path, Line: l, Col: cc, Msg: fmt.Sprintf("%s: expected an id, found a %s", name, nodeKindName(c))})
+				}
+			}
+			return ps
+		}
+		if v.Kind == yaml.MappingNode {
+			return bad("expected an id, found a map")
+		}
+	case TypeTextList:
+		if v.Kind != yaml.SequenceNode && v.Kind != yaml.ScalarNode {
+			return bad("expected a list, found a %s", nodeKindName(v))
+		}
+	case TypeMap:
+		switch {
+		case v.Kind == yaml.MappingNode:
+			return checkFields(e, v, f.Fields, name+".")
+		case v.Kind == yaml.ScalarNode && f.TextOK:
+		default:
+			return bad("expected a map of %s, found a %s", memberNames(f), nodeKindName(v))
+		}
+	case TypeList:
+		if v.Kind != yaml.SequenceNode {
+			return bad("expected a list, found a %s", nodeKindName(v))
+		}
+		var ps []Problem
+		for i, c := range v.Content {
+			c = deref(c)
+			if c == nil || isNull(c) {
+				continue
+			}
+			if c.Kind != yaml.MappingNode {
+				l, cc := e.Pos(c)
+				ps = append(ps, Problem{Path: e.Path, Line: l, Col: cc, Msg: fmt.Sprintf("%s[%d]: expected a map of %s, found a %s", name, i, memberNames(f), nodeKindName(c))})
+				continue
+			}
+			ps = append(ps, checkFields(e, c, f.Fields, fmt.Sprintf("%s[%d].", name, i))...)
+		}
+		return ps
+	case TypeMapOrList:
+		if v.Kind != yaml.MappingNode && v.Kind != yaml.SequenceNode {
+			return bad("expected a map or a list, found a %s", nodeKindName(v))
+		}
+	}
+	return nil
+}
+
+func memberNames(f Field) string {
+	if len(f.Fields) == 0 {
+		return "fields"
+	}
+	var s []string
+	for _, m := range f.Fields {
+		s = append(s, m.Name)
+	}
+	return strings.Join(s, ", ")
+}
+
+func isDate(s string) bool {
+	for _, layout := range []string{"2006-01-02", time.RFC3339, "2006-01-02 15:04", "2006-01-02T15:04", "2006-01-02 15:04:05"} {
+		if _, err := time.Parse(layout, s); err == nil {
+			return true
+		}
+	}
+	return false
+}
+
+func checkQuantity(e *Entry, v *yaml.Node, f Field, name string) []Problem {
+	line, col := e.Pos(v)
+	want := dimName(f.Dims[0])
+	if len(f.Dims) > 1 {
+		var ns []string
+		for _, d := range f.Dims {
+			ns = append(ns, dimName(d))
+		}
+		want = strings.Join(ns, " or ")
+	}
+	bad := func(format string, args ...any) []Problem {
+		return []Problem{{Path: e.Path, Line: line, Col: col, Msg: name + ": " + fmt.Sprintf(format, args...)}}
+	}
+	if v.Kind != yaml.ScalarNode {
+		return bad("expected %s with a unit, e.g. `%s`, found a %s", want, f.Example, nodeKindName(v))
+	}
+	qv, err := quantity.ParseQuantity(v.Value)
+	if err != nil {
+		return bad("%q: %v (expected %s with a unit, e.g. `%s`)", v.Value, err, want, f.Example)
+	}
+	if slices.Contains(f.Dims, qv.Dim()) {
+		return nil
+	}
+	if qv.Dim().IsDimensionless() {
+		return bad("expected %s with a unit, e.g. `%s`", want, f.Example)
+	}
+	return bad("%q is %s, expected %s, e.g. `%s`", v.Value, dimName(qv.Dim()), want, f.Example)
+}
