@@ -41,4 +41,13 @@
 // modelled; [Options].DonorDepthEV lets the caller replace the shallow hydrogenic donor level
 // by an effective deep level. Acceptors are taken as fully ionised. The temperature is a
 // smearing parameter as much as a physical one: see [Options].TemperatureK.
+//
+// # The deep end
+//
+// The grid ends SubstrateM below the last layer with zero electric field, and wavefunctions
+// vanish there. Without background acceptors the band of an undoped buffer flattens only a
+// few meV above the ground subband, so states of the buffer (which the finite grid turns into
+// closely spaced box states) may hold a few electrons at finite temperature. Real buffers are
+// weakly p-type; writing that background into the buffer's doping (for example
+// "C 1e14 cm^-3") gives the depletion charge N_depl of the textbook models.
 package band

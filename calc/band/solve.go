@@ -329,6 +329,22 @@ func logistic(x float64) float64 {
 // subband energy shifted by the local −(φ − φ_ref).
 func (g *grid) charge(phi, phiRef []float64, st *states, q, dq, nel []float64) {
 	kT := g.kT
+	// States that stay more than 45 kT above E_F at every node add nothing.
+	var active []int
+	if st != nil {
+		maxShift := 0.0
+		if phiRef != nil {
+			maxShift = math.Inf(-1)
+			for j := range phi {
+				maxShift = math.Max(maxShift, phi[j]-phiRef[j])
+			}
+		}
+		for i, e := range st.e {
+			if (maxShift-e)/kT >= -45 {
+				active = append(active, i)
+			}
+		}
+	}
 	for j := range q {
 		nj, dn := 0.0, 0.0
 		if st != nil {
@@ -336,7 +352,8 @@ func (g *grid) charge(phi, phiRef []float64, st *states, q, dq, nel []float64) {
 			if phiRef != nil {
 				shift = phi[j] - phiRef[j]
 			}
-			for i, e := range st.e {
+			for _, i := range active {
+				e := st.e[i]
 				if j < st.lo[i] || j > st.hi[i] {
 					continue
 				}
