@@ -48,7 +48,8 @@
 //
 // Two choices need care. Frequency and angular frequency share the
 // dimension s^-1, so both are shown as "s^-1", which is right for either;
-// ask for Hz or GHz explicitly where a cyclic frequency is meant. Mobility
+// ask for Hz or GHz explicitly where a cyclic frequency is meant
+// ([Engineering] picks the prefix). Mobility
 // m^2/(V s) and inverse field T^-1 are the same dimension (mu B is a pure
 // number); such values are shown in cm^2/(V s), so an SdH period must be
 // asked for in T^-1.

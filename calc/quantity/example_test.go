@@ -76,3 +76,17 @@ func ExampleParseUnit() {
 	// 0.0001 kg^-1 s^2 A
 	// unit "cm^2/V s", offset 4: ambiguous '/': group the denominator in parentheses, e.g. "cm^2/(V s)"
 }
+
+// Frequencies are shown as s^-1 by Format (angular and cyclic frequencies
+// share the dimension); Engineering picks a prefixed Hz where a cyclic
+// frequency is meant.
+func ExampleEngineering() {
+	fc := quantity.New(4.1780e11, quantity.Time.Pow(-1))
+	fmt.Println(quantity.Format(fc))
+	u, _ := quantity.Engineering(fc, "Hz")
+	s, _ := quantity.FormatIn(fc, u)
+	fmt.Println(s)
+	// Output:
+	// 4.1780e11 s^-1
+	// 417.80 GHz
+}

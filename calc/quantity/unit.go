@@ -496,3 +496,33 @@ func negPow10(scale float64) (int, bool) {
 	}
 	return k, true
 }
+
+// engineeringPrefixes are the prefixes [Engineering] chooses from.
+var engineeringPrefixes = []struct {
+	sym string
+	exp int
+}{
+	{"f", -15}, {"p", -12}, {"n", -9}, {"u", -6}, {"m", -3}, {"", 0},
+	{"k", 3}, {"M", 6}, {"G", 9}, {"T", 12}, {"P", 15},
+}
+
+// Engineering returns base (a symbol that takes SI prefixes, such as "Hz",
+// "A" or "Ohm") with the prefix, a power of 1000 from f to P, that puts |q|
+// in [1, 1000): 4.2e11 s^-1 with "Hz" gives GHz. A zero or non-finite value
+// gets the bare base unit. The dimension must match the base unit.
+func Engineering(q Quantity, base string) (Unit, error) {
+	def, ok := units[base]
+	if !ok || !def.prefixOK {
+		return Unit{}, &UnitError{Input: base, Offset: 0, Msg: fmt.Sprintf("%q is not a unit that takes SI prefixes", base)}
+	}
+	u := MustUnit(base)
+	if u.D != q.d {
+		return Unit{}, &DimError{Op: "in", Left: q.d, Right: u.D}
+	}
+	a := math.Abs(q.v) / u.Scale
+	i := 5 // no prefix
+	if a != 0 && !math.IsInf(a, 0) && !math.IsNaN(a) {
+		i += int(max(-5, min(5, math.Floor(math.Log10(a)/3))))
+	}
+	return MustUnit(engineeringPrefixes[i].sym + base), nil
+}

@@ -2,7 +2,10 @@ package quantity
 
 import (
 	"errors"
+	"fmt"
 	"math"
+	"math/rand/v2"
+	"strings"
 	"testing"
 )
 
@@ -250,4 +253,81 @@ func mustIn(t *testing.T, q Quantity, u string) float64 {
 		t.Fatal(err)
 	}
 	return v
+}
+
+func TestEngineering(t *testing.T) {
+	tests := []struct {
+		v    float64
+		d    Dim
+		base string
+		want string
+	}{
+		// f_c = 417.80 GHz per T for GaAs (REFERENCE.md §2.2).
+		{4.178e11, dimFrequency, "Hz", "GHz"},
+		{17.7, dimFrequency, "Hz", "Hz"},
+		{1e-8, Current, "A", "nA"},
+		{-2.5e-7, Current, "A", "nA"},
+		{25812.807, dimResistance, "Ohm", "kOhm"},
+		{1e-30, Length, "m", "fm"},
+		{0, dimField, "T", "T"},
+	}
+	for _, tt := range tests {
+		u, err := Engineering(New(tt.v, tt.d), tt.base)
+		if err != nil || u.Symbol != tt.want {
+			t.Errorf("Engineering(%g, %q) = %q, %v; want %q", tt.v, tt.base, u.Symbol, err, tt.want)
+		}
+	}
+	if _, err := Engineering(New(1, Length), "Hz"); !errors.Is(err, ErrDimMismatch) {
+		t.Errorf("length in Hz: %v", err)
+	}
+	if _, err := Engineering(New(1, Mass), "m_e"); !errors.Is(err, ErrUnknownUnit) {
+		t.Errorf("m_e takes no prefix: %v", err)
+	}
+}
+
+// TestUnitCompositionProperty composes random symbols from the table with
+// random integer powers, products and one quotient, and checks that the
+// parsed unit's scale and dimension are the product of the parts'.
+func TestUnitCompositionProperty(t *testing.T) {
+	syms := []string{"m", "cm", "um", "nm", "Å", "g", "kg", "m_e", "s", "ps", "min", "A", "nA", "K", "mK",
+		"Hz", "GHz", "N", "Pa", "J", "eV", "meV", "W", "C", "V", "mV", "F", "nF", "Ohm", "kOhm", "S",
+		"Wb", "T", "mT", "G", "H", "mol", "cd", "Torr", "bar"}
+	r := rand.New(rand.NewPCG(5, 6))
+	for range 3000 {
+		var parts []string
+		scale, d := 1.0, Dimensionless
+		n := 1 + r.IntN(4)
+		for k := range n {
+			s := syms[r.IntN(len(syms))]
+			p := r.IntN(7) - 3
+			if p == 0 {
+				p = 1
+			}
+			u := MustUnit(s)
+			text := s
+			if p != 1 {
+				text = fmt.Sprintf("%s^%d", s, p)
+			}
+			sep := " "
+			if k == n-1 && n > 1 && r.IntN(2) == 0 {
+				sep, p = "/", -p
+			} else if r.IntN(3) == 0 {
+				sep = "*"
+			}
+			if k > 0 {
+				parts = append(parts, sep)
+			}
+			parts = append(parts, text)
+			scale *= math.Pow(u.Scale, float64(p))
+			d = d.Mul(u.D.Pow(p))
+		}
+		in := strings.Join(parts, "")
+		u, err := ParseUnit(in)
+		if err != nil {
+			t.Fatalf("ParseUnit(%q): %v", in, err)
+		}
+		if u.D != d || !near(u.Scale, scale, 1e-13) {
+			t.Fatalf("ParseUnit(%q) = %v × %g, want %v × %g", in, u.D, u.Scale, d, scale)
+		}
+	}
 }
