@@ -31,7 +31,7 @@ type Entry struct {
 	Meta *yaml.Node
 	// Layers is a wafer's layer table, surface first; nil when it has none.
 	Layers []LayerRow
-	// LayerTable is the position of the layer table (0 when there is none).
+	// LayerTableLine is the file line of the layer table (0 when there is none).
 	LayerTableLine int
 }
 
@@ -103,8 +103,9 @@ func (e *Entry) Text(path ...string) (string, bool) {
 	return n.Value, true
 }
 
-// Quantity parses the scalar at a path as a quantity. The error carries the
-// file position; it wraps quantity.ErrNotFound-like problems as *Problem.
+// Quantity parses the scalar at a path as a quantity. The error is a
+// *Problem carrying the file position (the front matter start when the field
+// is missing). It does not check the dimension; Validate does that.
 func (e *Entry) Quantity(path ...string) (quantity.Quantity, error) {
 	n, ok := e.Field(path...)
 	if !ok {

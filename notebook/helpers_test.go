@@ -13,11 +13,11 @@ func scalarNode(s string) *yaml.Node {
 	return &yaml.Node{Kind: yaml.ScalarNode, Tag: "!!str", Value: s, Line: 1, Column: 1}
 }
 
-// genNotebook builds a valid notebook of realistic chains in memory: masks
-// first, then per wafer (with a layer table) two pieces, each with two devices
-// each measured in one cooldown. It has 1 + 5 + 7 = ... entries; nWafers
-// wafers give nWafers*(1+2+4+4) + nWafers/9+1 entries. Seeded, so the same
-// call gives the same notebook.
+// genNotebook builds a valid notebook of realistic chains in memory: masks,
+// then per wafer (with a layer table) two pieces, each with two devices, each
+// device measured in one cooldown. nWafers wafers give nWafers*11 + nWafers/9
+// + 1 entries (909 give 10,102). Seeded, so the same call gives the same
+// notebook. All names and numbers are invented.
 func genNotebook(nWafers int, seed uint64) fstest.MapFS {
 	r := rand.New(rand.NewPCG(seed, 1))
 	fsys := fstest.MapFS{}

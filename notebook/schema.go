@@ -208,14 +208,23 @@ var schemas = map[Kind][]Field{
 // (id, kind, title, date, by, tags, notes), then the kind's own. It returns
 // false for an unknown kind. The returned slice is a copy.
 func Schema(k Kind) ([]Field, bool) {
-	own, ok := schemas[k]
-	if !ok {
-		return nil, false
-	}
-	out := make([]Field, 0, len(common)+len(own))
-	out = append(out, common...)
-	return append(out, own...), true
+	fs, ok := fullSchemas[k]
+	return slices.Clone(fs), ok
 }
+
+// fullSchemas and linkFieldsOf are built once from schemas; never modified.
+var fullSchemas, linkFieldsOf = func() (map[Kind][]Field, map[Kind][]Field) {
+	full, lf := map[Kind][]Field{}, map[Kind][]Field{}
+	for k, own := range schemas {
+		full[k] = append(slices.Clone(common), own...)
+		for _, f := range own {
+			if f.Type == TypeLink || f.Type == TypeLinks {
+				lf[k] = append(lf[k], f)
+			}
+		}
+	}
+	return full, lf
+}()
 
 // lookupField finds a field in a field list by name.
 func lookupField(fields []Field, name string) (Field, bool) {
@@ -228,12 +237,4 @@ func lookupField(fields []Field, name string) (Field, bool) {
 }
 
 // linkFields returns the link fields of kind k in schema order.
-func linkFields(k Kind) []Field {
-	var out []Field
-	for _, f := range schemas[k] {
-		if f.Type == TypeLink || f.Type == TypeLinks {
-			out = append(out, f)
-		}
-	}
-	return out
-}
+func linkFields(k Kind) []Field { return linkFieldsOf[k] }

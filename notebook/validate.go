@@ -54,16 +54,14 @@ func (nb *Notebook) Validate() []Problem {
 		}
 	}
 	for _, e := range nb.Entries {
-		fields, ok := Schema(e.Kind)
+		fields, ok := fullSchemas[e.Kind]
 		if !ok {
 			n, _ := e.Field("kind")
 			l, c := e.Pos(n)
 			add(e.Path, l, c, "unknown kind %q: expected one of %s", e.Kind, kindList())
 			continue
 		}
-		for _, pr := range checkFields(e, e.Meta, fields, "") {
-			ps = append(ps, pr)
-		}
+		ps = append(ps, checkFields(e, e.Meta, fields, "")...)
 		// links
 		for _, f := range linkFields(e.Kind) {
 			n, ok := e.Field(f.Name)
