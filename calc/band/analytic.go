@@ -116,3 +116,85 @@ func Analytic(in AnalyticInput) (AnalyticResult, error) {
 	_, e0, ef, b := balance(n)
 	return AnalyticResult{N2D: n, E0EV: e0, EFEV: ef, B: b}, nil
 }
+
+// AnalyticInputFor reads the inputs of [Analytic] off a layer stack: the channel is the first
+// layer, from the surface down, whose conduction band lies below the layer above it with
+// donors somewhere above it; the spacer is the undoped thickness between the channel and the
+// nearest donor layer above (plus half that layer's thickness for a sheet, which [Solve] puts
+// at the layer's centre); ΔE_c is the step between the channel and the layer just above it;
+// the barrier permittivity is that of the spacer (or of the doped layer when there is no
+// spacer); DeplM2 adds up the acceptors of the channel and the layers below it. donorDepthEV
+// > 0 sets E_D', otherwise the doped layer's hydrogenic donor level is used. Errors wrap
+// [ErrNoWell] or [ErrNoDoping], or are those of [Stack.Validate].
+func AnalyticInputFor(s Stack, donorDepthEV float64) (AnalyticInput, error) {
+	ps, err := s.params()
+	if err != nil {
+		return AnalyticInput{}, err
+	}
+	thick := func(i int) float64 {
+		if i >= len(s.Layers) {
+			return math.Inf(1)
+		}
+		return s.Layers[i].ThicknessM
+	}
+	donor := func(i int) bool {
+		return i < len(s.Layers) && s.Layers[i].Doping.Donor() && s.Layers[i].Doping.Density > 0
+	}
+	channel := -1
+	anyDonor := false
+	for i := 0; i <= len(s.Layers); i++ {
+		if thick(i) > 0 {
+			j := prevThick(s, i)
+			if j >= 0 && anyDonor && ps[i].EcEV < ps[j].EcEV-1e-9 {
+				channel = i
+				break
+			}
+		}
+		if donor(i) {
+			anyDonor = true
+		}
+	}
+	if channel < 0 {
+		if !anyDonor {
+			return AnalyticInput{}, fmt.Errorf("%w: no donor layer above a heterojunction", ErrNoDoping)
+		}
+		return AnalyticInput{}, fmt.Errorf("%w: no heterojunction below the donors", ErrNoWell)
+	}
+	above := prevThick(s, channel)
+	in := AnalyticInput{
+		DeltaEcEV:    ps[above].EcEV - ps[channel].EcEV,
+		ChannelMstar: ps[channel].Mstar,
+		ChannelEpsR:  ps[channel].EpsR,
+		BarrierEpsR:  ps[above].EpsR,
+	}
+	k := channel - 1
+	for ; k >= 0 && !donor(k); k-- {
+		in.SpacerM += s.Layers[k].ThicknessM
+	}
+	if k < 0 { // cannot happen: a donor layer lies above the channel
+		return AnalyticInput{}, fmt.Errorf("%w: no donor layer above the channel", ErrNoDoping)
+	}
+	d := s.Layers[k].Doping
+	if d.Sheet {
+		in.SpacerM += s.Layers[k].ThicknessM / 2
+	} else {
+		in.BulkDonorsM3 = d.Density
+	}
+	if k == channel-1 {
+		in.BarrierEpsR = ps[k].EpsR
+	}
+	in.DonorDepthEV = ps[k].DonorEV
+	if donorDepthEV > 0 {
+		in.DonorDepthEV = donorDepthEV
+	}
+	for i := channel; i < len(s.Layers); i++ {
+		if a := s.Layers[i].Doping; a.Acceptor() {
+			if a.Sheet {
+				in.DeplM2 += a.Density
+			} else {
+				in.DeplM2 += a.Density * s.Layers[i].ThicknessM
+			}
+		}
+	}
+	return in, nil
+}

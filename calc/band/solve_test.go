@@ -43,8 +43,16 @@ func TestSolveAgainstAnalytic(t *testing.T) {
 	}
 	barrier, _ := Lookup("Al0.3Ga0.7As")
 	gaas, _ := Lookup("GaAs")
-	a, err := Analytic(AnalyticInput{DeltaEcEV: barrier.EcEV - gaas.EcEV, DonorDepthEV: 0.10, BarrierEpsR: barrier.EpsR,
-		SpacerM: 30e-9, ChannelMstar: gaas.Mstar, ChannelEpsR: gaas.EpsR, DeplM2: bufferAcceptors * 300e-9})
+	in, err := AnalyticInputFor(st, 0.10)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := AnalyticInput{DeltaEcEV: barrier.EcEV - gaas.EcEV, DonorDepthEV: 0.10, BarrierEpsR: barrier.EpsR,
+		SpacerM: 30e-9, ChannelMstar: gaas.Mstar, ChannelEpsR: gaas.EpsR, DeplM2: bufferAcceptors * 300e-9}
+	if in != want {
+		t.Errorf("AnalyticInputFor = %+v, want %+v", in, want)
+	}
+	a, err := Analytic(in)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -147,6 +155,32 @@ func TestPublishedStructure(t *testing.T) {
 	n := r.Density2D[len(r.Density2D)-1].N2D / 1e4
 	if n < 2e11 || n > 8e11 {
 		t.Errorf("n = %.3g cm^-2, want 2e11–8e11 (from memory)", n)
+	}
+}
+
+func TestAnalyticInputForErrors(t *testing.T) {
+	noDonor := Stack{Layers: []Layer{{Material: "Al0.3Ga0.7As", ThicknessM: 50e-9}, {Material: "GaAs", ThicknessM: 100e-9}},
+		Surface: Surface{Kind: SurfaceGate}}
+	if _, err := AnalyticInputFor(noDonor, 0); !errors.Is(err, ErrNoDoping) {
+		t.Errorf("no donors: %v, want ErrNoDoping", err)
+	}
+	below := Stack{Layers: []Layer{{Material: "Al0.3Ga0.7As", ThicknessM: 50e-9}, {Material: "GaAs", ThicknessM: 100e-9, Doping: Doping{Species: "Si", Density: 1e23}}}}
+	if _, err := AnalyticInputFor(below, 0); !errors.Is(err, ErrNoWell) {
+		t.Errorf("donors only below the junction: %v, want ErrNoWell", err)
+	}
+	uni := Stack{Layers: []Layer{
+		{Material: "GaAs", ThicknessM: 10e-9},
+		{Material: "Al0.3Ga0.7As", ThicknessM: 50e-9, Doping: Doping{Species: "Si", Density: 1e24}},
+		{Material: "Al0.3Ga0.7As", ThicknessM: 20e-9},
+		{Material: "GaAs", ThicknessM: 100e-9},
+	}}
+	in, err := AnalyticInputFor(uni, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	al, _ := Lookup("Al0.3Ga0.7As")
+	if in.BulkDonorsM3 != 1e24 || math.Abs(in.SpacerM-20e-9) > 1e-18 || in.DonorDepthEV != al.DonorEV || in.DeplM2 != 0 {
+		t.Errorf("uniform doping: %+v", in)
 	}
 }
 
