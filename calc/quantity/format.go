@@ -249,6 +249,7 @@ func (e *SyntaxError) Unwrap() error { return ErrSyntax }
 //	3.1e11 cm^-2
 //	0.067 m_e
 //	12.5 ± 0.2 um            also "12.5 +/- 0.2 um"
+//	12.5 um ± 200 nm         the uncertainty after the unit, in the same or another unit of the dimension
 //	(3.072 ± 0.041)e11 cm^-2 a common power of ten
 //
 // The unit is everything after the number (and uncertainty), parsed by
@@ -256,7 +257,8 @@ func (e *SyntaxError) Unwrap() error { return ErrSyntax }
 // numbers "Inf", "-Inf" and "NaN" are accepted because [Format] may write
 // them. An uncertainty makes a new independent input ([Uncertain]).
 //
-// Errors are a *[SyntaxError] or a *[UnitError], with byte offsets into s.
+// Errors are a *[SyntaxError] or a *[UnitError], with byte offsets into s,
+// or a *[DimError] when the uncertainty's unit differs in dimension.
 func ParseQuantity(s string) (Quantity, error) {
 	p := &qparser{s: s}
 	p.space()
@@ -333,13 +335,60 @@ func ParseQuantity(s string) (Quantity, error) {
 	u := Unit{Scale: 1}
 	if p.pos < len(s) {
 		unitStart := p.pos
-		u, err = ParseUnit(s[unitStart:])
-		if err != nil {
-			ue := err.(*UnitError)
-			return Quantity{}, &UnitError{Input: s, Offset: unitStart + ue.Offset, Msg: ue.Msg}
+		unitText := s[unitStart:]
+		// "12.5 um ± 0.2 um": the uncertainty follows the unit.
+		pmAt := -1
+		if sig == "" {
+			for _, pm := range []string{"±", "+/-", "+-"} {
+				if i := strings.Index(unitText, pm); i >= 0 && (pmAt < 0 || i < pmAt) {
+					pmAt = i
+				}
+			}
+		}
+		if pmAt >= 0 {
+			unitText = unitText[:pmAt]
+		}
+		if u, err = parseUnitIn(s, unitStart, unitText); err != nil {
+			return Quantity{}, err
+		}
+		if pmAt >= 0 {
+			p.pos = unitStart + pmAt
+			p.plusMinus()
+			p.space()
+			if sig, err = p.number(); err != nil {
+				return Quantity{}, err
+			}
+			sigma, err = strconv.ParseFloat(sig, 64)
+			if err != nil && !isRangeErr(err) || sigma < 0 || math.IsNaN(sigma) {
+				return Quantity{}, p.fail(0, "uncertainty %q must be a non-negative number", sig)
+			}
+			sigma = toSI(sigma, u.Scale)
+			p.space()
+			if p.pos < len(s) {
+				su, err := parseUnitIn(s, p.pos, s[p.pos:])
+				if err != nil {
+					return Quantity{}, err
+				}
+				if su.D != u.D {
+					return Quantity{}, &DimError{Op: "±", Left: u.D, Right: su.D}
+				}
+				sigma = toSI(fromSI(sigma, u.Scale), su.Scale)
+			}
+			return Uncertain(toSI(v, u.Scale), sigma, u.D), nil
 		}
 	}
 	return Uncertain(toSI(v, u.Scale), toSI(sigma, u.Scale), u.D), nil
+}
+
+// parseUnitIn parses the unit text found at byte offset off of s, with
+// error offsets relative to s.
+func parseUnitIn(s string, off int, text string) (Unit, error) {
+	u, err := ParseUnit(text)
+	if err != nil {
+		ue := err.(*UnitError)
+		return Unit{}, &UnitError{Input: s, Offset: off + ue.Offset, Msg: ue.Msg}
+	}
+	return u, nil
 }
 
 func isRangeErr(err error) bool {

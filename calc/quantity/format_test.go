@@ -189,6 +189,10 @@ func TestParseQuantity(t *testing.T) {
 		{"3eV", 3 * 1.602176634e-19, 0, dimEnergy},
 		{"2e6 cm^2/(V s)", 200, 0, dimMobility},
 		{"1e400 m", math.Inf(1), 0, Length},
+		{"12.5 um ± 0.2 um", 12.5e-6, 0.2e-6, Length},
+		{"12.5 um +/- 200 nm", 12.5e-6, 0.2e-6, Length},
+		{"12.5 um ± 0.2", 12.5e-6, 0.2e-6, Length},
+		{"3.1e11 cm^-2 ± 2e9 cm^-2", 3.1e15, 2e13, Length.Pow(-2)},
 	}
 	for _, tt := range tests {
 		t.Run(tt.in, func(t *testing.T) {
@@ -219,6 +223,9 @@ func TestParseQuantityErrors(t *testing.T) {
 		{"20 furlong", 3, true},
 		{"20 cm^2/V s", 7, true},
 		{"- 5", 0, false},
+		{"12.5 um ± x", 11, false},
+		{"12.5 um ± 0.2 furlong", 15, true},
+		{"12.5 furlong ± 0.2 um", 5, true},
 	}
 	for _, tt := range tests {
 		t.Run(tt.in, func(t *testing.T) {
@@ -241,6 +248,9 @@ func TestParseQuantityErrors(t *testing.T) {
 				t.Errorf("offset %d, want %d: %v", off, tt.offset, err)
 			}
 		})
+	}
+	if _, err := ParseQuantity("12.5 um ± 0.2 T"); !errors.Is(err, ErrDimMismatch) {
+		t.Errorf("mixed-dimension uncertainty: %v", err)
 	}
 }
 
