@@ -8,6 +8,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
+	"cleave/calc/materials"
 	"cleave/calc/quantity"
 )
 
@@ -327,9 +328,36 @@ func (e *Env) evalField(n *Field) (Value, error) {
 	return v, nil
 }
 
+// materialCall reads Si(100) and Ge(holes), material names that look like calls.
+func materialCall(n *Call) (Value, bool) {
+	if len(n.Args) != 1 || n.Args[0].Name != "" {
+		return nil, false
+	}
+	var inner string
+	switch a := n.Args[0].Value.(type) {
+	case *NumberLit:
+		if a.Unc != "" || a.Unit != "" {
+			return nil, false
+		}
+		inner = a.Text
+	case *Ident:
+		inner = a.Name
+	default:
+		return nil, false
+	}
+	m, err := materials.Lookup(n.Func + "(" + inner + ")")
+	if err != nil {
+		return nil, false
+	}
+	return materialRecord(m), true
+}
+
 func (e *Env) evalCall(n *Call) (Value, error) {
 	f, ok := e.funcs[n.Func]
 	if !ok {
+		if m, ok := materialCall(n); ok {
+			return m, nil
+		}
 		msg := fmt.Sprintf("unknown function %q", n.Func)
 		names := make([]string, 0, len(e.funcs))
 		for k := range e.funcs {

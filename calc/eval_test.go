@@ -86,6 +86,10 @@ func TestPhysicsThroughLanguage(t *testing.T) {
 		{"material mass in m_e", "Al0.33Ga0.67As.mstar", "m_e", 0.067 + 0.083*0.33, 1e-12},
 		{"graphene vF", "graphene.vF", "m/s", 1e6, 0},
 		{"degeneracy field", "GaAs.gv", "", 1, 0},
+		// calc/materials: Si(100) has gv = 2 (Ando, Fowler, Stern 1982); Ge holes 0.061 m_e (Lodari et al. 2019).
+		{"material written like a call", "Si(100).gv", "", 2, 0},
+		{"Ge holes mass", "Ge(holes).mstar", "m_e", 0.061, 1e-12},
+		{"grouped result form reads back", "(3.070 ± 0.040)e11 cm^-2", "cm^-2", 3.07e11, 1e-15},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

@@ -89,6 +89,8 @@ func lex(src string, line int) ([]token, error) {
 				return nil, err
 			}
 			lx.toks = append(lx.toks, token{kind: tNumber, text: n.Text, pos: start, num: n})
+		case r == '(' && lx.groupedNumber(start):
+			// "(3.070 ± 0.040)e11 cm^-2", the form results are displayed in
 		case isIdentStart(r):
 			lx.toks = append(lx.toks, token{kind: tIdent, text: lx.ident(), pos: start})
 		case r == '"':
@@ -222,6 +224,58 @@ func (lx *lexer) exponent(k int) int {
 		}
 	}
 	return k
+}
+
+// groupedNumber lexes "(v ± u)e<exp> [unit]" at '(' as one number with value v·10^exp and
+// uncertainty u·10^exp. It reports false, consuming nothing, when the text has another form.
+func (lx *lexer) groupedNumber(start Pos) bool {
+	j := skipSp(lx, lx.i+1)
+	neg := false
+	if lx.at(j) == '-' || lx.at(j) == '−' {
+		neg = true
+		j = skipSp(lx, j+1)
+	}
+	vEnd := lx.decimal(j)
+	if vEnd == j {
+		return false
+	}
+	v := string(lx.src[j:vEnd])
+	k := skipSp(lx, vEnd)
+	switch {
+	case lx.at(k) == '±':
+		k++
+	case lx.at(k) == '+' && lx.at(k+1) == '/' && lx.at(k+2) == '-':
+		k += 3
+	default:
+		return false
+	}
+	k = skipSp(lx, k)
+	uEnd := lx.decimal(k)
+	if uEnd == k {
+		return false
+	}
+	u := string(lx.src[k:uEnd])
+	c := skipSp(lx, uEnd)
+	if lx.at(c) != ')' || lx.at(c+1) != 'e' && lx.at(c+1) != 'E' {
+		return false
+	}
+	eEnd := lx.exponent(c + 1)
+	if eEnd == c+1 || strings.ContainsAny(v, "eE") || strings.ContainsAny(u, "eE") {
+		return false
+	}
+	exp := string(lx.src[c+1 : eEnd])
+	n := &numLit{Text: v + exp, Unc: u + exp, UncPos: Pos{lx.line, k + 1}}
+	lx.i = eEnd
+	if neg {
+		// a negative value reads as unary minus applied to the number
+		lx.toks = append(lx.toks, token{kind: tOp, text: "-", pos: start})
+		start = Pos{lx.line, j + 1}
+	}
+	if unit, p, ok := lx.unit(); ok {
+		n.Unit, n.UnitPos = unit, p
+	}
+	lx.toks = append(lx.toks, token{kind: tNumber, text: n.Text, pos: start, num: n})
+	return true
 }
 
 // number lexes a number literal with its optional uncertainty and unit.

@@ -54,6 +54,9 @@ func TestParseLine(t *testing.T) {
 		{"result region stripped", "x = 2 T #= 2 T", Assign, "x", "2 T", ""},
 		{"leading dot number", "x = .5", Assign, "x", ".5", ""},
 		{"unicode names", "ħ * μ_B", Expr, "", "(ħ * μ_B)", ""},
+		{"grouped result form", "(3.070 ± 0.040)e11 cm^-2", Expr, "", "3.070e11 ± 0.040e11 cm^-2", ""},
+		{"negative grouped result form", "(-1.05 ± 0.01)e6 T", Expr, "", "(-1.05e6 ± 0.01e6 T)", ""},
+		{"parenthesised sum stays a sum", "(3 ± 1)", Expr, "", "3 ± 1", ""},
 		{"unicode operators", "a × b − c", Expr, "", "((a * b) - c)", ""},
 	}
 	for _, tc := range tests {
@@ -229,6 +232,7 @@ var parseSeeds = []string{
 	"0 T .. 0.5 T", "[1, 2, [3]]", `fermi_energy(n, m=GaAs.mstar, gs=1)`, "device.width",
 	"Al0.33Ga0.67As.mstar", "E_F -> meV", `data("raw/hall.csv")`, "1 kg m^2 s^-2", "5 T / B",
 	"f(x -> meV, 2)", "x -> cm^2/(V s)", "-(-(1))", "1 T..2 T", "5T*x", "ħ*μ_B", ".5e-3 mK",
+	"(3.070 ± 0.040)e11 cm^-2", "(-1.05 ± 0.01)e6 T", "Si(100).gv",
 }
 
 func TestRoundTripSeeds(t *testing.T) {
