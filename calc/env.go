@@ -194,6 +194,10 @@ type LineResult struct {
 func (e *Env) EvalLine(line string, lineNo int) LineResult {
 	st, err := ParseLine(line, lineNo)
 	if err != nil {
+		if name, ok := assignedName(line); ok {
+			e.forget(name, lineNo)
+			return errResult(Assign, name, err)
+		}
 		return errResult(Expr, "", err)
 	}
 	res := LineResult{Kind: st.Kind, Name: st.Name}
@@ -208,11 +212,7 @@ func (e *Env) EvalLine(line string, lineNo int) LineResult {
 	}
 	if err != nil {
 		if st.Kind == Assign {
-			if _, ok := e.vars[st.Name]; ok {
-				delete(e.vars, st.Name)
-				e.order = removeName(e.order, st.Name)
-			}
-			e.failed[st.Name] = lineNo
+			e.forget(st.Name, lineNo)
 		}
 		return errResult(st.Kind, st.Name, err)
 	}
@@ -222,6 +222,32 @@ func (e *Env) EvalLine(line string, lineNo int) LineResult {
 	res.Value = v
 	res.Display = Display(v)
 	return res
+}
+
+// forget undefines a name whose definition on line lineNo failed, so that later lines do
+// not silently use an earlier value.
+func (e *Env) forget(name string, lineNo int) {
+	if _, ok := e.vars[name]; ok {
+		delete(e.vars, name)
+		e.order = removeName(e.order, name)
+	}
+	e.failed[name] = lineNo
+}
+
+// assignedName reports the name on the left of a line that has the shape "name = ...",
+// even when the rest does not parse.
+func assignedName(line string) (string, bool) {
+	lx := &lexer{src: []rune(line)}
+	lx.skipSpace()
+	if lx.i >= len(lx.src) || !isIdentStart(lx.src[lx.i]) {
+		return "", false
+	}
+	name := lx.ident()
+	lx.skipSpace()
+	if lx.i < len(lx.src) && lx.src[lx.i] == '=' {
+		return name, true
+	}
+	return "", false
 }
 
 func removeName(names []string, n string) []string {

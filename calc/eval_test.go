@@ -260,4 +260,13 @@ func TestFailedDefinition(t *testing.T) {
 	if r.Err == nil || !contains(r.Err.Error(), "definition on line 2 failed") {
 		t.Errorf("got %v, want an error naming line 2", r.Err)
 	}
+	// A syntax error in a redefinition also undefines the name.
+	e.EvalLine("B = 5 T", 4)
+	r = e.EvalLine("B = 6 T +", 5)
+	if r.Kind != Assign || r.Name != "B" || r.Err == nil {
+		t.Errorf("got kind %v name %q err %v, want a failed assignment of B", r.Kind, r.Name, r.Err)
+	}
+	if r := e.EvalLine("B", 6); r.Err == nil || !contains(r.Err.Error(), "definition on line 5 failed") {
+		t.Errorf("got %v, want an error naming line 5", r.Err)
+	}
 }
