@@ -241,3 +241,27 @@ func BenchmarkSolve600nm(b *testing.B) {
 		}
 	}
 }
+
+// TestSelfConsistentGridConvergence: the self-consistent density of the delta-doped
+// heterojunction converges as h² when the grid is halved (second-order finite differences
+// and finite volumes; layer interfaces fall on grid nodes for these steps).
+func TestSelfConsistentGridConvergence(t *testing.T) {
+	steps := []float64{1e-9, 0.5e-9, 0.25e-9, 0.125e-9}
+	if testing.Short() {
+		steps = steps[:3]
+	}
+	var ns []float64
+	for _, h := range steps {
+		r, err := Solve(deltaStack(30e-9, 3e16), Options{DonorDepthEV: 0.10, GridM: h})
+		if err != nil {
+			t.Fatalf("h = %g: %v", h, err)
+		}
+		ns = append(ns, r.TotalN2D)
+	}
+	for i := 2; i < len(ns); i++ {
+		ratio := (ns[i-1] - ns[i-2]) / (ns[i] - ns[i-1])
+		if ratio < 3 || ratio > 5 {
+			t.Errorf("successive density changes %v: ratio %.3f, want ≈ 4", ns, ratio)
+		}
+	}
+}
