@@ -55,3 +55,33 @@ func ExampleParseDoping() {
 	// Si true 2.5e+16 <nil>
 	// bad doping "Si 1e18 furlongs", column 9: expected a unit: cm^-3 or m^-3 for bulk, cm^-2 or m^-2 for a sheet; found "furlongs"
 }
+
+func ExampleLookup() {
+	gaas, _ := band.Lookup("GaAs")
+	al, _ := band.Lookup("Al0.3Ga0.7As")
+	fmt.Printf("ΔEc = %.1f meV, barrier m* = %.4f, eps_r = %.3f\n", (al.EcEV-gaas.EcEV)*1e3, al.Mstar, al.EpsR)
+	_, err := band.Lookup("InP")
+	fmt.Println(err)
+	// Output:
+	// ΔEc = 259.1 meV, barrier m* = 0.0919, eps_r = 12.048
+	// material "InP": unknown material (known: Al(x)Ga(1-x)As, AlAs, GaAs)
+}
+
+// Reading the analytic inputs off a stack, for an estimate beside the full solution.
+func ExampleAnalyticInputFor() {
+	st := band.Stack{Layers: []band.Layer{
+		{Name: "cap", Material: "GaAs", ThicknessM: 10e-9},
+		{Name: "doped", Material: "Al0.3Ga0.7As", ThicknessM: 50e-9, Doping: band.Doping{Species: "Si", Density: 1e24}},
+		{Name: "spacer", Material: "Al0.3Ga0.7As", ThicknessM: 20e-9},
+		{Name: "buffer", Material: "GaAs", ThicknessM: 500e-9},
+	}}
+	in, err := band.AnalyticInputFor(st, 0.10)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	r, _ := band.Analytic(in)
+	fmt.Printf("spacer %.0f nm, ΔEc %.1f meV, n ≈ %.3g cm^-2\n", in.SpacerM*1e9, in.DeltaEcEV*1e3, r.N2D/1e4)
+	// Output:
+	// spacer 20 nm, ΔEc 259.1 meV, n ≈ 3.16e+11 cm^-2
+}
