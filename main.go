@@ -1,13 +1,437 @@
-// Command cleave keeps a semiconductor lab notebook (Markdown in git) trustworthy:
-// entries, lineage, calc blocks and their recomputation.
+// Command cleave keeps a semiconductor lab notebook (Markdown files in git) trustworthy: entries
+// and their lineage, validation, and calc blocks whose results the tool recomputes and checks.
+//
+// This file is the command table: flags, wiring and exit codes. Every command calls one
+// library function. Exit codes: 0 success, 1 problems found (invalid entries, stale or failed
+// results), 2 wrong usage.
 package main
 
 import (
+	"encoding/json"
+	"errors"
+	"flag"
 	"fmt"
+	"io"
 	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+	"time"
+
+	"cleave/hooks"
+	"cleave/notebook"
+	"cleave/notebook/compute"
+	"cleave/templates"
 )
 
-func main() {
-	fmt.Fprintln(os.Stderr, "usage: cleave COMMAND [ARGS]")
-	os.Exit(2)
+const version = "0.1.0"
+
+type command struct {
+	name, args, summary string
+	run                 func(c *cli, args []string) int
 }
+
+var commands []command
+
+func init() {
+	commands = []command{
+		{"init", "[DIR]", "create a notebook: a git repository, the conventional folders and a README", runInit},
+		{"new", "KIND ID [--from PARENT]...", "write a new entry from its template (kinds: wafer piece mask process device cooldown)", runNew},
+		{"tree", "[ID]", "print the lineage of one sample (ancestors and descendants) or of the whole notebook", runTree},
+		{"validate", "", "check every entry: ids, links, kinds, front matter, layer tables, units", runValidate},
+		{"calc", "[PATH...]", "recompute calc blocks and write their results", runCalc},
+		{"check", "[PATH...]", "recompute without writing; list stale results and errors as path:line: old → new", runCheck},
+		{"eval", "[--in FILE] [--json] EXPR", "evaluate one expression, in the context of an entry with --in", runEval},
+		{"demo", "[DIR]", "write the demo notebook (to DIR or a new temp folder) and run everything on it", runDemo},
+		{"version", "", "print the version", func(c *cli, _ []string) int { fmt.Fprintln(c.out, "cleave", version); return 0 }},
+	}
+}
+
+// cli carries the global options and the output streams.
+type cli struct {
+	dir      string // -C: run as if started in this directory
+	out, err io.Writer
+}
+
+func main() { os.Exit(run(os.Args[1:], os.Stdout, os.Stderr)) }
+
+func run(args []string, stdout, stderr io.Writer) int {
+	c := &cli{out: stdout, err: stderr}
+	fs := flag.NewFlagSet("cleave", flag.ContinueOnError)
+	fs.SetOutput(stderr)
+	fs.StringVar(&c.dir, "C", "", "run as if cleave was started in `DIR`")
+	fs.Usage = func() { usage(stderr) }
+	if err := fs.Parse(args); err != nil {
+		if errors.Is(err, flag.ErrHelp) {
+			return 0
+		}
+		return 2
+	}
+	rest := fs.Args()
+	if len(rest) == 0 {
+		usage(stderr)
+		return 2
+	}
+	name := rest[0]
+	if name == "help" || name == "-h" || name == "--help" {
+		if len(rest) > 1 {
+			if cmd, ok := lookup(rest[1]); ok {
+				fmt.Fprintf(stdout, "usage: cleave %s %s\n  %s\n", cmd.name, cmd.args, cmd.summary)
+				return 0
+			}
+		}
+		usage(stdout)
+		return 0
+	}
+	cmd, ok := lookup(name)
+	if !ok {
+		fmt.Fprintf(stderr, "cleave: unknown command %q\n", name)
+		usage(stderr)
+		return 2
+	}
+	return cmd.run(c, rest[1:])
+}
+
+func lookup(name string) (command, bool) {
+	for _, cmd := range commands {
+		if cmd.name == name {
+			return cmd, true
+		}
+	}
+	return command{}, false
+}
+
+func usage(w io.Writer) {
+	fmt.Fprintln(w, "usage: cleave [-C DIR] COMMAND [ARGS]")
+	fmt.Fprintln(w, "\ncommands:")
+	for _, cmd := range commands {
+		fmt.Fprintf(w, "  %-9s %-28s %s\n", cmd.name, cmd.args, cmd.summary)
+	}
+	fmt.Fprintln(w, "\n`cleave help COMMAND` shows one command. Exit codes: 0 ok, 1 problems found, 2 wrong usage.")
+}
+
+// usageErr prints a command's usage line after a message and returns exit code 2.
+func (c *cli) usageErr(name, msg string) int {
+	cmd, _ := lookup(name)
+	if msg != "" {
+		fmt.Fprintf(c.err, "cleave %s: %s\n", name, msg)
+	}
+	fmt.Fprintf(c.err, "usage: cleave %s %s\n", cmd.name, cmd.args)
+	return 2
+}
+
+// fail prints an error and returns exit code 1.
+func (c *cli) fail(name string, err error) int {
+	fmt.Fprintf(c.err, "cleave %s: %v\n", name, err)
+	return 1
+}
+
+// parse parses flags that may stand before, between or after positional arguments.
+func parse(fs *flag.FlagSet, args []string) ([]string, error) {
+	var pos []string
+	for {
+		if err := fs.Parse(args); err != nil {
+			return nil, err
+		}
+		args = fs.Args()
+		if len(args) == 0 {
+			return pos, nil
+		}
+		if args[0] == "--" {
+			return append(pos, args[1:]...), nil
+		}
+		pos = append(pos, args[0])
+		args = args[1:]
+	}
+}
+
+func (c *cli) flags(name string) *flag.FlagSet {
+	fs := flag.NewFlagSet(name, flag.ContinueOnError)
+	fs.SetOutput(io.Discard)
+	return fs
+}
+
+// root is the notebook the command works on: the git work tree around -C or the current dir.
+func (c *cli) root() (string, error) {
+	start := c.dir
+	if start == "" {
+		start = "."
+	}
+	abs, err := filepath.Abs(start)
+	if err != nil {
+		return "", err
+	}
+	r, err := notebook.FindRoot(abs)
+	if err != nil {
+		return "", fmt.Errorf("no notebook here (%s is not inside a git work tree; run `cleave init` first): %w", abs, err)
+	}
+	return r, nil
+}
+
+// path resolves a command-line path against -C.
+func (c *cli) path(p string) string {
+	if c.dir == "" || filepath.IsAbs(p) {
+		return p
+	}
+	return filepath.Join(c.dir, p)
+}
+
+func runInit(c *cli, args []string) int {
+	pos, err := parse(c.flags("init"), args)
+	if err != nil || len(pos) > 1 {
+		return c.usageErr("init", flagMsg(err, "too many arguments"))
+	}
+	dir := c.path(".")
+	if len(pos) == 1 {
+		dir = c.path(pos[0])
+	}
+	readme, err := templates.Render(nil, "notebook-readme", templates.Data{Date: today()})
+	if err != nil {
+		return c.fail("init", err)
+	}
+	created, err := hooks.InitNotebook(dir, readme)
+	if err != nil {
+		return c.fail("init", err)
+	}
+	if len(created) == 0 {
+		fmt.Fprintf(c.out, "%s is already a notebook; nothing to do\n", dir)
+		return 0
+	}
+	fmt.Fprintf(c.out, "notebook ready in %s: created %s\n", dir, strings.Join(created, " "))
+	fmt.Fprintln(c.out, "next: cleave new wafer ID")
+	return 0
+}
+
+func runNew(c *cli, args []string) int {
+	fs := c.flags("new")
+	var from multi
+	fs.Var(&from, "from", "parent id (repeatable)")
+	by := fs.String("by", os.Getenv("CLEAVE_BY"), "initials of the author")
+	pos, err := parse(fs, args)
+	if err != nil || len(pos) != 2 {
+		return c.usageErr("new", flagMsg(err, "need KIND and ID"))
+	}
+	kind, id := notebook.Kind(pos[0]), pos[1]
+	if !kind.Known() {
+		return c.usageErr("new", fmt.Sprintf("unknown kind %q (known: %s)", kind, kindList()))
+	}
+	root, err := c.root()
+	if err != nil {
+		return c.fail("new", err)
+	}
+	nb, err := notebook.LoadDir(root)
+	if err != nil {
+		return c.fail("new", err)
+	}
+	if err := nb.CheckNew(kind, id, from); err != nil {
+		return c.fail("new", err)
+	}
+	var override = os.DirFS(filepath.Join(root, "templates"))
+	body, err := templates.Render(override, string(kind), templates.Data{Kind: string(kind), ID: id, Parents: from, Date: today(), By: *by})
+	if err != nil {
+		return c.fail("new", err)
+	}
+	rel := notebook.DefaultPath(kind, id)
+	full := filepath.Join(root, filepath.FromSlash(rel))
+	if err := os.MkdirAll(filepath.Dir(full), 0o755); err != nil {
+		return c.fail("new", err)
+	}
+	f, err := os.OpenFile(full, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
+	if err != nil {
+		return c.fail("new", err)
+	}
+	if _, err := f.Write(body); err != nil {
+		f.Close()
+		return c.fail("new", err)
+	}
+	if err := f.Close(); err != nil {
+		return c.fail("new", err)
+	}
+	fmt.Fprintf(c.out, "wrote %s\n", rel)
+	return 0
+}
+
+func runTree(c *cli, args []string) int {
+	pos, err := parse(c.flags("tree"), args)
+	if err != nil || len(pos) > 1 {
+		return c.usageErr("tree", flagMsg(err, "too many arguments"))
+	}
+	root, err := c.root()
+	if err != nil {
+		return c.fail("tree", err)
+	}
+	nb, err := notebook.LoadDir(root)
+	if err != nil {
+		return c.fail("tree", err)
+	}
+	id := ""
+	if len(pos) == 1 {
+		id = pos[0]
+	}
+	if err := nb.Tree(c.out, id); err != nil {
+		return c.fail("tree", err)
+	}
+	return 0
+}
+
+func runValidate(c *cli, args []string) int {
+	pos, err := parse(c.flags("validate"), args)
+	if err != nil || len(pos) > 0 {
+		return c.usageErr("validate", flagMsg(err, "takes no arguments"))
+	}
+	root, err := c.root()
+	if err != nil {
+		return c.fail("validate", err)
+	}
+	nb, err := notebook.LoadDir(root)
+	if err != nil {
+		return c.fail("validate", err)
+	}
+	probs := nb.Validate()
+	for _, p := range probs {
+		fmt.Fprintln(c.out, p.Error())
+	}
+	if len(probs) > 0 {
+		fmt.Fprintf(c.err, "cleave validate: %d problem(s) in %d entries\n", len(probs), len(nb.Entries))
+		return 1
+	}
+	fmt.Fprintf(c.out, "%d entries, %d files: no problems\n", len(nb.Entries), len(nb.Files))
+	return 0
+}
+
+func runCalc(c *cli, args []string) int  { return c.recompute("calc", args, true) }
+func runCheck(c *cli, args []string) int { return c.recompute("check", args, false) }
+
+func (c *cli) recompute(name string, args []string, write bool) int {
+	fs := c.flags(name)
+	noCache := fs.Bool("no-cache", false, "evaluate everything, ignoring cached results")
+	pos, err := parse(fs, args)
+	if err != nil {
+		return c.usageErr(name, flagMsg(err, ""))
+	}
+	root, err := c.root()
+	if err != nil {
+		return c.fail(name, err)
+	}
+	paths := make([]string, len(pos))
+	for i, p := range pos {
+		paths[i] = c.path(p)
+	}
+	nb, err := notebook.LoadDir(root)
+	if err != nil {
+		return c.fail(name, err)
+	}
+	rep, err := compute.Run(root, nb, compute.Options{Write: write, NoCache: *noCache, Paths: paths})
+	if err != nil {
+		return c.fail(name, err)
+	}
+	bad := 0
+	for _, f := range rep.Files {
+		bad += len(f.Errors)
+		if !write {
+			bad += len(f.Stale)
+		}
+	}
+	if write {
+		for _, p := range rep.Written {
+			fmt.Fprintf(c.out, "updated %s\n", p)
+		}
+		for _, f := range rep.Files {
+			for _, ch := range f.Errors {
+				fmt.Fprintf(c.out, "%s:%d: %s\n", ch.Path, ch.Line, ch.New)
+			}
+		}
+	} else {
+		for _, l := range rep.Lines() {
+			fmt.Fprintln(c.out, l)
+		}
+	}
+	for _, e := range rep.Failures {
+		if !write {
+			continue // already in rep.Lines
+		}
+		fmt.Fprintln(c.out, e.Error())
+	}
+	bad += len(rep.Failures)
+	// Invalid entries fail a check too: it is the CI gate.
+	probs := nb.Validate()
+	for _, p := range probs {
+		fmt.Fprintln(c.out, p.Error())
+	}
+	bad += len(probs)
+	fmt.Fprintf(c.err, "cleave %s: %d file(s) with calc blocks, %d line(s) evaluated, %d from cache, %d problem(s)\n",
+		name, len(rep.Files), rep.Evaluated, rep.CacheHits, bad)
+	if bad > 0 {
+		return 1
+	}
+	return 0
+}
+
+func runEval(c *cli, args []string) int {
+	fs := c.flags("eval")
+	in := fs.String("in", "", "evaluate in the context of this entry `FILE`")
+	asJSON := fs.Bool("json", false, "print one JSON object: value, unit, display, uncertainty")
+	pos, err := parse(fs, args)
+	if err != nil || len(pos) == 0 {
+		return c.usageErr("eval", flagMsg(err, "need an expression"))
+	}
+	expr := strings.Join(pos, " ")
+	root := ""
+	if *in != "" {
+		if root, err = c.root(); err != nil {
+			return c.fail("eval", err)
+		}
+		*in = c.path(*in)
+	}
+	v, err := compute.Eval(root, *in, expr)
+	if err != nil {
+		return c.fail("eval", err)
+	}
+	if *asJSON {
+		enc := json.NewEncoder(c.out)
+		if err := enc.Encode(compute.ResultOf(v)); err != nil {
+			return c.fail("eval", err)
+		}
+		return 0
+	}
+	fmt.Fprintln(c.out, compute.ResultOf(v).Display)
+	return 0
+}
+
+func runDemo(c *cli, args []string) int {
+	pos, err := parse(c.flags("demo"), args)
+	if err != nil || len(pos) > 1 {
+		return c.usageErr("demo", flagMsg(err, "too many arguments"))
+	}
+	dir := ""
+	if len(pos) == 1 {
+		dir = c.path(pos[0])
+	}
+	if err := hooks.Demo(demoScenario(), dir, c.out); err != nil {
+		return c.fail("demo", err)
+	}
+	return 0
+}
+
+type multi []string
+
+func (m *multi) String() string     { return strings.Join(*m, ",") }
+func (m *multi) Set(v string) error { *m = append(*m, v); return nil }
+
+func flagMsg(err error, otherwise string) string {
+	if err != nil {
+		return err.Error()
+	}
+	return otherwise
+}
+
+func kindList() string {
+	var ks []string
+	for _, k := range notebook.Kinds() {
+		ks = append(ks, string(k))
+	}
+	sort.Strings(ks)
+	return strings.Join(ks, ", ")
+}
+
+func today() string { return time.Now().Format("2006-01-02") }

@@ -1,0 +1,244 @@
+package hooks
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"os"
+	"path"
+	"path/filepath"
+	"strings"
+	"time"
+
+	"cleave/notebook"
+	"cleave/notebook/compute"
+)
+
+// demoStep is one commit of the demo notebook's story.
+type demoStep struct {
+	when    string   // commit date
+	who     string   // initials of the author
+	message string   // commit message
+	paths   []string // scenario files (or folders) this step adds
+	edit    func(dir string) error
+	data    []string // cooldowns whose synthetic data files this step writes
+	narrate string   // what the demo tells the user about this step
+}
+
+// maskTypo is the probe position first entered for probe 4 of HB100; the story corrects it.
+const (
+	maskRight = `{name: "4", position: 750 um`
+	maskTypo  = `{name: "4", position: 700 um`
+)
+
+var demoStory = []demoStep{
+	{when: "2024-03-15T17:20:00Z", who: "AK", message: "Grow W24-031 (uniform doping) and W24-032 (delta doping); draw Hall-bar mask HB100",
+		paths: []string{"README.md", "wafers", "masks"},
+		edit: func(dir string) error {
+			return replaceIn(filepath.Join(dir, "masks", "HB100.md"), maskRight, maskTypo)
+		},
+		narrate: "two wafers and the Hall-bar mask (probe 4 entered at 700 um by mistake)"},
+	{when: "2024-03-26T16:05:00Z", who: "JM", message: "Cleave three pieces and process Hall bars (run P24-07)",
+		paths:   []string{"pieces", "processes", "devices"},
+		narrate: "three pieces, one process run, three devices"},
+	{when: "2024-04-02T21:40:00Z", who: "RS", message: "CD24-001: W24-031-A-HB1 in the dark, with a temperature series",
+		paths: []string{"cooldowns/CD24-001.md"}, data: []string{"CD24-001"},
+		narrate: "first cooldown: Hall and SdH densities, mobility, LK mass, quantum lifetime"},
+	{when: "2024-04-05T10:15:00Z", who: "JM", message: "HB100: probe 4 sits at 750 um, not 700 um (checked against the drawing)",
+		edit: func(dir string) error {
+			return replaceIn(filepath.Join(dir, "masks", "HB100.md"), maskTypo, maskRight)
+		},
+		narrate: "the mask correction: every result that depends on the probe spacing changes"},
+	{when: "2024-04-09T19:30:00Z", who: "RS", message: "CD24-002: W24-031-A-HB1 again after illumination",
+		paths: []string{"cooldowns/CD24-002.md"}, data: []string{"CD24-002"},
+		narrate: "second cooldown of the same device after a red LED pulse (persistent photoconductivity)"},
+	{when: "2024-04-16T22:10:00Z", who: "RS", message: "CD24-003 (edge piece of W24-031) and CD24-004 (W24-032 to 9 T at 30 mK)",
+		paths: []string{"cooldowns/CD24-003.md", "cooldowns/CD24-004.md"}, data: []string{"CD24-003", "CD24-004"},
+		narrate: "the edge piece with a parallel conducting layer, and quantum Hall plateaus on the delta-doped wafer"},
+}
+
+var demoPeople = map[string]string{"AK": "A. K.", "JM": "J. M.", "RS": "R. S."}
+
+// Demo writes the demo notebook (an invented lab's wafers, mask, pieces, process, devices and
+// cooldowns, with synthetic data files) into dir — a new temporary folder when dir is "" —
+// as a git repository whose commits tell the story of demoStory, recomputing the calc
+// blocks at every step as a colleague would before committing. Then it validates the
+// notebook, prints its lineage and the key results, and tells the user what to try next.
+func Demo(scenario fs.FS, dir string, out io.Writer) error {
+	if dir == "" {
+		d, err := os.MkdirTemp("", "cleave-demo-")
+		if err != nil {
+			return err
+		}
+		dir = d
+	} else if entries, err := os.ReadDir(dir); err == nil && len(entries) > 0 {
+		return fmt.Errorf("%s is not empty; give a new or empty folder", dir)
+	}
+	abs, err := filepath.Abs(dir)
+	if err != nil {
+		return err
+	}
+	if _, err := InitNotebook(abs, nil); err != nil {
+		return err
+	}
+	fmt.Fprintf(out, "cleave demo: writing an invented lab's notebook to %s\n\n", abs)
+	for i, st := range demoStory {
+		for _, p := range st.paths {
+			if err := copyTree(scenario, p, abs); err != nil {
+				return err
+			}
+		}
+		for _, cd := range st.data {
+			for _, s := range demoSweeps(cd) {
+				b, err := s.render()
+				if err != nil {
+					return err
+				}
+				if err := writeFile(filepath.Join(abs, filepath.FromSlash(s.path)), b); err != nil {
+					return err
+				}
+			}
+		}
+		if st.edit != nil {
+			if err := st.edit(abs); err != nil {
+				return err
+			}
+		}
+		fmt.Fprintf(out, "step %d (%s, %s): %s\n", i+1, st.when[:10], st.who, st.narrate)
+		// A colleague runs `cleave check` first: after the mask correction it lists the
+		// stale results old → new.
+		rep, err := compute.Run(abs, nil, compute.Options{})
+		if err != nil {
+			return err
+		}
+		if i > 0 {
+			stale := 0
+			for _, f := range rep.Files {
+				for _, c := range f.Stale {
+					if c.Old == "" {
+						continue // a new entry's first results
+					}
+					if stale == 0 {
+						fmt.Fprintln(out, "  cleave check finds stale results:")
+					}
+					stale++
+					fmt.Fprintf(out, "    %s\n", c)
+				}
+			}
+		}
+		if _, err := compute.Run(abs, nil, compute.Options{Write: true}); err != nil {
+			return err
+		}
+		when, _ := time.Parse(time.RFC3339, st.when)
+		if _, err := CommitAll(abs, st.message, Author{Name: demoPeople[st.who], Email: strings.ToLower(st.who) + "@lab.invalid", When: when}); err != nil {
+			return err
+		}
+	}
+	return demoSummary(abs, out)
+}
+
+// demoSummary validates the finished notebook, prints its lineage and the numbers a group
+// would report, and points to what to look at next.
+func demoSummary(dir string, out io.Writer) error {
+	nb, err := notebook.LoadDir(dir)
+	if err != nil {
+		return err
+	}
+	fmt.Fprintln(out, "\n$ cleave validate")
+	probs := nb.Validate()
+	for _, p := range probs {
+		fmt.Fprintln(out, p.Error())
+	}
+	if len(probs) == 0 {
+		fmt.Fprintf(out, "%d entries, %d files: no problems\n", len(nb.Entries), len(nb.Files))
+	}
+	fmt.Fprintln(out, "\n$ cleave tree")
+	if err := nb.Tree(out, ""); err != nil {
+		return err
+	}
+	fmt.Fprintln(out, "\n$ cleave check")
+	rep, err := compute.Run(dir, nb, compute.Options{})
+	if err != nil {
+		return err
+	}
+	for _, l := range rep.Lines() {
+		fmt.Fprintln(out, l)
+	}
+	if rep.OK() {
+		fmt.Fprintf(out, "%d files with calc blocks, all results current\n", len(rep.Files))
+	}
+	fmt.Fprintln(out, "\nKey results (cleave eval --in FILE NAME):")
+	for _, row := range demoResults {
+		fmt.Fprintf(out, "  %-22s", row.file[strings.LastIndex(row.file, "/")+1:])
+		for _, name := range row.names {
+			v, err := compute.Eval(dir, filepath.Join(dir, filepath.FromSlash(row.file)), name)
+			text := "error: " + fmt.Sprint(err)
+			if err == nil {
+				text = compute.ResultOf(v).Display
+			}
+			fmt.Fprintf(out, "  %s = %s", name, text)
+		}
+		fmt.Fprintln(out)
+	}
+	fmt.Fprintf(out, `
+What to look at next:
+  cd %s
+  git log --stat                      the story, commit by commit
+  git show HEAD~2                     the mask correction: each changed result is one changed line
+  cat cooldowns/CD24-001.md           calc blocks with their results after #=
+  cleave tree W24-031                 one wafer's pieces, devices and cooldowns
+  cleave eval --in cooldowns/CD24-001.md 'mu -> cm^2/(V s)'
+  cleave check                        what CI runs: exits 1 on a stale result or an invalid entry
+  edit a width in masks/HB100.md, then: cleave check; cleave calc
+`, dir)
+	if len(probs) > 0 || !rep.OK() {
+		return errors.New("the demo notebook has problems (listed above)")
+	}
+	return nil
+}
+
+var demoResults = []struct {
+	file  string
+	names []string
+}{
+	{"cooldowns/CD24-001.md", []string{"n_H", "n_SdH", "mu", "m_LK", "tau_q"}},
+	{"cooldowns/CD24-002.md", []string{"n_H", "n_SdH", "mu"}},
+	{"cooldowns/CD24-003.md", []string{"n_H", "n_SdH", "mu"}},
+	{"cooldowns/CD24-004.md", []string{"n_H", "n_SdH", "mu"}},
+}
+
+// copyTree copies a scenario file or folder into dir.
+func copyTree(scenario fs.FS, root, dir string) error {
+	return fs.WalkDir(scenario, root, func(p string, d fs.DirEntry, err error) error {
+		if err != nil {
+			return fmt.Errorf("demo scenario: %w", err)
+		}
+		if d.IsDir() {
+			return nil
+		}
+		b, err := fs.ReadFile(scenario, p)
+		if err != nil {
+			return err
+		}
+		return writeFile(filepath.Join(dir, filepath.FromSlash(path.Clean(p))), b)
+	})
+}
+
+func writeFile(p string, b []byte) error {
+	if err := os.MkdirAll(filepath.Dir(p), 0o755); err != nil {
+		return err
+	}
+	return os.WriteFile(p, b, 0o644)
+}
+
+func replaceIn(p, old, new string) error {
+	b, err := os.ReadFile(p)
+	if err != nil {
+		return err
+	}
+	if !strings.Contains(string(b), old) {
+		return fmt.Errorf("demo: %s does not contain %q", p, old)
+	}
+	return os.WriteFile(p, []byte(strings.Replace(string(b), old, new, 1)), 0o644)
+}

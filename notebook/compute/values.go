@@ -1,0 +1,88 @@
+package compute
+
+import (
+	"strings"
+
+	"go.yaml.in/yaml/v3"
+
+	"cleave/calc"
+	"cleave/calc/quantity"
+	"cleave/notebook"
+)
+
+// nodeValue turns a front-matter node into a calc value. path is the notebook field path of
+// the node ("device", "device.as_built"), used by records to name their dependencies.
+func nodeValue(n *yaml.Node, path string) calc.Value {
+	if n == nil {
+		return calc.String("")
+	}
+	switch n.Kind {
+	case yaml.DocumentNode:
+		if len(n.Content) > 0 {
+			return nodeValue(n.Content[0], path)
+		}
+		return calc.String("")
+	case yaml.AliasNode:
+		return nodeValue(n.Alias, path)
+	case yaml.SequenceNode:
+		l := make(calc.List, 0, len(n.Content))
+		for _, c := range n.Content {
+			l = append(l, nodeValue(c, path))
+		}
+		return l
+	case yaml.MappingNode:
+		r := &calc.Record{Path: path}
+		for i := 0; i+1 < len(n.Content); i += 2 {
+			k := n.Content[i].Value
+			r.Fields = append(r.Fields, calc.RecordField{Name: k, Value: nodeValue(n.Content[i+1], path+"."+k)})
+		}
+		return r
+	}
+	return scalarValue(n.Value)
+}
+
+// scalarValue reads a front-matter scalar: a quantity when it parses as one ("20 um",
+// "3.1e11 cm^-2", "5"), text otherwise.
+func scalarValue(s string) calc.Value {
+	t := strings.TrimSpace(s)
+	if t == "" {
+		return calc.String(s)
+	}
+	if q, err := quantity.ParseQuantity(t); err == nil {
+		return calc.Q(q)
+	}
+	return calc.String(s)
+}
+
+// entryRecord is an entry's front matter as a record named after its kind; a wafer's record
+// also carries its layer table as `layers`.
+func entryRecord(e *notebook.Entry, name string) *calc.Record {
+	v := nodeValue(e.Meta, name)
+	r, ok := v.(*calc.Record)
+	if !ok {
+		r = &calc.Record{Path: name}
+	}
+	if e.Kind == notebook.KindWafer && e.Layers != nil {
+		r.Fields = append(r.Fields, calc.RecordField{Name: "layers", Value: layersValue(e.Layers, name+".layers")})
+	}
+	return r
+}
+
+// layersValue is a wafer's layer table as a list of records, surface first.
+func layersValue(rows []notebook.LayerRow, path string) calc.List {
+	l := make(calc.List, 0, len(rows))
+	for i, row := range rows {
+		var th calc.Value = calc.String(row.Thickness)
+		if row.ThicknessQ.Dim() == quantity.Length {
+			th = calc.Q(row.ThicknessQ)
+		}
+		l = append(l, &calc.Record{Path: path, Fields: []calc.RecordField{
+			{Name: "index", Value: calc.Q(quantity.Scalar(float64(i + 1)))},
+			{Name: "layer", Value: calc.String(row.Layer)},
+			{Name: "material", Value: calc.String(row.Material)},
+			{Name: "thickness", Value: th},
+			{Name: "doping", Value: calc.String(row.Doping)},
+		}})
+	}
+	return l
+}
