@@ -57,6 +57,23 @@ type Options struct {
 	TolN         float64 // and the relative change of n2D < TolN; default 1e-5
 }
 
+// check rejects options that are not finite numbers.
+func (o Options) check() error {
+	for _, f := range []struct {
+		name string
+		v    float64
+	}{{"GridM", o.GridM}, {"TemperatureK", o.TemperatureK}, {"SubstrateM", o.SubstrateM},
+		{"DonorDepthEV", o.DonorDepthEV}, {"TolV", o.TolV}, {"TolN", o.TolN}} {
+		if math.IsNaN(f.v) || math.IsInf(f.v, 0) {
+			return fmt.Errorf("band: Options.%s is %v, want a finite number (0 for the default)", f.name, f.v)
+		}
+	}
+	if o.GridM < 0 || o.TemperatureK < 0 || o.SubstrateM < 0 || o.DonorDepthEV < 0 {
+		return errors.New("band: Options.GridM, TemperatureK, SubstrateM and DonorDepthEV must not be negative")
+	}
+	return nil
+}
+
 func (o Options) withDefaults() Options {
 	if o.GridM <= 0 {
 		o.GridM = DefaultGridM
@@ -486,6 +503,9 @@ func (g *grid) poisson(phi, phiRef []float64, st *states, wk *work) error {
 func Solve(stack Stack, opt Options) (*Result, error) {
 	ps, err := stack.params()
 	if err != nil {
+		return nil, err
+	}
+	if err := opt.check(); err != nil {
 		return nil, err
 	}
 	o := opt.withDefaults()

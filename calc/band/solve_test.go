@@ -207,17 +207,26 @@ func TestSolveErrors(t *testing.T) {
 		{"layer thinner than grid", func() Stack { s := deltaStack(20e-9, 5e16); s.Layers[0].ThicknessM = 0.1e-9; return s }(),
 			Options{}, ErrBadThickness, "finer Options.GridM"},
 		{"iteration cap", good, Options{MaxIter: 1}, ErrNotConverged, "after 1 iterations"},
+		{"gate voltage NaN", func() Stack { s := deltaStack(20e-9, 5e16); s.Surface = Surface{Kind: SurfaceGate, GateV: math.NaN()}; return s }(),
+			Options{}, nil, "not a finite number"},
+		{"unknown substrate", func() Stack { s := deltaStack(20e-9, 5e16); s.SubstrateMaterial = "InP"; return s }(),
+			Options{}, ErrUnknownMaterial, "substrate"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			_, err := Solve(tc.stack, tc.opt)
-			if !errors.Is(err, tc.is) {
+			if err == nil || (tc.is != nil && !errors.Is(err, tc.is)) {
 				t.Fatalf("err = %v, want %v", err, tc.is)
 			}
 			if !strings.Contains(err.Error(), tc.mention) {
 				t.Errorf("error %q does not mention %q", err, tc.mention)
 			}
 		})
+	}
+	for _, o := range []Options{{GridM: math.NaN()}, {TemperatureK: math.Inf(1)}, {GridM: -1e-9}} {
+		if _, err := Solve(good, o); err == nil || !strings.Contains(err.Error(), "Options.") {
+			t.Errorf("options %+v: err = %v, want an Options error", o, err)
+		}
 	}
 	var ce *ConvergenceError
 	if _, err := Solve(good, Options{MaxIter: 1}); !errors.As(err, &ce) || ce.Iterations != 1 || !(ce.MaxDeltaV > 0) {

@@ -136,3 +136,39 @@ func FuzzParseThickness(f *testing.F) {
 		}
 	})
 }
+
+// FuzzStack builds stacks from fuzzed layer choices: Validate and AnalyticInputFor must not
+// panic, and a successful AnalyticInputFor has a positive band offset and a spacer ≥ 0.
+func FuzzStack(f *testing.F) {
+	f.Add([]byte{1, 30, 0, 2, 0, 2, 1, 20, 0, 0, 200, 0})
+	f.Add([]byte{0, 10, 0, 1, 50, 1, 1, 20, 0, 0, 255, 3})
+	f.Fuzz(func(t *testing.T, b []byte) {
+		var s Stack
+		mats := []string{"GaAs", "Al0.3Ga0.7As", "AlAs", "Al0.1Ga0.9As", "InP"}
+		for i := 0; i+2 < len(b) && len(s.Layers) < 12; i += 3 {
+			l := Layer{Material: mats[int(b[i])%len(mats)], ThicknessM: float64(int(b[i+1])-20) * 1e-9}
+			switch b[i+2] % 4 {
+			case 1:
+				l.Doping = Doping{Species: "Si", Density: 1e24}
+			case 2:
+				l.Doping = Doping{Species: "Si", Sheet: true, Density: 2e16}
+			case 3:
+				l.Doping = Doping{Species: "Be", Density: 1e21}
+			}
+			s.Layers = append(s.Layers, l)
+		}
+		verr := s.Validate()
+		in, err := AnalyticInputFor(s, 0)
+		if err == nil {
+			if verr != nil {
+				t.Fatalf("AnalyticInputFor accepted a stack Validate rejects: %v", verr)
+			}
+			if !(in.DeltaEcEV > 0) || in.SpacerM < 0 {
+				t.Fatalf("AnalyticInputFor = %+v", in)
+			}
+			if _, err := Analytic(in); err != nil {
+				t.Fatalf("Analytic(%+v): %v", in, err)
+			}
+		}
+	})
+}
