@@ -207,7 +207,11 @@ func TestSolveErrors(t *testing.T) {
 		{"layer thinner than grid", func() Stack { s := deltaStack(20e-9, 5e16); s.Layers[0].ThicknessM = 0.1e-9; return s }(),
 			Options{}, ErrBadThickness, "finer Options.GridM"},
 		{"iteration cap", good, Options{MaxIter: 1}, ErrNotConverged, "after 1 iterations"},
-		{"gate voltage NaN", func() Stack { s := deltaStack(20e-9, 5e16); s.Surface = Surface{Kind: SurfaceGate, GateV: math.NaN()}; return s }(),
+		{"gate voltage NaN", func() Stack {
+			s := deltaStack(20e-9, 5e16)
+			s.Surface = Surface{Kind: SurfaceGate, GateV: math.NaN()}
+			return s
+		}(),
 			Options{}, nil, "not a finite number"},
 		{"unknown substrate", func() Stack { s := deltaStack(20e-9, 5e16); s.SubstrateMaterial = "InP"; return s }(),
 			Options{}, ErrUnknownMaterial, "substrate"},
