@@ -75,8 +75,9 @@ func TestSolveAgainstAnalytic(t *testing.T) {
 	}
 }
 
-// TestNeutrality: the converged solution is charge neutral to better than 1e7 cm^-2
-// (REFERENCE §3.8 item 7, common practice), at several temperatures.
+// TestNeutrality: the converged solution is charge neutral to better than 1e7 cm^-2, a
+// numerical tolerance of 1e-4 of the 2DEG density (the figure REFERENCE §3.8 item 7 quotes
+// as common practice), at temperatures from 0.3 K to 20 K.
 func TestNeutrality(t *testing.T) {
 	for _, temp := range []float64{0.3, 1.5, 4.2, 20} {
 		r, err := Solve(deltaStack(20e-9, 5e16), Options{TemperatureK: temp})
