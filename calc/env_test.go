@@ -77,6 +77,13 @@ func TestDeps(t *testing.T) {
 	}
 }
 
+// withoutLoader unsets DataLoader for the test, so data() returns a *DataFile.
+func withoutLoader(t *testing.T) {
+	old := DataLoader
+	DataLoader = nil
+	t.Cleanup(func() { DataLoader = old })
+}
+
 func sha(b string) string {
 	s := sha256.Sum256([]byte(b))
 	return "sha256:" + hex.EncodeToString(s[:])
@@ -85,6 +92,7 @@ func sha(b string) string {
 // TestData checks data() path resolution, refusal of paths that leave the notebook, the
 // dependency with its content hash, and the loader hook.
 func TestData(t *testing.T) {
+	withoutLoader(t)
 	csv := "B_T,Rxy_Ohm\n0,0\n1,2080.5\n"
 	fsys := fstest.MapFS{
 		"cooldowns/cd-01/raw/hall.csv": {Data: []byte(csv)},
@@ -149,8 +157,6 @@ func TestData(t *testing.T) {
 	}
 
 	// The loader hook receives the bytes.
-	old := DataLoader
-	t.Cleanup(func() { DataLoader = old })
 	DataLoader = func(name string, r io.Reader) (Value, error) {
 		b, err := io.ReadAll(r)
 		if err != nil {
@@ -170,6 +176,7 @@ func TestData(t *testing.T) {
 
 // TestDataSymlinkOnDisk checks the link rule on a real directory through os.DirFS.
 func TestDataSymlinkOnDisk(t *testing.T) {
+	withoutLoader(t)
 	outside := t.TempDir()
 	root := t.TempDir()
 	if err := os.WriteFile(filepath.Join(outside, "secret.csv"), []byte("s\n"), 0o600); err != nil {

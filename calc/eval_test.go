@@ -65,7 +65,7 @@ func TestPhysicsThroughLanguage(t *testing.T) {
 		{"row 27: Si(100) E_F with gv=2", "fermi_energy(1e12 cm^-2, 0.19 m_e, gv=2)", "meV", 6.2997, 1e-4},
 		{"row 28: Ge holes E_F", "fermi_energy(2.2e11 cm^-2, 0.061 m_e)", "meV", 8.6337, 1e-4},
 		{"§2.1: level degeneracy e B/h per tesla", "e*(1 T)/h", "cm^-2", 2.41799e10, 1e-5},
-		{"§2.6: Hall density from a 2080.5 Ohm/T slope", "hall_density(2080.5 Ohm/T)", "cm^-2", 3.0000e11, 1e-4},
+		{"§2.6: Hall density from a 2080.5 Ohm/T slope", "density_from_slope(2080.5 Ohm/T)", "cm^-2", 3.0000e11, 1e-4},
 		// CODATA 2018: R_K = h/e^2 exactly = 25812.807459304513 Ohm as a float64.
 		{"R_K is h/e^2", "h/e^2", "Ohm", 25812.807459304513, 1e-15},
 		// CODATA 2018: hbar = h/(2 pi) = 1.0545718176461565e-34 J s.

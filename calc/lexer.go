@@ -61,6 +61,9 @@ func isDigit(r rune) bool { return r >= '0' && r <= '9' }
 // lex tokenizes src (one line; a newline is an error). It stops at "#=", the start of the
 // tool-owned result region, as if the line ended there.
 func lex(src string, line int) ([]token, error) {
+	if i := strings.Index(src, "#="); i >= 0 {
+		src = src[:i] // even inside a string: the result region is never input
+	}
 	lx := &lexer{src: []rune(src), line: line}
 	for {
 		lx.skipSpace()

@@ -129,6 +129,7 @@ func TestParseErrors(t *testing.T) {
 		{"x.", 3, 3, "expected a field name after ."},
 		{`"abc`, 3, 1, "unterminated string"},
 		{`"a\n"`, 3, 3, "unknown escape"},
+		{`data("a#=b")`, 3, 6, "unterminated string"},
 		{"1.2.3", 3, 4, "a second decimal point"},
 		{"5 ± T", 3, 5, "expected a number (the uncertainty) after ±"},
 		{"a = b = c", 3, 7, "unexpected ="},
