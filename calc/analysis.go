@@ -121,7 +121,9 @@ func (r *Result) Display() string {
 		if !ok {
 			continue
 		}
-		if i == 0 {
+		if s, ok := v.(String); ok && i == 0 {
+			parts = append(parts, string(s))
+		} else if i == 0 {
 			parts = append(parts, name+" = "+Display(v))
 		} else if s, ok := v.(String); ok {
 			parts = append(parts, string(s))
@@ -417,3 +419,8 @@ func resample(x, y, grid []float64) []float64 {
 	}
 	return out
 }
+
+// AddDep records that what is being evaluated depends on something outside the file (for
+// functions registered by the notebook, which read other entries). hash may be empty; the
+// caller's dependency resolver gives current values when a cache checks them.
+func (e *Env) AddDep(dep, hash string) { e.addDep(dep, hash) }

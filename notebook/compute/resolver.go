@@ -3,6 +3,7 @@ package compute
 import (
 	"errors"
 	"fmt"
+	"io/fs"
 
 	"cleave/calc"
 	"cleave/calc/physics"
@@ -12,13 +13,15 @@ import (
 
 // resolver answers the names of DESIGN's field access for one entry (see the package doc).
 type resolver struct {
-	nb   *notebook.Notebook
-	e    *notebook.Entry
-	memo map[string]calc.Value
+	nb    *notebook.Notebook
+	e     *notebook.Entry
+	fsys  fs.FS
+	depth int // how many scorecards this evaluation is nested in
+	memo  map[string]calc.Value
 }
 
-func newResolver(nb *notebook.Notebook, e *notebook.Entry) *resolver {
-	return &resolver{nb: nb, e: e, memo: map[string]calc.Value{}}
+func newResolver(fsys fs.FS, nb *notebook.Notebook, e *notebook.Entry, depth int) *resolver {
+	return &resolver{nb: nb, e: e, fsys: fsys, depth: depth, memo: map[string]calc.Value{}}
 }
 
 // Lookup implements calc.Resolver.
@@ -174,6 +177,14 @@ func (r *resolver) register(env *calc.Env) {
 				return nil, err
 			}
 			return calc.Q(q), nil
+		},
+	})
+	env.Register(calc.Func{
+		Name: "scorecard",
+		Doc:  "what the cooldowns below this entry measured: density (the first of the names in `density` a cooldown defines) and mobility, dark and illuminated, with their temperatures",
+		Params: []calc.Param{{Name: "density", Default: calc.String("n_SdH|n_H")}, {Name: "mobility", Default: calc.String("mu")}},
+		Call: func(e *calc.Env, args []calc.Value) (calc.Value, error) {
+			return r.scorecard(e, displayName(args[0]), displayName(args[1]))
 		},
 	})
 	env.Register(calc.Func{

@@ -130,7 +130,11 @@ func hasCalcFence(raw []byte) bool { return bytes.Contains(raw, []byte("calc")) 
 // NewEnv is the calc environment of one notebook file: its entry's fields as names, the
 // entry-bound functions, and the notebook's files for data("...").
 func NewEnv(fsys fs.FS, nb *notebook.Notebook, f *notebook.File) *calc.Env {
-	r := newResolver(nb, f.Entry)
+	return newEnvDepth(fsys, nb, f, 0)
+}
+
+func newEnvDepth(fsys fs.FS, nb *notebook.Notebook, f *notebook.File, depth int) *calc.Env {
+	r := newResolver(fsys, nb, f.Entry, depth)
 	env := calc.NewEnv(calc.WithFS(fsys, path.Dir(f.Path)), calc.WithResolver(r))
 	r.register(env)
 	return env
@@ -155,15 +159,44 @@ func runFile(root string, fsys fs.FS, nb *notebook.Notebook, f *notebook.File, c
 		// The dependency values must be computed in a fresh environment: the cache asks for
 		// them before anything is evaluated.
 		depEnv := NewEnv(fsys, nb, f)
-		opt.Resolve = func(dep string) (string, error) { return depValue(fsys, depEnv, dep) }
+		opt.Resolve = func(dep string) (string, error) { return depValue(fsys, nb, depEnv, dep) }
 	}
 	return calcblock.RecomputeWith(f.Path, f.Src.Raw, evaluator{env}, opt)
 }
 
 // depValue is the current value of a dependency reported by calc.Env.Deps: a field's
 // displayed value, or a data file's content hash.
-func depValue(fsys fs.FS, env *calc.Env, dep string) (string, error) {
+func depValue(fsys fs.FS, nb *notebook.Notebook, env *calc.Env, dep string) (string, error) {
 	switch {
+	case strings.HasPrefix(dep, "entry:"):
+		// "entry:<id>:<dep>": a dependency of another entry that a scorecard evaluated.
+		rest := strings.TrimPrefix(dep, "entry:")
+		i := strings.Index(rest, ":")
+		if i < 0 {
+			return "", fmt.Errorf("bad dependency %q", dep)
+		}
+		e, ok := nb.Entry(rest[:i])
+		if !ok {
+			return "", fmt.Errorf("dependency %q: no entry %s", dep, rest[:i])
+		}
+		f, ok := nb.File(e.Path)
+		if !ok {
+			return "", fmt.Errorf("dependency %q: no file for %s", dep, rest[:i])
+		}
+		return depValue(fsys, nb, NewEnv(fsys, nb, f), rest[i+1:])
+	case strings.HasPrefix(dep, "field:@"):
+		// "field:@<id>.<field>": a front-matter field of another entry.
+		rest := strings.TrimPrefix(dep, "field:@")
+		id, field, _ := strings.Cut(rest, ".")
+		e, ok := nb.Entry(id)
+		if !ok {
+			return "", fmt.Errorf("dependency %q: no entry %s", dep, id)
+		}
+		n, ok := e.Field(field)
+		if !ok {
+			return "", nil
+		}
+		return calc.Display(nodeValue(n, field)), nil
 	case strings.HasPrefix(dep, "field:"):
 		v, err := env.Eval(strings.TrimPrefix(dep, "field:"))
 		if err != nil {

@@ -1,0 +1,149 @@
+package calc
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+
+	"cleave/calc/band"
+	"cleave/calc/quantity"
+)
+
+// This file wires the one-dimensional Schrödinger–Poisson solver of calc/band into the
+// language: expected_density(wafer.layers) solves a wafer's layer table and returns the
+// density it expects, with the subbands and the analytic heterojunction estimate beside it.
+
+// stackArg reads a layer table: a list of records with material, thickness and doping (the
+// notebook gives a wafer's table as wafer.layers), surface first.
+func stackArg(args []Value, i int) ([]band.Layer, error) {
+	l, ok := args[i].(List)
+	if !ok || len(l) == 0 {
+		return nil, &ArgError{Arg: i, Err: fmt.Errorf("%w: expected a layer table such as wafer.layers (a list of rows with material, thickness, doping)", ErrArgument)}
+	}
+	var out []band.Layer
+	for k, it := range l {
+		f, ok := it.(Fielder)
+		if !ok {
+			return nil, &ArgError{Arg: i, Err: fmt.Errorf("%w: layer %d: expected a row with material, thickness, doping, found %s", ErrArgument, k+1, it.Type())}
+		}
+		var lay band.Layer
+		if v, ok := f.Field("layer"); ok {
+			lay.Name = textOf(v)
+		}
+		mv, ok := f.Field("material")
+		if !ok || textOf(mv) == "" {
+			return nil, &ArgError{Arg: i, Err: fmt.Errorf("%w: layer %d has no material", ErrArgument, k+1)}
+		}
+		lay.Material = textOf(mv)
+		tv, ok := f.Field("thickness")
+		if !ok {
+			return nil, &ArgError{Arg: i, Err: fmt.Errorf("%w: layer %d (%s) has no thickness", ErrArgument, k+1, lay.Material)}
+		}
+		switch t := tv.(type) {
+		case Quantity:
+			if t.Q.Dim() != quantity.Length {
+				return nil, &ArgError{Arg: i, Err: fmt.Errorf("%w: layer %d thickness must be a length, found %s", ErrArgument, k+1, t.Q.Dim())}
+			}
+			lay.ThicknessM = t.Q.Value()
+		default:
+			th, err := band.ParseThickness(textOf(tv))
+			if err != nil {
+				return nil, &ArgError{Arg: i, Err: fmt.Errorf("layer %d: %w", k+1, err)}
+			}
+			lay.ThicknessM = th
+		}
+		if dv, ok := f.Field("doping"); ok {
+			d, err := band.ParseDoping(textOf(dv))
+			if err != nil {
+				return nil, &ArgError{Arg: i, Err: fmt.Errorf("layer %d: %w", k+1, err)}
+			}
+			lay.Doping = d
+		}
+		out = append(out, lay)
+	}
+	return out, nil
+}
+
+// textOf is the text of a string value, or the display of any other.
+func textOf(v Value) string {
+	if s, ok := v.(String); ok {
+		return strings.TrimSpace(string(s))
+	}
+	return Display(v)
+}
+
+func registerStack(e *Env) {
+	eV := quantity.MustUnit("eV")
+	e.Register(Func{Name: "expected_density",
+		Doc: "the 2D density a self-consistent Schrödinger–Poisson solution of the layer table expects (surface pinned at `barrier` below the conduction band, or a gate at `gate` volts), with the subbands and the analytic heterojunction estimate",
+		Params: []Param{{Name: "layers"}, {Name: "T", Default: Q(quantity.New(1.5, dTemp)), Dim: dimp(dTemp)},
+			{Name: "barrier", Default: Q(quantity.New(band.DefaultPinningEV, eV.D).Scale(eV.Scale)), Dim: dimp(eV.D)},
+			{Name: "gate", Default: String("none")}},
+		Call: func(_ *Env, a []Value) (Value, error) {
+			layers, err := stackArg(a, 0)
+			if err != nil {
+				return nil, err
+			}
+			st := band.Stack{Layers: layers}
+			st.Surface.BarrierEV = qa(a, 2).Value() / eV.Scale
+			if g, ok := a[3].(Quantity); ok {
+				if g.Q.Dim() != quantity.MustUnit("V").D {
+					return nil, &ArgError{Arg: 3, Err: fmt.Errorf("%w: gate must be a voltage, found %s", ErrArgument, g.Q.Dim())}
+				}
+				st.Surface.Kind = band.SurfaceGate
+				st.Surface.BarrierEV = 0 // the Schottky default of a gate
+				if a[2] != nil && qa(a, 2).Value()/eV.Scale != band.DefaultPinningEV {
+					st.Surface.BarrierEV = qa(a, 2).Value() / eV.Scale
+				}
+				st.Surface.GateV = g.Q.Value()
+			}
+			res, err := band.Solve(st, band.Options{TemperatureK: qa(a, 1).Value()})
+			if err != nil {
+				var ce *band.ConvergenceError
+				if errors.As(err, &ce) {
+					return nil, fmt.Errorf("expected_density: %w", err)
+				}
+				return nil, err
+			}
+			return bandValue(st, res), nil
+		}})
+}
+
+// bandValue is the language's view of a solved stack.
+func bandValue(st band.Stack, res *band.Result) *Result {
+	meV := quantity.MustUnit("meV")
+	var subs List
+	occupied := 0
+	for _, s := range res.Subbands {
+		if s.N2D > 1e11 { // 1e7 cm^-2: below the solver's tolerance (common practice)
+			occupied++
+		}
+		subs = append(subs, NewRecord("", "E", Q(quantity.New(s.E*meV.Scale*1e3, meV.D)), "n", Q(quantity.New(s.N2D, dDensity)),
+			"mean_z", Q(quantity.New(s.MeanZ, quantity.Length))))
+		if len(subs) == 4 {
+			break
+		}
+	}
+	var wells List
+	for _, w := range res.Density2D {
+		wells = append(wells, NewRecord("", "from", Q(quantity.New(w.StartM, quantity.Length)), "to", Q(quantity.New(w.EndM, quantity.Length)),
+			"n", Q(quantity.New(w.N2D, dDensity))))
+	}
+	r := newResult("expected_density", "n", []string{"occupied", "analytic"},
+		"n", Q(quantity.New(res.TotalN2D, dDensity)),
+		"occupied", String(fmt.Sprintf("%d subband(s) occupied", occupied)),
+		"subbands", subs,
+		"wells", wells,
+		"iterations", num(float64(res.Iterations)),
+		"neutrality_error", Q(quantity.New(res.NeutralityError, dDensity)),
+	)
+	if len(res.Subbands) > 0 {
+		r.Rec.Fields = append(r.Rec.Fields, RecordField{Name: "E0", Value: Q(quantity.New(res.Subbands[0].E*1e3*meV.Scale, meV.D))})
+	}
+	if in, err := band.AnalyticInputFor(st, 0); err == nil {
+		if an, err := band.Analytic(in); err == nil {
+			r.Rec.Fields = append(r.Rec.Fields, RecordField{Name: "analytic", Value: Q(quantity.New(an.N2D, dDensity))})
+		}
+	}
+	return r
+}
