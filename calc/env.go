@@ -119,6 +119,8 @@ func NewEnv(opts ...Option) *Env {
 		dir:    ".",
 	}
 	registerBuiltins(e)
+	registerAnalysis(e)
+	registerStack(e)
 	for _, o := range opts {
 		o(e)
 	}

@@ -180,8 +180,8 @@ func (r *resolver) register(env *calc.Env) {
 		},
 	})
 	env.Register(calc.Func{
-		Name: "scorecard",
-		Doc:  "what the cooldowns below this entry measured: density (the first of the names in `density` a cooldown defines) and mobility, dark and illuminated, with their temperatures",
+		Name:   "scorecard",
+		Doc:    "what the cooldowns below this entry measured: density (the first of the names in `density` a cooldown defines) and mobility, dark and illuminated, with their temperatures",
 		Params: []calc.Param{{Name: "density", Default: calc.String("n_SdH|n_H")}, {Name: "mobility", Default: calc.String("mu")}},
 		Call: func(e *calc.Env, args []calc.Value) (calc.Value, error) {
 			return r.scorecard(e, displayName(args[0]), displayName(args[1]))

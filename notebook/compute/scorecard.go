@@ -229,4 +229,3 @@ func uniq(s []string) []string {
 	}
 	return out
 }
-
