@@ -21,7 +21,8 @@ type options struct {
 	points   int     // points near zero (ZeroField)
 	maxGrid  int     // largest 1/B grid (SdH)
 	maxYFrac float64 // out-of-phase tolerance
-	ext      extOptions // options of the plateau, LK, Dingle and gate analyses (sanity.go)
+
+	ext extOptions // options of the plateau, LK, Dingle and gate analyses (sanity.go)
 }
 
 func newOptions(opts []Option) options {
