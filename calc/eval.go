@@ -448,11 +448,17 @@ func (e *Env) evalCall(n *Call) (Value, error) {
 	if err != nil {
 		var ae *ArgError
 		if errors.As(err, &ae) && ae.Arg >= 0 && ae.Arg < len(argPos) {
+			if strings.HasPrefix(ae.Err.Error(), n.Func+":") {
+				return nil, posErr(argPos[ae.Arg], ae.Err, "%v", ae.Err)
+			}
 			return nil, posErr(argPos[ae.Arg], ae.Err, "%s: %v", n.Func, ae.Err)
 		}
 		var ce *Error
 		if errors.As(err, &ce) {
 			return nil, ce
+		}
+		if strings.HasPrefix(err.Error(), n.Func+":") {
+			return nil, posErr(n.Pos, err, "%v", err) // the function already names itself
 		}
 		return nil, posErr(n.Pos, err, "%s: %v", n.Func, err)
 	}

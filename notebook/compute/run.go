@@ -184,6 +184,17 @@ func depValue(fsys fs.FS, nb *notebook.Notebook, env *calc.Env, dep string) (str
 			return "", fmt.Errorf("dependency %q: no file for %s", dep, rest[:i])
 		}
 		return depValue(fsys, nb, NewEnv(fsys, nb, f), rest[i+1:])
+	case strings.HasPrefix(dep, "lineage:"):
+		// "lineage:<id>": the cooldowns that measured devices cut from that entry.
+		e, ok := nb.Entry(strings.TrimPrefix(dep, "lineage:"))
+		if !ok {
+			return "", fmt.Errorf("dependency %q: no such entry", dep)
+		}
+		var ids []string
+		for _, c := range newResolver(fsys, nb, e, 0).measuredBy() {
+			ids = append(ids, c.ID)
+		}
+		return strings.Join(ids, ","), nil
 	case strings.HasPrefix(dep, "field:@"):
 		// "field:@<id>.<field>": a front-matter field of another entry.
 		rest := strings.TrimPrefix(dep, "field:@")

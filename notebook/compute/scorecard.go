@@ -31,23 +31,22 @@ type scoreRow struct {
 
 func (r *resolver) scorecard(env *calc.Env, densityName, mobilityName string) (calc.Value, error) {
 	if r.e == nil {
-		return nil, errors.New("scorecard: this file is not an entry")
+		return nil, errors.New("this file is not an entry")
 	}
 	if r.depth >= maxNesting {
-		return nil, errors.New("scorecard: nested too deep (a scorecard inside a cooldown that a scorecard reads)")
+		return nil, errors.New("nested too deep (a scorecard inside a cooldown that a scorecard reads)")
 	}
+	// Which cooldowns count is itself a dependency: a new cooldown makes the result stale.
+	env.AddDep("lineage:"+r.e.ID, "")
 	var rows []scoreRow
-	for _, d := range r.nb.Descendants(r.e.ID) {
-		if d.Kind != notebook.KindCooldown || !r.measures(d) {
-			continue
-		}
+	for _, d := range r.measuredBy() {
 		f, ok := r.nb.File(d.Path)
 		if !ok {
 			continue
 		}
 		cenv, deps, err := r.evalFile(f)
 		if err != nil {
-			return nil, fmt.Errorf("scorecard: %s: %w", d.ID, err)
+			return nil, fmt.Errorf("%s: %w", d.ID, err)
 		}
 		for _, dep := range deps {
 			env.AddDep("entry:"+d.ID+":"+dep, "")
@@ -70,9 +69,20 @@ func (r *resolver) scorecard(env *calc.Env, densityName, mobilityName string) (c
 		rows = append(rows, row)
 	}
 	if len(rows) == 0 {
-		return nil, fmt.Errorf("scorecard: no cooldown below %s computes %s or %s", r.e.ID, densityName, mobilityName)
+		return nil, fmt.Errorf("no cooldown below %s computes %s or %s", r.e.ID, densityName, mobilityName)
 	}
 	return scoreValue(rows), nil
+}
+
+// measuredBy lists the cooldowns that measured a device cut from this entry.
+func (r *resolver) measuredBy() []*notebook.Entry {
+	var out []*notebook.Entry
+	for _, d := range r.nb.Descendants(r.e.ID) {
+		if d.Kind == notebook.KindCooldown && r.measures(d) {
+			out = append(out, d)
+		}
+	}
+	return out
 }
 
 // measures reports whether cooldown c measured a device cut from this entry: following
