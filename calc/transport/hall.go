@@ -64,7 +64,7 @@ func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Opti
 		}
 		sig = sc.Values
 	}
-	B, R, S := pairs(xc.Values, yc.Values, sig, bmin, bmax)
+	B, R, S := selectPairs(xc.Values, yc.Values, sig, bmin, bmax)
 	if len(B) < MinHallPoints {
 		return nil, fmt.Errorf("%s: Hall fit of %s over %g T ≤ |B| ≤ %g T: %d points; need at least %d: %w",
 			d.Name, yc.Name, bmin, bmax, len(B), MinHallPoints, ErrTooFewPoints)
