@@ -44,13 +44,12 @@ func (nb *Notebook) CheckNew(kind Kind, id string, parents []string) error {
 	} else if e, ok := nb.byID[id]; ok {
 		errs = append(errs, fmt.Errorf("new entry: %w: %q is the %s in %s", ErrExists, id, e.Kind, e.Path))
 	}
+	// Parents given with --from go into the kind's primary link field (piece and device:
+	// `from`; process: `pieces`; cooldown: `devices`), so only that field's kinds are
+	// accepted: a device comes from a piece, and its mask is named in `mask:` by hand.
 	var accepted []Kind
-	for _, f := range linkFields(kind) {
-		for _, k := range f.Kinds {
-			if !slices.Contains(accepted, k) {
-				accepted = append(accepted, k)
-			}
-		}
+	if lf := linkFields(kind); len(lf) > 0 {
+		accepted = append(accepted, lf[0].Kinds...)
 	}
 	for _, p := range parents {
 		pe, ok := nb.byID[p]

@@ -328,12 +328,14 @@ func TestCheckNewAndDefaultPath(t *testing.T) {
 	}{
 		{KindPiece, "W23-017-b", []string{"W23-017"}, nil, ""},
 		{KindPiece, "W23-017-a2", []string{"W23-017-a"}, nil, ""},
-		{KindDevice, "D-17a-2", []string{"W23-017-a", "HB-6", "F-031"}, nil, ""},
+		{KindDevice, "D-17a-2", []string{"W23-017-a"}, nil, ""},
+		// --from fills the primary link field only: a device's mask is named by hand.
+		{KindDevice, "D-17a-3", []string{"W23-017-a", "HB-6"}, ErrWrongKind, "is a mask"},
 		{KindCooldown, "C-2", []string{"D-17a-1"}, nil, ""},
 		{KindWafer, "W24-001", nil, nil, ""},
 		{KindPiece, "W23-017-a", []string{"W23-017"}, ErrExists, "pieces/W23-017-a.md"},
 		{KindPiece, "P9", []string{"W99"}, ErrNotFound, `"W99"`},
-		{KindDevice, "D9", []string{"HB-6", "W23-017"}, ErrWrongKind, "is a wafer"},
+		{KindDevice, "D9", []string{"W23-017"}, ErrWrongKind, "is a wafer"},
 		{KindCooldown, "C9", []string{"W23-017-a"}, ErrWrongKind, "expected a device"},
 		{KindWafer, "W9", []string{"W23-017"}, ErrWrongKind, "has no parents"},
 		{KindPiece, "bad id", []string{"W23-017"}, ErrBadID, "bad id"},

@@ -1,0 +1,275 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"flag"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+)
+
+var update = flag.Bool("update", false, "rewrite golden files")
+
+// cleave runs the command line in-process and returns its exit code and output.
+func cleave(t *testing.T, args ...string) (int, string, string) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	code := run(args, &out, &errb)
+	return code, out.String(), errb.String()
+}
+
+// demo writes the demo notebook once per test binary run.
+var demoDir string
+
+func demoNotebook(t *testing.T) string {
+	t.Helper()
+	if demoDir != "" {
+		return demoDir
+	}
+	dir := filepath.Join(t.TempDir(), "nb")
+	code, out, errs := cleave(t, "demo", dir)
+	if code != 0 {
+		t.Fatalf("cleave demo: exit %d\n%s\n%s", code, out, errs)
+	}
+	golden(t, "demo.golden", strings.ReplaceAll(out, dir, "$DIR"))
+	demoDir = dir
+	return dir
+}
+
+func golden(t *testing.T, name, got string) {
+	t.Helper()
+	p := filepath.Join("testdata", name)
+	if *update {
+		if err := os.WriteFile(p, []byte(got), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		return
+	}
+	want, err := os.ReadFile(p)
+	if err != nil {
+		t.Fatalf("%v (run go test -update)", err)
+	}
+	if string(want) != got {
+		t.Errorf("%s differs from the output; rerun with -update if the change is intended.\n--- got ---\n%s", p, got)
+	}
+}
+
+// TestDemoEndToEnd runs the demo, then the commands a new user runs on it: the notebook is
+// valid, every result current, and the git history is what the story tells.
+func TestDemoEndToEnd(t *testing.T) {
+	dir := demoNotebook(t)
+	if code, out, errs := cleave(t, "-C", dir, "validate"); code != 0 {
+		t.Fatalf("validate: exit %d\n%s%s", code, out, errs)
+	}
+	if code, out, errs := cleave(t, "-C", dir, "check"); code != 0 {
+		t.Fatalf("check: exit %d\n%s%s", code, out, errs)
+	}
+	if _, err := exec.LookPath("git"); err != nil {
+		t.Skip("git binary not on PATH")
+	}
+	log := gitOut(t, dir, "log", "--format=%an|%s")
+	if n := strings.Count(log, "\n"); n != 6 {
+		t.Errorf("demo history has %d commits, want 6:\n%s", n, log)
+	}
+	if !strings.Contains(log, "HB100: probe 4 sits at 750 um") {
+		t.Errorf("the mask correction commit is missing:\n%s", log)
+	}
+	if st := gitOut(t, dir, "status", "--porcelain"); st != "" {
+		t.Errorf("the demo left uncommitted changes:\n%s", st)
+	}
+	// The mask correction changed the mobility line of CD24-001 and nothing else in that file.
+	diff := gitOut(t, dir, "show", "--format=", "-U0", "HEAD~2", "--", "cooldowns/CD24-001.md")
+	for _, l := range strings.Split(diff, "\n") {
+		if (strings.HasPrefix(l, "+") || strings.HasPrefix(l, "-")) && !strings.HasPrefix(l, "+++") && !strings.HasPrefix(l, "---") && !strings.Contains(l, "#=") {
+			t.Errorf("the correction changed a line outside the result regions: %q", l)
+		}
+	}
+	if !strings.Contains(diff, "mu = mobility(rho_xx, n_H)") {
+		t.Errorf("the mobility result did not change with the probe spacing:\n%s", diff)
+	}
+}
+
+// TestCheckAfterEdit edits a geometry the way a colleague would: check fails and lists
+// old → new, calc brings the results up to date, check passes again.
+func TestCheckAfterEdit(t *testing.T) {
+	src := demoNotebook(t)
+	dir := filepath.Join(t.TempDir(), "copy")
+	if err := os.CopyFS(dir, os.DirFS(src)); err != nil {
+		t.Fatal(err)
+	}
+	mask := filepath.Join(dir, "masks", "HB100.md")
+	b, err := os.ReadFile(mask)
+	if err != nil {
+		t.Fatal(err)
+	}
+	edited := strings.Replace(string(b), "width: 100 um", "width: 50 um", 1)
+	if err := os.WriteFile(mask, []byte(edited), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, out, _ := cleave(t, "-C", dir, "check")
+	if code != 1 {
+		t.Fatalf("check after editing the mask width: exit %d, want 1\n%s", code, out)
+	}
+	// Drawn 100 um → 50 um halves... only where the as-built width does not override it.
+	if !strings.Contains(out, "masks/HB100.md:") || !strings.Contains(out, "5.0000 → 10.000") {
+		t.Errorf("check does not list the mask's squares old → new:\n%s", out)
+	}
+	if strings.Contains(out, "devices/W24-031-A-HB1.md") {
+		t.Errorf("the device with an as-built width must not depend on the drawn width:\n%s", out)
+	}
+	if code, out, errs := cleave(t, "-C", dir, "calc"); code != 0 {
+		t.Fatalf("calc: exit %d\n%s%s", code, out, errs)
+	}
+	if code, out, _ := cleave(t, "-C", dir, "check"); code != 0 {
+		t.Fatalf("check after calc: exit %d\n%s", code, out)
+	}
+	after, _ := os.ReadFile(mask)
+	if stripResults(string(after)) != stripResults(edited) {
+		t.Errorf("calc changed bytes outside result regions of %s", mask)
+	}
+}
+
+// stripResults removes every result region (from #= to the end of the line).
+func stripResults(s string) string {
+	lines := strings.Split(s, "\n")
+	for i, l := range lines {
+		if j := strings.Index(l, "#="); j >= 0 {
+			lines[i] = l[:j]
+		}
+	}
+	return strings.Join(lines, "\n")
+}
+
+func TestEvalJSON(t *testing.T) {
+	tests := []struct {
+		name, expr string
+		value, tol float64
+		unit       string
+		unc        bool
+	}{
+		// REFERENCE.md §5 row 1: l_B(1 T) = 25.6556 nm from CODATA 2018 hbar and e.
+		{"magnetic length", "magnetic_length(1 T)", 25.6556e-9, 1e-4, "m", false},
+		// Row 3: hbar omega_c at 1 T for m* = 0.067 m_e is 1.72788 meV.
+		{"cyclotron energy", "cyclotron_energy(1 T, 0.067 m_e)", 1.72788e-3 * 1.602176634e-19, 1e-4, "kg m^2 s^-2", false},
+		// Row 19: R_K/2 = 12906.403730 Ohm (exact in SI 2019).
+		{"hall resistance", "hall_resistance(2)", 12906.403730, 1e-9, "kg m^2 s^-3 A^-2", false},
+		// An uncertain input propagates: l_B ∝ B^-1/2.
+		{"uncertain", "magnetic_length(1 T ± 0.01 T)", 25.6556e-9, 1e-4, "m", true},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			code, out, errs := cleave(t, "eval", "--json", tc.expr)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errs)
+			}
+			var r struct {
+				Value       *float64 `json:"value"`
+				Unit        string   `json:"unit"`
+				Display     string   `json:"display"`
+				Uncertainty *float64 `json:"uncertainty"`
+			}
+			if err := json.Unmarshal([]byte(out), &r); err != nil {
+				t.Fatalf("not JSON: %q: %v", out, err)
+			}
+			if r.Value == nil || abs(*r.Value/tc.value-1) > tc.tol {
+				t.Errorf("value = %v, want %g", r.Value, tc.value)
+			}
+			if r.Unit != tc.unit {
+				t.Errorf("unit = %q, want %q", r.Unit, tc.unit)
+			}
+			if (r.Uncertainty != nil) != tc.unc {
+				t.Errorf("uncertainty = %v, want present=%v", r.Uncertainty, tc.unc)
+			}
+			if r.Display == "" {
+				t.Error("no display text")
+			}
+		})
+	}
+}
+
+func abs(x float64) float64 {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+func TestUsageErrors(t *testing.T) {
+	for _, args := range [][]string{
+		{},
+		{"frobnicate"},
+		{"new", "wafer"},
+		{"new", "gizmo", "X1"},
+		{"eval"},
+		{"tree", "a", "b"},
+		{"validate", "extra"},
+	} {
+		code, _, errs := cleave(t, args...)
+		if code != 2 {
+			t.Errorf("cleave %v: exit %d, want 2", args, code)
+		}
+		if !strings.Contains(errs, "usage: cleave") {
+			t.Errorf("cleave %v: no usage line on stderr: %q", args, errs)
+		}
+	}
+	if code, _, errs := cleave(t, "eval", "3 T + 2 m"); code != 1 || !strings.Contains(errs, "1:") {
+		t.Errorf("a dimension error: exit %d, stderr %q; want 1 and a position", code, errs)
+	}
+}
+
+// TestInitNewValidate creates a notebook from nothing with the commands a new user types.
+func TestInitNewValidate(t *testing.T) {
+	dir := filepath.Join(t.TempDir(), "lab")
+	if code, out, errs := cleave(t, "init", dir); code != 0 {
+		t.Fatalf("init: %d %s %s", code, out, errs)
+	}
+	steps := [][]string{
+		{"new", "wafer", "W1"},
+		{"new", "piece", "W1-a", "--from", "W1"},
+		{"new", "mask", "M1"},
+		{"new", "process", "P1", "--from", "W1-a"},
+		{"new", "device", "W1-a-1", "--from", "W1-a"},
+		{"new", "cooldown", "C1", "--from", "W1-a-1"},
+	}
+	for _, s := range steps {
+		if code, out, errs := cleave(t, append([]string{"-C", dir}, s...)...); code != 0 {
+			t.Fatalf("%v: exit %d\n%s%s", s, code, out, errs)
+		}
+	}
+	// A device needs its mask: fill the link the template leaves empty.
+	dev := filepath.Join(dir, "devices", "W1-a-1.md")
+	b, _ := os.ReadFile(dev)
+	if err := os.WriteFile(dev, []byte(strings.Replace(string(b), "mask:", "mask: M1", 1)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if code, out, errs := cleave(t, "-C", dir, "validate"); code != 0 {
+		t.Fatalf("validate of a fresh notebook: exit %d\n%s%s", code, out, errs)
+	}
+	// Refusals: an existing id, a missing parent, a parent of the wrong kind.
+	for _, s := range [][]string{
+		{"new", "wafer", "W1"},
+		{"new", "piece", "W9-a", "--from", "W9"},
+		{"new", "device", "D2", "--from", "M1"},
+	} {
+		if code, _, errs := cleave(t, append([]string{"-C", dir}, s...)...); code != 1 || errs == "" {
+			t.Errorf("%v: exit %d (%q), want 1 with a reason", s, code, errs)
+		}
+	}
+	if code, out, _ := cleave(t, "-C", dir, "tree", "W1"); code != 0 || !strings.Contains(out, "C1") {
+		t.Errorf("tree W1: exit %d, missing the cooldown:\n%s", code, out)
+	}
+}
+
+func gitOut(t *testing.T, dir string, args ...string) string {
+	t.Helper()
+	cmd := exec.Command("git", args...)
+	cmd.Dir = dir
+	out, err := cmd.CombinedOutput()
+	if err != nil {
+		t.Fatalf("git %v: %v\n%s", args, err, out)
+	}
+	return string(out)
+}
