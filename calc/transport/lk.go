@@ -305,11 +305,11 @@ func sweepTemperature(d *Dataset) (float64, error) {
 			continue
 		}
 		v = strings.TrimSpace(v)
-		if x, err := strconv.ParseFloat(v, 64); err == nil && x > 0 {
+		if x, err := strconv.ParseFloat(v, 64); err == nil && x > 0 && !math.IsInf(x, 0) {
 			return x, nil
 		}
 		q, err := quantity.ParseQuantity(v)
-		if err != nil || q.Dim() != quantity.Temperature || !(q.Value() > 0) {
+		if err != nil || q.Dim() != quantity.Temperature || !(q.Value() > 0) || math.IsInf(q.Value(), 0) {
 			return 0, fmt.Errorf("%s: metadata %q = %q: expected a temperature such as \"1.5 K\": %w", d.Name, k, v, ErrBadArgument)
 		}
 		return q.Value(), nil
@@ -318,7 +318,7 @@ func sweepTemperature(d *Dataset) (float64, error) {
 		if c, err := d.Col(name); err == nil {
 			var v []float64
 			for _, x := range c.Values {
-				if x > 0 {
+				if x > 0 && !math.IsInf(x, 0) {
 					v = append(v, x)
 				}
 			}
