@@ -30,6 +30,12 @@ type DingleResult struct {
 	Warnings                   []Warning
 }
 
+// dingleFloor is a relative uncertainty added in quadrature to each Dingle-plot
+// point: the local half-period fits reproduce noise-free amplitudes of the
+// model to about ±1 % (an even residual of the background alternates between
+// maxima and minima), which would otherwise dominate χ² at high field.
+const dingleFloor = 0.01
+
 // MinDingleExtrema is the fewest significant extrema QuantumLifetime accepts.
 const MinDingleExtrema = 3
 
@@ -48,7 +54,8 @@ const MinDingleExtrema = 3
 //
 //	y = ln[|ΔR| sinh X / (4 R_0 X)],  X = 2π² k_B T m*/(ħ e B),
 //
-// against 1/B is fitted with a straight line weighted by 1/σ_y², σ_y = σ_ΔR/|ΔR|;
+// against 1/B is fitted with a straight line weighted by 1/σ_y², σ_y² = (σ_ΔR/ΔR)² + 0.01²
+// (the second term is the accuracy of the local fits on noise-free model data);
 // τ_q = π m*/(e |slope|). The uncertainty of the slope is that of the weighted
 // fit, scaled by sqrt(χ²/DoF) when that exceeds 1. Since ΔR/R_0 is a ratio the
 // Hall-bar geometry cancels.
@@ -121,7 +128,7 @@ func QuantumLifetime(d *Dataset, bmin, bmax, mstar, n, T float64, opts ...Option
 		res.Extrema = append(res.Extrema, e)
 		res.InvB = append(res.InvB, 1/e.B)
 		ys = append(ys, math.Log(a/(4*e.Background*g)))
-		ss = append(ss, e.Value.Uncertainty/a)
+		ss = append(ss, math.Hypot(e.Value.Uncertainty/a, dingleFloor))
 	}
 	res.Y = ys
 	if len(ys) < MinDingleExtrema {

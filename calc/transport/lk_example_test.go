@@ -47,5 +47,5 @@ func ExampleQuantumLifetime() {
 	fmt.Printf("τ_q = %.2f ps, T_D = %.2f K, τ_t/τ_q = %.0f, intercept %.2f\n",
 		r.QuantumLifetime.Value*1e12, r.DingleTemperature.Value, r.DingleRatio.Value, r.Intercept.Value)
 	// Output:
-	// τ_q = 1.00 ps, T_D = 1.22 K, τ_t/τ_q = 38, intercept 0.01
+	// τ_q = 1.00 ps, T_D = 1.22 K, τ_t/τ_q = 38, intercept 0.00
 }
