@@ -317,6 +317,10 @@ func (c *cli) recompute(name string, args []string, write bool) int {
 	for i, p := range pos {
 		paths[i] = c.path(p)
 	}
+	if !*noCache && len(paths) == 0 && compute.UnchangedSinceGoodCheck(root) {
+		fmt.Fprintf(c.err, "cleave %s: nothing changed since the last check that found no problem\n", name)
+		return 0
+	}
 	nb, err := notebook.LoadDir(root)
 	if err != nil {
 		return c.fail(name, err)
@@ -362,7 +366,11 @@ func (c *cli) recompute(name string, args []string, write bool) int {
 	fmt.Fprintf(c.err, "cleave %s: %d file(s) with calc blocks, %d line(s) evaluated, %d from cache, %d problem(s)\n",
 		name, len(rep.Files), rep.Evaluated, rep.CacheHits, bad)
 	if bad > 0 {
+		compute.ForgetGoodCheck(root)
 		return 1
+	}
+	if len(paths) == 0 {
+		_ = compute.RememberGoodCheck(root) // only a speed-up: a failure costs a full check next time
 	}
 	return 0
 }
