@@ -120,6 +120,7 @@ func NewEnv(opts ...Option) *Env {
 	}
 	registerBuiltins(e)
 	registerAnalysis(e)
+	registerAnalysis2(e)
 	registerStack(e)
 	for _, o := range opts {
 		o(e)
