@@ -21,15 +21,27 @@ func cleave(t *testing.T, args ...string) (int, string, string) {
 	return code, out.String(), errb.String()
 }
 
-// demo writes the demo notebook once per test binary run.
-var demoDir string
+// demo writes the demo notebook once per test binary run, into a folder TestMain removes.
+var demoDir, scratch string
+
+func TestMain(m *testing.M) {
+	flag.Parse()
+	var err error
+	scratch, err = os.MkdirTemp("", "cleave-test-")
+	if err != nil {
+		panic(err)
+	}
+	code := m.Run()
+	os.RemoveAll(scratch)
+	os.Exit(code)
+}
 
 func demoNotebook(t *testing.T) string {
 	t.Helper()
 	if demoDir != "" {
 		return demoDir
 	}
-	dir := filepath.Join(t.TempDir(), "nb")
+	dir := filepath.Join(scratch, "nb")
 	code, out, errs := cleave(t, "demo", dir)
 	if code != 0 {
 		t.Fatalf("cleave demo: exit %d\n%s\n%s", code, out, errs)
