@@ -122,6 +122,7 @@ func NewEnv(opts ...Option) *Env {
 	registerAnalysis(e)
 	registerAnalysis2(e)
 	registerStack(e)
+	registerMaterial(e)
 	for _, o := range opts {
 		o(e)
 	}

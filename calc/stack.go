@@ -6,6 +6,7 @@ import (
 	"strings"
 
 	"cleave/calc/band"
+	"cleave/calc/materials"
 	"cleave/calc/quantity"
 )
 
@@ -146,4 +147,23 @@ func bandValue(st band.Stack, res *band.Result) *Result {
 		}
 	}
 	return r
+}
+
+// registerMaterial adds material(name): the material record for a name held in a string,
+// such as a wafer's channel field, so `material(wafer.channel).mstar` reads its mass.
+func registerMaterial(e *Env) {
+	e.Register(Func{Name: "material",
+		Doc:    "the material parameters (mstar, eps_r, g, gs, gv, vF) for a material name such as \"GaAs\" or \"Al0.33Ga0.67As\", e.g. material(wafer.channel)",
+		Params: []Param{{Name: "name"}},
+		Call: func(_ *Env, a []Value) (Value, error) {
+			name, ok := a[0].(String)
+			if !ok {
+				return nil, &ArgError{Arg: 0, Err: fmt.Errorf("%w: expected a material name in quotes or a text field, found %s", ErrArgument, a[0].Type())}
+			}
+			m, err := materials.Lookup(strings.TrimSpace(string(name)))
+			if err != nil {
+				return nil, &ArgError{Arg: 0, Err: err}
+			}
+			return materialRecord(m), nil
+		}})
 }
