@@ -1,6 +1,7 @@
 package transport
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"slices"
@@ -8,6 +9,12 @@ import (
 	"gonum.org/v1/gonum/dsp/fourier"
 	"gonum.org/v1/gonum/mat"
 )
+
+// ErrNoOscillation means that SdHDensity found no oscillation it can trust in
+// the field window: the spectrum peaks at the edge of the searched range (the
+// background, not an oscillation, dominates), or the least-squares refinement
+// left the neighbourhood of the spectral peak.
+var ErrNoOscillation = errors.New("no SdH oscillation found")
 
 // Spectrum is an amplitude spectrum against the SdH frequency f_B (T).
 // Amp is scaled so that a sinusoid of amplitude A under the Hann window peaks
@@ -25,7 +32,8 @@ type SdHResult struct {
 	GS, GV       float64   // degeneracies used
 	Oscillations float64   // f_B (1/bmin − 1/bmax): periods inside the window
 	FMin, FMax   float64   // frequency range searched, T
-	Background   []float64 // polynomial in B subtracted first, Ohm/T^k
+	Background   []float64 // polynomial subtracted first, in powers of BackgroundIn
+	BackgroundIn string    // "B" (coefficients in Ohm/T^k) or "1/B" (Ohm T^k)
 	Spectrum     Spectrum
 	Method       string
 
@@ -50,7 +58,14 @@ type SdHResult struct {
 //     on average) as long as the spectral peak of step 4 has fewer than 16
 //     bins per period. A bin mean of W points has noise variance σ²/W, so W is
 //     its weight in steps 2 and 5;
-//  2. a polynomial background in B (degree 3, WithBackground) is subtracted;
+//  2. a polynomial background (degree 3, WithBackground) is subtracted, in B
+//     or in 1/B, whichever leaves the smaller weighted residual sum of squares
+//     (the oscillation is nearly orthogonal to both, so the smaller sum marks
+//     the better background). Low-field magnetoresistance (weak localisation,
+//     electron–electron interaction) is a series in B; the two-carrier Drude
+//     background of a parallel channel, ρ_xx = (a + c B²)/(1 + d B²),
+//     saturates at high field and is a smooth function of 1/B, where a cubic
+//     follows it tens of times more closely (tested in sdh_edge_test.go);
 //  3. the residual is interpolated linearly onto a uniform 1/B grid with as
 //     many points as there are samples (at most 32768), multiplied by a Hann
 //     window, zero-padded to a power of two ≥ 8× its length (WithPadding) and
@@ -58,12 +73,18 @@ type SdHResult struct {
 //  4. the highest peak between FMin = 2/(1/bmin − 1/bmax) (two periods in the
 //     window) and FMax = the Nyquist frequency of the grid or of the sparsest
 //     stretch of the data, whichever is lower, refined by parabolic
-//     interpolation, gives FFTFrequency;
+//     interpolation, gives FFTFrequency. A peak at either end of that range
+//     is an error wrapping ErrNoOscillation: the background leaks into the
+//     lowest frequencies, or the oscillation is faster than the data resolve;
 //  5. the frequency is then refined by a damped Gauss–Newton (Levenberg–
 //     Marquardt) weighted least-squares fit to the samples of
 //     exp(a_0 + a_1 t + a_2 t²) cos(2π f (u − u_c) + φ) + Σ_k b_k x^k, with t
 //     and x the scaled u and B: a slowly varying envelope (Dingle and thermal
-//     damping) times the oscillation on the polynomial background. The
+//     damping) times the oscillation on the polynomial background (in the
+//     variable chosen in step 2). The frequency enters the fit as ln f, so it
+//     stays positive, and a refined f more than 1/Δ(1/B) (one bin of the
+//     unpadded transform) from FFTFrequency is an error wrapping
+//     ErrNoOscillation rather than a number. The
 //     standard uncertainty of f is sqrt(σ̂² [(JᵀWJ)⁻¹]_ff), σ̂² = S/(M − p)
 //     (S the weighted residual sum of squares, M samples, p parameters), which
 //     stays honest under binning because the weights are the bin counts. Its
@@ -102,6 +123,7 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 	// of the data rather than its raw point count.
 	var sm *samples
 	var bg *PolyFit
+	var bgU bool // background polynomial in u = 1/B rather than in B
 	var sp *sdhSpectrum
 	bins := min(sdhBins, o.maxGrid)
 	for {
@@ -127,13 +149,21 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 		if err != nil {
 			return nil, fmt.Errorf("%s: SdH background: %w", d.Name, err)
 		}
+		bgU = false
+		if bu, err := FitPoly(sm.u, sm.y, sig, o.bgDeg); err == nil && bu.Chi2 < bg.Chi2 {
+			bg, bgU = bu, true
+		}
 		if len(sm.u) < minPoints || !(U > 0) {
 			return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the window holds too few periods or points to resolve any frequency: %w",
 				d.Name, yc.Name, bmin, bmax, ErrTooFewPoints)
 		}
 		resid := make([]float64, len(sm.u))
 		for i := range resid {
-			resid[i] = sm.y[i] - bg.Eval(Bs[i])
+			x := Bs[i]
+			if bgU {
+				x = sm.u[i]
+			}
+			resid[i] = sm.y[i] - bg.Eval(x)
 		}
 		// 3–4: spectrum and its peak.
 		sp = spectrum(sm.u, resid, min(len(sm.u), o.maxGrid), max(o.pad, 8), sm.gap)
@@ -145,7 +175,11 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 		}
 		bins *= 4
 	}
-	res.Background = bg.Coef
+	res.Background, res.BackgroundIn = bg.Coef, "B"
+	bgVar := "B"
+	if bgU {
+		res.BackgroundIn, bgVar = "1/B", "1/B"
+	}
 	res.FMin, res.FMax = sp.fmin, sp.fmax
 	res.Spectrum = sp.Spectrum
 	m, nfft := sp.m, sp.nfft
@@ -156,8 +190,8 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 	fpk := sp.fpk
 	res.FFTFrequency = fpk
 	if sp.kp == sp.kmin || sp.kp == sp.kmax {
-		res.Warnings = append(res.Warnings, Warning{WarnSpectrumLimit, fmt.Sprintf(
-			"the spectrum peaks at the edge of the searched range %.3g–%.3g T: widen the field range or check the data", res.FMin, res.FMax)})
+		return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the spectrum peaks at the edge of the searched range %.3g–%.3g T, so no oscillation stands out from the background (%s); start the window where the oscillations are visible (raise bmin), widen it if it holds few periods, or raise the background degree (WithBackground): %w",
+			d.Name, yc.Name, bmin, bmax, res.FMin, res.FMax, edgeHint(sp), ErrNoOscillation)
 	}
 	med := median(res.Spectrum.Amp[sp.kmin : sp.kmax+1])
 	if res.Spectrum.Amp[sp.kp] < 4*med {
@@ -166,10 +200,14 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 	}
 
 	// 5: least-squares refinement on (binned) original points.
-	sf := &sinefit{u: sm.u, y: sm.y, w: sm.w, uc: (u0 + u1) / 2, us: U / 2, nb: o.bgDeg + 1, bc: (bmin + bmax) / 2, bs: (bmax - bmin) / 2}
+	sf := &sinefit{u: sm.u, y: sm.y, w: sm.w, uc: (u0 + u1) / 2, us: U / 2, nb: o.bgDeg + 1, bc: (bmin + bmax) / 2, bs: (bmax - bmin) / 2, inU: bgU}
 	f, fsig, ok := sf.fit(fpk)
 	if !ok {
 		return nil, fmt.Errorf("%s: SdH analysis of %s: the least-squares refinement failed (singular fit): %w", d.Name, yc.Name, ErrBadArgument)
+	}
+	if !(f > 0) || math.Abs(f-fpk) > 1/U {
+		return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the least-squares refinement moved from the spectral peak at %.4g T to %.4g T, more than the spectral resolution 1/Δ(1/B) = %.3g T: the background or a second frequency dominates the fit; narrow the field window to where one oscillation is clear, or change the background degree (WithBackground): %w",
+			d.Name, yc.Name, bmin, bmax, fpk, f, 1/U, ErrNoOscillation)
 	}
 	res.Frequency = Estimate{f, fsig}
 	res.Oscillations = f * U
@@ -178,7 +216,7 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 	if sm.binned {
 		pts = fmt.Sprintf("the means of %d points in %d bins of 1/B (weighted by count)", N, len(sm.u))
 	}
-	res.Method = fmt.Sprintf("polynomial background (degree %d) in B; Hann-windowed FFT of R_xx on a uniform 1/B grid (%d points, padded to %d); Gauss–Newton fit of a sinusoid with a log-quadratic envelope to %s; σ from the fit covariance", o.bgDeg, m, nfft, pts)
+	res.Method = fmt.Sprintf("polynomial background (degree %d) in %s; Hann-windowed FFT of R_xx on a uniform 1/B grid (%d points, padded to %d); Gauss–Newton fit of a sinusoid with a log-quadratic envelope to %s; σ from the fit covariance", o.bgDeg, bgVar, m, nfft, pts)
 	if res.Oscillations < 5 {
 		res.Warnings = append(res.Warnings, Warning{WarnFewPoints, fmt.Sprintf("only %.1f periods in the field window", res.Oscillations)})
 	}
@@ -188,15 +226,33 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 	return res, nil
 }
 
+// edgeHint says what a spectral peak at an edge of the searched range means.
+func edgeHint(sp *sdhSpectrum) string {
+	if sp.kp == sp.kmin {
+		return "a background the polynomial does not follow leaks into the lowest frequencies"
+	}
+	return "the peak is at the Nyquist limit of the data: the oscillation may be faster than the point spacing resolves"
+}
+
 // sinefit fits y ≈ A(t) cos(2π f (u − uc) + φ) + Σ_k b_k x^k with
 // A(t) = exp(a_0 + a_1 t + a_2 t²) and t = (u − uc)/us, plus a polynomial
-// background in the scaled field x, by damped Gauss–Newton.
-// The parameter vector is (a_0..a_2, f, φ, b_0..b_{nb−1}).
+// background in x, by damped Gauss–Newton: x is the scaled field
+// (1/u − bc)/bs, or t with inU.
+// The parameter vector is (a_0..a_2, ln f, φ, b_0..b_{nb−1}): fitting ln f
+// keeps the frequency positive whatever step the damping lets through.
 type sinefit struct {
 	u, y, w []float64
 	uc, us  float64
-	nb      int     // background terms: polynomial of degree nb−1 in the scaled field
+	nb      int     // background terms: polynomial of degree nb−1 in x
 	bc, bs  float64 // field scaling: x = (1/u − bc)/bs
+	inU     bool    // background in t = (u − uc)/us instead
+}
+
+func (s *sinefit) x(u float64) float64 {
+	if s.inU {
+		return (u - s.uc) / s.us
+	}
+	return (1/u - s.bc) / s.bs
 }
 
 const envTerms = 3
@@ -205,7 +261,8 @@ func (s *sinefit) np() int { return envTerms + 2 + s.nb }
 
 func (s *sinefit) model(p []float64, u float64, jac []float64) float64 {
 	t := (u - s.uc) / s.us
-	th := 2*math.Pi*p[envTerms]*(u-s.uc) + p[envTerms+1]
+	f := math.Exp(math.Min(p[envTerms], 700))
+	th := 2*math.Pi*f*(u-s.uc) + p[envTerms+1]
 	sn, cs := math.Sincos(th)
 	la, tk := 0.0, 1.0
 	for k := 0; k < envTerms; k++ {
@@ -221,10 +278,10 @@ func (s *sinefit) model(p []float64, u float64, jac []float64) float64 {
 		}
 	}
 	if jac != nil {
-		jac[envTerms] = -2 * math.Pi * (u - s.uc) * A * sn
+		jac[envTerms] = -2 * math.Pi * f * (u - s.uc) * A * sn
 		jac[envTerms+1] = -A * sn
 	}
-	x := (1/u - s.bc) / s.bs
+	x := s.x(u)
 	bg, xk := 0.0, 1.0
 	for k := 0; k < s.nb; k++ {
 		bg += p[envTerms+2+k] * xk
@@ -271,16 +328,19 @@ func (s *sinefit) normal(p []float64) (*mat.SymDense, *mat.VecDense) {
 	return G, mat.NewVecDense(n, rv)
 }
 
-// fit refines the frequency starting from f0 and returns f and σ_f from the
-// residual-scaled covariance σ̂² (JᵀWJ)⁻¹.
+// fit refines the frequency starting from f0 (> 0) and returns f and σ_f from
+// the residual-scaled covariance σ̂² (JᵀWJ)⁻¹.
 func (s *sinefit) fit(f0 float64) (float64, float64, bool) {
 	n := s.np()
+	if !(f0 > 0) {
+		return 0, 0, false
+	}
 	// Start: constant amplitude and phase from a linear fit at f0.
 	var c0, s0, cc, ss, csum float64
 	// Initial background: a polynomial fit in the scaled field.
 	xs := make([]float64, len(s.u))
 	for i, u := range s.u {
-		xs[i] = (1/u - s.bc) / s.bs
+		xs[i] = s.x(u)
 	}
 	sig := make([]float64, len(s.w))
 	for i, w := range s.w {
@@ -307,7 +367,7 @@ func (s *sinefit) fit(f0 float64) (float64, float64, bool) {
 	b := (s0*cc - c0*csum) / det
 	p := make([]float64, n)
 	p[0] = math.Log(math.Max(math.Hypot(a, b), 1e-300))
-	p[envTerms] = f0
+	p[envTerms] = math.Log(f0)
 	p[envTerms+1] = math.Atan2(-b, a)
 	// bgf is in powers of x; store it in the same basis.
 	for k := 0; k < s.nb; k++ {
@@ -364,11 +424,13 @@ func (s *sinefit) fit(f0 float64) (float64, float64, bool) {
 	if err := ch.InverseTo(&inv); err != nil {
 		return 0, 0, false
 	}
+	f := math.Exp(p[envTerms])
 	dof := float64(len(s.u) - n)
 	if dof <= 0 {
-		return p[envTerms], math.NaN(), true
+		return f, math.NaN(), true
 	}
-	return p[envTerms], math.Sqrt(cur / dof * inv.At(envTerms, envTerms)), true
+	// σ_f = f σ_{ln f} (first order).
+	return f, f * math.Sqrt(cur/dof*inv.At(envTerms, envTerms)), true
 }
 
 func median(x []float64) float64 {
@@ -453,10 +515,14 @@ func spectrum(u, y []float64, m, pad int, gap float64) *sdhSpectrum {
 	}
 	s.kp = kp
 	s.fpk = float64(kp) * df
+	// Parabolic interpolation through the peak bin and its neighbours, only
+	// when the peak bin is a local maximum: then the vertex lies within half a
+	// bin. (At the lower edge of the range a rising background leak has
+	// a > b, and the vertex of that parabola can lie anywhere, even below 0.)
 	if kp > 0 && kp < s.kmax {
 		a, b, c := s.Amp[kp-1], s.Amp[kp], s.Amp[kp+1]
-		if den := a - 2*b + c; den < 0 {
-			s.fpk += 0.5 * (a - c) / den * df
+		if den := a - 2*b + c; den < 0 && a <= b && c <= b {
+			s.fpk += math.Max(-0.5, math.Min(0.5, 0.5*(a-c)/den)) * df
 		}
 	}
 	return s
