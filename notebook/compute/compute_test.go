@@ -44,6 +44,9 @@ func testNotebook(t *testing.T) string {
 	if err := transport.WriteCSV(&b, d); err != nil {
 		t.Fatal(err)
 	}
+	if err := os.MkdirAll(filepath.Join(root, "cooldowns", "data"), 0o755); err != nil {
+		t.Fatal(err)
+	}
 	if err := os.WriteFile(filepath.Join(root, "cooldowns", "data", "sweep.csv"), b.Bytes(), 0o644); err != nil {
 		t.Fatal(err)
 	}
