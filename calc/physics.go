@@ -60,8 +60,18 @@ func registerPhysics(e *Env) {
 	}
 	add("magnetic_length", "l_B = sqrt(hbar/(e B))", []Param{req("B", dField)},
 		func(a []Value) (quantity.Quantity, error) { return physics.MagneticLength(qa(a, 0)) })
-	add("cyclotron_frequency", "angular cyclotron frequency omega_c = e B/m", []Param{req("B", dField), mass("m")},
-		func(a []Value) (quantity.Quantity, error) { return physics.CyclotronFrequency(qa(a, 0), qa(a, 1)) })
+	// An angular frequency shares its dimension with Hz; it is shown in rad/s so that nobody
+	// reads omega_c as f_c = omega_c/(2 pi).
+	radPerS := quantity.MustUnit("rad/s")
+	e.Register(Func{Name: "cyclotron_frequency", Doc: "angular cyclotron frequency omega_c = e B/m, shown in rad/s",
+		Params: []Param{req("B", dField), mass("m")},
+		Call: func(_ *Env, a []Value) (Value, error) {
+			q, err := physics.CyclotronFrequency(qa(a, 0), qa(a, 1))
+			if err != nil {
+				return nil, err
+			}
+			return Quantity{Q: q, Unit: &radPerS}, nil
+		}})
 	add("cyclotron_energy", "hbar omega_c = hbar e B/m", []Param{req("B", dField), mass("m")},
 		func(a []Value) (quantity.Quantity, error) { return physics.CyclotronEnergy(qa(a, 0), qa(a, 1)) })
 	add("landau_level", "E_N = hbar omega_c (N + 1/2)", []Param{req("N", dNone), req("B", dField), mass("m")},

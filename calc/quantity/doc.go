@@ -39,17 +39,18 @@
 //
 // [Customary] picks the trade's unit for a dimension: density cm^-2, volume
 // density cm^-3, mobility cm^2/(V s), energy meV (eV from 10 eV, J from
-// 1e-9 J), length nm below 1 um, um below 10 mm, mm below 10 m, m above;
-// field T; resistance Ohm; time ps below 1 ns then ns, us, ms, s; temperature
-// K; mass m_e; voltage mV below 1 V, else V; current nA, uA, mA, A by size;
+// 1e-9 J), length nm below 1 um, um below 1 mm, mm below 10 m, m above;
+// field mT below 10 mT, else T; resistance Ohm; time ps below 1 ns then ns,
+// us, ms, s; temperature mK below 0.1 K, else K; frequency Hz, kHz, MHz, GHz,
+// THz by size; mass m_e; voltage mV below 1 V, else V; current nA, uA, mA, A by size;
 // capacitance pF, nF, uF; capacitance per area nF/cm^2; velocity m/s;
 // wavevector m^-1; Hall slope Ohm/T; magnetic moment meV/T; meV/K; density
 // of states cm^-2 meV^-1; conductance S; area um^2, mm^2, m^2.
 //
 // Two choices need care. Frequency and angular frequency share the
-// dimension s^-1, so both are shown as "s^-1", which is right for either;
-// ask for Hz or GHz explicitly where a cyclic frequency is meant
-// ([Engineering] picks the prefix). Mobility
+// dimension s^-1; values of that dimension are shown in Hz (a cyclic
+// frequency), so a function that returns an angular frequency (the cyclotron
+// frequency omega_c) asks for rad/s as its display unit. Mobility
 // m^2/(V s) and inverse field T^-1 are the same dimension (mu B is a pure
 // number); such values are shown in cm^2/(V s), so an SdH period must be
 // asked for in T^-1.

@@ -87,6 +87,6 @@ func ExampleEngineering() {
 	s, _ := quantity.FormatIn(fc, u)
 	fmt.Println(s)
 	// Output:
-	// 4.1780e11 s^-1
+	// 417.80 GHz
 	// 417.80 GHz
 }

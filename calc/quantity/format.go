@@ -33,17 +33,21 @@ var displayTable = []struct {
 	r displayRule
 }{
 	{Dimensionless, fixed("")},
-	{Length, displayRule{steps: []step{{1e-6, "nm"}, {1e-2, "um"}, {10, "mm"}, {inf, "m"}}, zero: "nm"}},
+	{Length, displayRule{steps: []step{{1e-6, "nm"}, {1e-3, "um"}, {10, "mm"}, {inf, "m"}}, zero: "nm"}},
 	{Length.Pow(2), displayRule{steps: []step{{1e-6, "um^2"}, {1, "mm^2"}, {inf, "m^2"}}, zero: "um^2"}},
 	{Length.Pow(-1), fixed("m^-1")},
 	{Length.Pow(-2), fixed("cm^-2")},
 	{Length.Pow(-3), fixed("cm^-3")},
 	{Mass, fixed("m_e")},
-	{Temperature, fixed("K")},
+	// Dilution-refrigerator temperatures read in mK, everything from 0.1 K up in K.
+	{Temperature, displayRule{steps: []step{{0.1, "mK"}, {inf, "K"}}, zero: "K"}},
 	{Time, displayRule{steps: []step{{1e-9, "ps"}, {1e-6, "ns"}, {1e-3, "us"}, {1, "ms"}, {inf, "s"}}, zero: "ps"}},
-	{dimFrequency, fixed("s^-1")},
+	// Frequencies by size in Hz. An angular frequency (rad/s, e.g. the cyclotron
+	// frequency) has the same dimension; the function that makes one asks for rad/s.
+	{dimFrequency, displayRule{steps: []step{{1e3, "Hz"}, {1e6, "kHz"}, {1e9, "MHz"}, {1e12, "GHz"}, {inf, "THz"}}, zero: "Hz"}},
 	{dimEnergy, displayRule{steps: []step{{10 * ElementaryCharge, "meV"}, {1e-9, "eV"}, {inf, "J"}}, zero: "meV"}},
-	{dimField, fixed("T")},
+	// Small fields (offsets, remanence) read in mT.
+	{dimField, displayRule{steps: []step{{0.01, "mT"}, {inf, "T"}}, zero: "T"}},
 	{dimResistance, fixed("Ohm")},
 	{dimResistance.Pow(-1), fixed("S")},
 	{dimResistance.Mul(Length), fixed("Ohm cm")},
