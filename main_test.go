@@ -260,6 +260,18 @@ func TestInitNewValidate(t *testing.T) {
 	if code, out, errs := cleave(t, "-C", dir, "validate"); code != 0 {
 		t.Fatalf("validate of a fresh notebook: exit %d\n%s%s", code, out, errs)
 	}
+	// The templates' live calc lines (expected density of the example stack, squares of the
+	// mask) evaluate on fresh entries: calc writes them, check then passes.
+	if code, out, errs := cleave(t, "-C", dir, "calc"); code != 0 {
+		t.Fatalf("calc of a fresh notebook: exit %d\n%s%s", code, out, errs)
+	}
+	if code, out, errs := cleave(t, "-C", dir, "check"); code != 0 {
+		t.Fatalf("check of a fresh notebook: exit %d\n%s%s", code, out, errs)
+	}
+	w, _ := os.ReadFile(filepath.Join(dir, "wafers", "W1.md"))
+	if !strings.Contains(string(w), "n_expected = sp.n  #= ") {
+		t.Errorf("the wafer template's expected density was not computed:\n%s", w)
+	}
 	// Refusals: an existing id, a missing parent, a parent of the wrong kind.
 	for _, s := range [][]string{
 		{"new", "wafer", "W1"},

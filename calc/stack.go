@@ -116,7 +116,7 @@ func bandValue(st band.Stack, res *band.Result) *Result {
 	var subs List
 	occupied := 0
 	for _, s := range res.Subbands {
-		if s.N2D > 1e11 { // 1e7 cm^-2: below the solver's tolerance (common practice)
+		if s.E < 0 { // below the Fermi level; thermal tails above it do not count
 			occupied++
 		}
 		subs = append(subs, NewRecord("", "E", Q(quantity.New(s.E*meV.Scale*1e3, meV.D)), "n", Q(quantity.New(s.N2D, dDensity)),
@@ -132,7 +132,7 @@ func bandValue(st band.Stack, res *band.Result) *Result {
 	}
 	r := newResult("expected_density", "n", []string{"occupied", "analytic"},
 		"n", Q(quantity.New(res.TotalN2D, dDensity)),
-		"occupied", String(fmt.Sprintf("%d subband(s) occupied", occupied)),
+		"occupied", String(fmt.Sprintf("%d subband(s) below E_F", occupied)),
 		"subbands", subs,
 		"wells", wells,
 		"iterations", num(float64(res.Iterations)),
