@@ -92,14 +92,28 @@ func equalInts(a, b []int) bool {
 
 func TestPlateauWarnings(t *testing.T) {
 	t.Parallel()
-	d, _ := qhSweep(t)
-	// The model's R_xx minima stay above zero (ρ_0 exp(−4·damping)): every plateau warns.
-	r, err := Plateaus(d, PlateauOptions{Density: 3e15})
+	d, p := qhSweep(t)
+	// A parallel channel (1e10 cm^-2, 1000 cm²/(V s), two-carrier Drude) keeps
+	// R_xx finite on the plateaus: the first plateau warns.
+	p.Parallel = &Layer{Density: 1e14, Mobility: 0.1}
+	dp, err := Sweep(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r, err := Plateaus(dp, PlateauOptions{Density: 3e15})
 	if err != nil {
 		t.Fatal(err)
 	}
 	if len(r.Plateaus) == 0 || !hasWarning(r.Plateaus[0].Warnings, WarnRxxNotZero) {
 		t.Errorf("no %s warning: %v", WarnRxxNotZero, r.Warnings)
+	}
+	// Without it, the model's R_xx reaches zero and nothing is said about it.
+	r, err = Plateaus(d, PlateauOptions{Density: 3e15})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if hasWarning(r.Warnings, WarnRxxNotZero) {
+		t.Errorf("clean model: %v", r.Warnings)
 	}
 	// A density 30 % too high moves the expected ν.
 	r, err = Plateaus(d, PlateauOptions{Density: 3.9e15})

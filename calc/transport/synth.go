@@ -101,10 +101,23 @@ func DensityFromSdH(f, gs, gv float64) float64 { return gs * gv * qe * f / hPl }
 // amplitude is small; the generator does not clip it.
 //
 // With Plateaus set, the sweep is instead a smoothed-step model — a model of the
-// look of the quantum Hall regime, not physics: the filling factor ν = n h/(e|B|)
-// seen by ρ_xy is blended towards the nearest multiple of g_s g_v with a weight
-// equal to the oscillation damping factor (clipped to 1), and ρ_xx = ρ_0 exp(Δ)
-// (which equals the low-field form to first order and stays positive).
+// look of the quantum Hall regime, not a microscopic theory: the filling factor
+// ν = n h/(e|B|) seen by ρ_xy is blended towards the nearest multiple of
+// g_s g_v with a weight w equal to the low-field relative amplitude
+// 4 (X/sinh X) exp(−π/(ω_c τ_q)) clipped to 1 (the levels count as resolved
+// once the low-field form would take ρ_xx to zero). ρ_xx blends the low-field
+// form, as ρ_0 exp(Δ) (equal to it to first order, and positive), with the
+// empirical resistivity rule ρ_xx ∝ B |dρ_xy/dB| (Chang & Tsui, Solid State
+// Commun. 56, 153 (1985), from memory):
+//
+//	ρ_xx = ρ_0 [(1 − w) exp(Δ) + w |dρ_xy/dB| / |dρ_xy^cl/dB|],
+//
+// the rule's constant chosen so that ρ_xx = ρ_0 on the classical Hall line
+// (no classical magnetoresistance), and dw/dB neglected. Where the levels are
+// resolved (w = 1) ρ_xx is zero on the plateaus, up to the tails of the
+// logistic steps (about 1e-4 ρ_0), and peaks between them. Spin splitting is
+// not modelled: with SpinDeg 2 the plateaus are at even ν only; SpinDeg 1
+// puts them at every integer.
 //
 // A parallel Layer adds its Drude conductivity tensor to the main channel's,
 // and the sum is inverted back to resistivities.
@@ -130,12 +143,16 @@ func (p *SweepParams) Resistivity(B float64) (rhoxx, rhoxy float64) {
 		f := SdHFrequency(n, q.SpinDeg, q.ValleyDeg)
 		osc := 4 * damp * math.Cos(2*math.Pi*f/absB-math.Pi)
 		if q.Plateaus {
-			rhoxx = rho0 * math.Exp(osc)
 			g := q.SpinDeg * q.ValleyDeg
 			nu := hPl * n / (qe * absB) / g
 			w := math.Min(1, 4*damp)
-			nuEff := g * math.Max(nu+w*(staircase(nu)-nu), math.Min(nu, 1))
-			rhoxy = sign * math.Copysign(rK/nuEff, B)
+			ne, dne := nuEffective(nu, w)
+			rhoxy = sign * math.Copysign(rK/(g*ne), B)
+			// |dρ_xy/dB| relative to the classical slope, ignoring the slow
+			// variation of w: ρ_xy ∝ 1/ν_e and ν ∝ 1/B give
+			// (dν_e/dν) ν²/ν_e².
+			slope := dne * nu * nu / (ne * ne)
+			rhoxx = rho0 * ((1-w)*math.Exp(osc) + w*slope)
 		} else {
 			rhoxx = rho0 * (1 + osc)
 		}
@@ -160,10 +177,28 @@ func invertTensor(a, b float64) (float64, float64) {
 }
 
 // staircase is a smoothed staircase: flat at the integers, with a logistic
-// step of width 0.04 centred on each half-integer.
-func staircase(x float64) float64 {
+// step of width 0.04 centred on each half-integer. It returns the value and
+// the derivative.
+func staircase(x float64) (float64, float64) {
 	k := math.Floor(x)
-	return k + 1/(1+math.Exp(-(x-k-0.5)/0.04))
+	l := 1 / (1 + math.Exp(-(x-k-0.5)/0.04))
+	return k + l, l * (1 - l) / 0.04
+}
+
+// nuEffective is the filling factor (in units of g_s g_v) that the plateau
+// model's ρ_xy sees, and its derivative with respect to ν: ν blended with
+// weight w towards the staircase, and never below ν once ν < 1/2 (beyond the
+// last plateau the Hall line is classical again). Above 1/2 the staircase is
+// at least 1 − 4e-6 (its logistic tail just below ν = 1), so no floor is
+// needed there, and none is applied: a floor at ν would switch the ν = 1
+// plateau centre back to the classical slope.
+func nuEffective(nu, w float64) (float64, float64) {
+	s, ds := staircase(nu)
+	v, dv := nu+w*(s-nu), 1-w+w*ds
+	if nu < 0.5 && v < nu {
+		return nu, 1
+	}
+	return v, dv
 }
 
 // Sweep generates a synthetic sweep with columns B (T), Rxx (Ohm), Rxy (Ohm),
