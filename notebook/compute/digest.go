@@ -51,7 +51,7 @@ func Digest(root string) (string, error) {
 	}
 	sort.Slice(items, func(i, j int) bool { return items[i].path < items[j].path })
 	h := sha256.New()
-	fmt.Fprintf(h, "%s\n", Version)
+	fmt.Fprintf(h, "%s\n", engineSalt())
 	for _, it := range items {
 		fmt.Fprintf(h, "%s\x00%s\n", it.path, it.sum)
 	}

@@ -18,7 +18,8 @@ import (
 	"cleave/notebook/calcblock"
 )
 
-// Version is mixed into every cache key, so a new engine never reuses old results.
+// Version is mixed into every cache key (with a hash of the executable, see engineSalt), so
+// a new engine never reuses old results.
 // Bump it whenever a formula, a display rule or a function changes.
 const Version = "cleave-engine 1"
 
@@ -154,7 +155,7 @@ func (ev evaluator) Deps() []string { return ev.env.Deps() }
 
 func runFile(root string, fsys fs.FS, nb *notebook.Notebook, f *notebook.File, cache *calcblock.Cache) (*calcblock.FileReport, error) {
 	env := NewEnv(fsys, nb, f)
-	opt := calcblock.Options{Cache: cache, Salt: Version}
+	opt := calcblock.Options{Cache: cache, Salt: engineSalt()}
 	if cache != nil {
 		// The dependency values must be computed in a fresh environment: the cache asks for
 		// them before anything is evaluated.
