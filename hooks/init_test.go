@@ -70,7 +70,7 @@ func TestCommitAll(t *testing.T) {
 		t.Fatalf("git log: %v\n%s", err, out)
 	}
 	s := string(out)
-	if !strings.Contains(s, "A. K.|ak@lab.invalid|2024-03-15T17:20:00Z|first") || !strings.Contains(s, "wafers/.gitkeep") {
+	if !strings.Contains(s, "A. K.|ak@lab.invalid|2024-03-15T17:20:00+00:00|first") || !strings.Contains(s, "wafers/.gitkeep") {
 		t.Errorf("git log:\n%s", s)
 	}
 }
