@@ -190,6 +190,16 @@ func fieldRange(args []Value, i int) (lo, hi float64, err error) {
 	return lo, hi, nil
 }
 
+// dataAndRange reads the usual first two arguments of an analysis: a data set and a field range.
+func dataAndRange(a []Value) (*transport.Dataset, float64, float64, error) {
+	d, err := dataArg(a, 0)
+	if err != nil {
+		return nil, 0, 0, err
+	}
+	lo, hi, err := fieldRange(a, 1)
+	return d, lo, hi, err
+}
+
 // strArg reads a text argument (a column name).
 func strArg(args []Value, i int) (string, error) {
 	s, ok := args[i].(String)
@@ -207,11 +217,7 @@ func registerAnalysis(e *Env) {
 		Doc:    "Hall density from a linear fit of R_xy against B over a |B| range: n = 1/(e |slope|); the sign of the slope says electrons (negative, with B along +z) or holes",
 		Params: []Param{{Name: "d"}, {Name: "range"}, {Name: "x", Default: str("B")}, {Name: "y", Default: str("Rxy")}},
 		Call: func(_ *Env, a []Value) (Value, error) {
-			d, err := dataArg(a, 0)
-			if err != nil {
-				return nil, err
-			}
-			lo, hi, err := fieldRange(a, 1)
+			d, lo, hi, err := dataAndRange(a)
 			if err != nil {
 				return nil, err
 			}
@@ -227,11 +233,7 @@ func registerAnalysis(e *Env) {
 		Doc:    "Shubnikov-de Haas density from the Fourier spectrum of R_xx against 1/B over a |B| range: n = gs gv (e/h) f_B",
 		Params: []Param{{Name: "d"}, {Name: "range"}, {Name: "gs", Default: num(2)}, {Name: "gv", Default: num(1)}, {Name: "x", Default: str("B")}, {Name: "y", Default: str("Rxx")}},
 		Call: func(_ *Env, a []Value) (Value, error) {
-			d, err := dataArg(a, 0)
-			if err != nil {
-				return nil, err
-			}
-			lo, hi, err := fieldRange(a, 1)
+			d, lo, hi, err := dataAndRange(a)
 			if err != nil {
 				return nil, err
 			}

@@ -125,11 +125,7 @@ func registerAnalysis2(e *Env) {
 		Params: []Param{{Name: "d"}, {Name: "range"}, mass("m"), {Name: "n", Dim: dimp(dDensity)},
 			{Name: "T", Default: String("none")}, {Name: "mu", Default: String("none")}},
 		Call: func(_ *Env, a []Value) (Value, error) {
-			d, err := dataArg(a, 0)
-			if err != nil {
-				return nil, err
-			}
-			lo, hi, err := fieldRange(a, 1)
+			d, lo, hi, err := dataAndRange(a)
 			if err != nil {
 				return nil, err
 			}
