@@ -63,7 +63,7 @@ func registerAnalysis2(e *Env) {
 	e.Register(Func{Name: "lk_mass",
 		Doc: "effective mass from the thermal damping X/sinh X of the oscillation amplitude (Lifshitz–Kosevich): " +
 			"lk_mass([data sets at several temperatures], B range) with each file's temperature from its metadata (T), " +
-			"or lk_mass(table, B) with a table of columns T and A at one field B",
+			"or given as a list T=[...]; or lk_mass(table, B) with a table of columns T and A at one field B",
 		Params: []Param{{Name: "x"}, {Name: "B"}, {Name: "T", Default: String("T")}, {Name: "A", Default: String("A")}},
 		Call: func(_ *Env, a []Value) (Value, error) {
 			switch x := a[0].(type) {
@@ -80,7 +80,16 @@ func registerAnalysis2(e *Env) {
 				if err != nil {
 					return nil, err
 				}
-				r, err := transport.LKMassSweeps(sweeps, nil, lo, hi)
+				var temps []float64 // nil: each file's metadata
+				if tl, ok := a[2].(List); ok {
+					if temps, _, err = quantities(a, 2, dTemp, "temperatures, one per data set"); err != nil {
+						return nil, err
+					}
+					if len(tl) != len(sweeps) {
+						return nil, &ArgError{Arg: 2, Err: fmt.Errorf("%w: %d temperatures for %d data sets", ErrArgument, len(tl), len(sweeps))}
+					}
+				}
+				r, err := transport.LKMassSweeps(sweeps, temps, lo, hi)
 				if err != nil {
 					return nil, err
 				}
@@ -230,6 +239,26 @@ func registerAnalysis2(e *Env) {
 			}
 			return newResult("gate_capacitance", "C", []string{"threshold"},
 				"C", est(r.Capacitance, dCapArea), "dn_dV", est(r.Slope, dPerVolt), "threshold", est(r.Threshold, dVolt),
+				"points", num(float64(r.Points))).warn(r.Warnings), nil
+		}})
+	e.Register(Func{Name: "landau_fan",
+		Doc:    "Landau fan: fit nu = (h n/e)(1/B) + nu0 to the fields of R_xx minima (a list) and their filling factors (a list) → density n, slope and intercept nu0 (≈ 0, or a Berry phase)",
+		Params: []Param{{Name: "B"}, {Name: "nu"}},
+		Call: func(_ *Env, a []Value) (Value, error) {
+			b, sb, err := quantities(a, 0, dField, "fields")
+			if err != nil {
+				return nil, err
+			}
+			nu, _, err := quantities(a, 1, dNone, "filling factors")
+			if err != nil {
+				return nil, err
+			}
+			r, err := transport.LandauFan(b, nu, sb)
+			if err != nil {
+				return nil, err
+			}
+			return newResult("landau_fan", "n", []string{"intercept"}, "n", est(r.Density, dDensity),
+				"slope", est(r.Slope, dField), "intercept", est(r.Intercept, dNone),
 				"points", num(float64(r.Points))).warn(r.Warnings), nil
 		}})
 	e.Register(Func{Name: "mobility_power_law",
