@@ -54,8 +54,10 @@ type samples struct {
 	u, y, w []float64
 	n       int     // raw points behind the samples
 	u0, u1  float64 // extent of the raw u values
-	gap     float64 // largest spacing in u of the raw data (see binSweep)
+	gap     float64 // largest spacing in u of the raw data (see binSweep), holes excluded
 	binned  bool
+	jump    []bool       // binned: sample i follows one or more empty bins
+	holes   [][2]float64 // isolated holes in u (see findHoles), excluded from gap
 }
 
 // uRange returns the number of usable points (no NaN, bmin ≤ |B| ≤ bmax) and
@@ -148,13 +150,64 @@ func binSweep(B, R []float64, bmin, bmax float64, n, m int, u0, u1 float64) *sam
 			continue
 		}
 		u := su[k] / cnt[k]
-		if last >= 0 && k > last+1 {
+		jumped := last >= 0 && k > last+1
+		if jumped {
 			s.gap = math.Max(s.gap, u-s.u[len(s.u)-1])
 		}
+		s.jump = append(s.jump, jumped)
 		s.u = append(s.u, u)
 		s.y = append(s.y, sy[k]/cnt[k])
 		s.w = append(s.w, cnt[k])
 		last = k
 	}
 	return s
+}
+
+// holeRatio is how many times wider than the local point spacing a spacing in
+// u must be to count as an isolated hole (missing rows, a dropped stretch of a
+// sweep) rather than the data's own sparseness (common practice).
+const holeRatio = 5
+
+// holeWindow is how many spacings on each side define the local spacing.
+const holeWindow = 8
+
+// findHoles separates isolated holes in the samples from their ordinary
+// spacing. A spacing counts as a hole when it exceeds holeRatio times the
+// median of the nonzero spacings within holeWindow on either side (repeats at
+// the same |B| give zero spacings and are ignored). The holes are recorded in
+// s.holes, and s.gap, which caps the searched frequency at the Nyquist
+// frequency of the sparsest stretch, is recomputed without them: a few missing
+// rows must not hide an oscillation that the rest of the sweep resolves. The
+// spectrum interpolates across a hole; the least-squares refinement uses the
+// measured samples only.
+func (s *samples) findHoles() {
+	n := len(s.u)
+	if n < 3 {
+		return
+	}
+	d := make([]float64, n-1)
+	for i := range d {
+		d[i] = s.u[i+1] - s.u[i]
+	}
+	gap := 0.0
+	loc := make([]float64, 0, 2*holeWindow)
+	for i, di := range d {
+		// For binned samples only jumps over empty bins say anything about
+		// the sparseness of the raw data (see binSweep).
+		if s.binned && !s.jump[i+1] {
+			continue
+		}
+		loc = loc[:0]
+		for j := max(0, i-holeWindow); j <= min(len(d)-1, i+holeWindow); j++ {
+			if j != i && d[j] > 0 {
+				loc = append(loc, d[j])
+			}
+		}
+		if len(loc) >= 2 && di > holeRatio*median(loc) {
+			s.holes = append(s.holes, [2]float64{s.u[i], s.u[i+1]})
+			continue
+		}
+		gap = math.Max(gap, di)
+	}
+	s.gap = gap
 }

@@ -66,8 +66,8 @@ func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Opti
 	}
 	B, R, S := selectPairs(xc.Values, yc.Values, sig, bmin, bmax)
 	if len(B) < MinHallPoints {
-		return nil, fmt.Errorf("%s: Hall fit of %s over %g T ≤ |B| ≤ %g T: %d points; need at least %d: %w",
-			d.Name, yc.Name, bmin, bmax, len(B), MinHallPoints, ErrTooFewPoints)
+		return nil, fmt.Errorf("%s: Hall fit of %s over %g T ≤ |B| ≤ %g T: %d points; need at least %d%s: %w",
+			d.Name, yc.Name, bmin, bmax, len(B), MinHallPoints, fieldSpan(xc, bmin, bmax), ErrTooFewPoints)
 	}
 	lin, err := FitPoly(B, R, S, 1)
 	if err != nil {
@@ -125,6 +125,9 @@ func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Opti
 			"R_xy(0) = %.4g ± %.2g Ohm is %.1f %% of the Hall signal at %g T: misaligned Hall probes? antisymmetrize over ±B",
 			a.Value, a.Uncertainty, 100*math.Abs(a.Value)/lin0, bref)})
 	}
+	if w := densityRange(n); w != nil {
+		res.Warnings = append(res.Warnings, *w)
+	}
 	if len(B) < 10 {
 		res.Warnings = append(res.Warnings, Warning{WarnFewPoints, fmt.Sprintf("only %d points in the fit range", len(B))})
 	}
@@ -132,4 +135,45 @@ func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Opti
 		res.Warnings = append(res.Warnings, *w)
 	}
 	return res, nil
+}
+
+// WarnDensityRange is raised when a density lies outside PlausibleDensity.
+const WarnDensityRange = "density-range"
+
+// PlausibleDensity is the range of sheet densities, m^-2, of the 2D systems
+// cleave's users measure: 1e9 to 1e14 cm^-2, a decade beyond the dilute GaAs
+// and the densest gated graphene or Si samples on either side (REFERENCE §6
+// lists 1e10–1e12 cm^-2 for GaAs; the wider bounds are common practice).
+var PlausibleDensity = [2]float64{1e13, 1e18}
+
+// densityRange warns about a density outside PlausibleDensity. A factor of
+// 1000 off is the signature of a field column in the wrong unit (mT read as
+// T, kG written as G) or a resistance in kOhm read as Ohm.
+func densityRange(n float64) *Warning {
+	if n >= PlausibleDensity[0] && n <= PlausibleDensity[1] {
+		return nil
+	}
+	return &Warning{WarnDensityRange, fmt.Sprintf(
+		"density %.3g cm^-2 is outside %.0e–%.0e cm^-2 (common practice): check the units in the header of the field and resistance columns (mT vs T, G vs kG, kOhm vs Ohm)",
+		n*1e-4, PlausibleDensity[0]*1e-4, PlausibleDensity[1]*1e-4)}
+}
+
+// fieldSpan tells, for a too-few-points error, where the field column's data
+// lie when they miss the window or fill less than a tenth of it: such a
+// column usually has the wrong unit in its header (G for kG, T for mT).
+func fieldSpan(xc *Column, bmin, bmax float64) string {
+	lo, hi := math.Inf(1), 0.0
+	for _, b := range xc.Values {
+		if a := math.Abs(b); !math.IsNaN(a) {
+			lo, hi = math.Min(lo, a), math.Max(hi, a)
+		}
+	}
+	if hi == 0 || !(hi < bmin || lo > bmax || hi < 0.1*bmax) {
+		return ""
+	}
+	unit := xc.Unit
+	if unit == "" {
+		unit = "T (no unit given)"
+	}
+	return fmt.Sprintf(" (the %s column spans |B| = %.3g–%.3g T; its header unit is %s: is that right?)", xc.Name, lo, hi, unit)
 }

@@ -71,6 +71,8 @@ const (
 	WarnDisagree      = "densities-disagree"
 	WarnWeakPeak      = "weak-peak"     // SdH peak barely above the spectrum floor
 	WarnSpectrumLimit = "peak-at-limit" // SdH peak at the edge of the allowed range
+	WarnGap           = "data-gap"      // SdH window has a hole in the data wider than half a period
+	WarnHarmonic      = "harmonic"      // SdH spectrum has a strong peak at twice or half f_B: spin splitting?
 )
 
 // Warning is a sanity check that failed; the result is still returned.

@@ -111,8 +111,8 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 	N, u0, u1 := uRange(xc.Values, yc.Values, bmin, bmax)
 	const minPoints = 32
 	if N < minPoints {
-		return nil, fmt.Errorf("%s: SdH analysis of %s over %g T ≤ |B| ≤ %g T: %d points; need at least %d: %w",
-			d.Name, yc.Name, bmin, bmax, N, minPoints, ErrTooFewPoints)
+		return nil, fmt.Errorf("%s: SdH analysis of %s over %g T ≤ |B| ≤ %g T: %d points; need at least %d%s: %w",
+			d.Name, yc.Name, bmin, bmax, N, minPoints, fieldSpan(xc, bmin, bmax), ErrTooFewPoints)
 	}
 	res := &SdHResult{GS: gs, GV: o.gv, XCol: xc.Name, YCol: yc.Name, BMin: bmin, BMax: bmax, DataHash: d.Hash, Points: N}
 	U := u1 - u0
@@ -132,6 +132,7 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 		} else {
 			sm = binSweep(xc.Values, yc.Values, bmin, bmax, N, bins, u0, u1)
 		}
+		sm.findHoles()
 		// 2: polynomial background in B, weighted by the bin counts.
 		Bs := make([]float64, len(sm.u))
 		var sig []float64
@@ -199,6 +200,8 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 			"the spectral peak is only %.1f× the median amplitude", res.Spectrum.Amp[sp.kp]/med)})
 	}
 
+	harmonic := harmonicWarning(sp, U, med, gs)
+
 	// 5: least-squares refinement on (binned) original points.
 	sf := &sinefit{u: sm.u, y: sm.y, w: sm.w, uc: (u0 + u1) / 2, us: U / 2, nb: o.bgDeg + 1, bc: (bmin + bmax) / 2, bs: (bmax - bmin) / 2, inU: bgU}
 	f, fsig, ok := sf.fit(fpk)
@@ -206,6 +209,10 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 		return nil, fmt.Errorf("%s: SdH analysis of %s: the least-squares refinement failed (singular fit): %w", d.Name, yc.Name, ErrBadArgument)
 	}
 	if !(f > 0) || math.Abs(f-fpk) > 1/U {
+		if harmonic != nil {
+			return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the least-squares refinement moved from the spectral peak at %.4g T to %.4g T, and %s: %w",
+				d.Name, yc.Name, bmin, bmax, fpk, f, harmonic.Msg, ErrNoOscillation)
+		}
 		return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the least-squares refinement moved from the spectral peak at %.4g T to %.4g T, more than the spectral resolution 1/Δ(1/B) = %.3g T: the background or a second frequency dominates the fit; narrow the field window to where one oscillation is clear, or change the background degree (WithBackground): %w",
 			d.Name, yc.Name, bmin, bmax, fpk, f, 1/U, ErrNoOscillation)
 	}
@@ -217,6 +224,16 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 		pts = fmt.Sprintf("the means of %d points in %d bins of 1/B (weighted by count)", N, len(sm.u))
 	}
 	res.Method = fmt.Sprintf("polynomial background (degree %d) in %s; Hann-windowed FFT of R_xx on a uniform 1/B grid (%d points, padded to %d); Gauss–Newton fit of a sinusoid with a log-quadratic envelope to %s; σ from the fit covariance", o.bgDeg, bgVar, m, nfft, pts)
+	if harmonic != nil {
+		res.Warnings = append(res.Warnings, *harmonic)
+	}
+	for _, h := range sm.holes {
+		if periods := f * (h[1] - h[0]); periods > 0.5 {
+			res.Warnings = append(res.Warnings, Warning{WarnGap, fmt.Sprintf(
+				"no data for %.4g T < |B| < %.4g T (%.1f periods of f_B): the spectrum interpolates across the hole and the fit uses the measured points only; check the NaN rows or the interrupted sweep there",
+				1/h[1], 1/h[0], periods)})
+		}
+	}
 	if res.Oscillations < 5 {
 		res.Warnings = append(res.Warnings, Warning{WarnFewPoints, fmt.Sprintf("only %.1f periods in the field window", res.Oscillations)})
 	}
@@ -224,6 +241,45 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 		res.Warnings = append(res.Warnings, *w)
 	}
 	return res, nil
+}
+
+// harmonicFrac is the fraction of the main spectral peak above which a peak
+// at twice or half its frequency is reported (common practice).
+const harmonicFrac = 0.25
+
+// harmonicWarning looks for a strong peak at twice or half the main peak's
+// frequency, within the spectral resolution 1/U. Once Zeeman splitting is
+// resolved the minima of R_xx fall at every integer filling factor rather than
+// at even ones, so a window that reaches into the spin-split regime holds the
+// spin-degenerate frequency f_B and the doubled one 2f_B (REFERENCE §2.11); a
+// large, non-sinusoidal oscillation also has a second harmonic. Either way the
+// density g_s g_v (e/h) f_B is only right if g_s matches the peak taken.
+func harmonicWarning(sp *sdhSpectrum, U, med, gs float64) *Warning {
+	a0 := sp.Amp[sp.kp]
+	df := sp.Freq[1] - sp.Freq[0]
+	peak := func(f float64) (float64, float64) {
+		lo := max(sp.kmin, int(math.Ceil((f-1/U)/df)))
+		hi := min(sp.kmax, int(math.Floor((f+1/U)/df)))
+		best, at := 0.0, 0.0
+		for k := lo; k <= hi; k++ {
+			if sp.Amp[k] > best {
+				best, at = sp.Amp[k], sp.Freq[k]
+			}
+		}
+		return best, at
+	}
+	strong := func(a float64) bool { return a > harmonicFrac*a0 && a > 4*med }
+	if a, at := peak(2 * sp.fpk); strong(a) {
+		return &Warning{WarnHarmonic, fmt.Sprintf(
+			"the spectrum also peaks at %.4g T, twice f_B = %.4g T (%.0f %% of its amplitude): spin splitting resolved at the high-field end, or a second harmonic; with g_s = %g the density assumes %.4g T is the spin-degenerate frequency, so end the window below the field where the minima split",
+			at, sp.fpk, 100*a/a0, gs, sp.fpk)}
+	}
+	if a, at := peak(sp.fpk / 2); strong(a) {
+		return &Warning{WarnHarmonic, fmt.Sprintf(
+			"the spectrum also peaks at %.4g T, half of f_B = %.4g T (%.0f %% of its amplitude): the chosen peak may be the spin-resolved frequency, in which case the density is that of g_s = 1 at %.4g T; with g_s = %g it comes out twice too high; end the window below the field where the minima split",
+			at, sp.fpk, 100*a/a0, sp.fpk, gs)}
+	}
+	return nil
 }
 
 // edgeHint says what a spectral peak at an edge of the searched range means.
