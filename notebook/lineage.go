@@ -79,6 +79,11 @@ func (nb *Notebook) Children(e *Entry) []*Entry { return slices.Clone(nb.childre
 // Ancestors returns the ancestors of the entry with the given id, nearest
 // first (breadth first; within one generation in link order). It is nil for
 // an unknown id. Cycles do not make it loop.
+//
+// A process is a side branch of the lineage: one run may treat pieces of
+// several wafers, so the walk lists a process but does not go on through it
+// (unless it starts there). A device's ancestors are its piece chain, its mask
+// and its processes, never the other pieces a run treated.
 func (nb *Notebook) Ancestors(id string) []*Entry {
 	e, ok := nb.byID[id]
 	if !ok {
@@ -88,7 +93,10 @@ func (nb *Notebook) Ancestors(id string) []*Entry {
 }
 
 // Descendants returns the descendants of the entry with the given id,
-// nearest first (breadth first; within one generation by kind then id).
+// nearest first (breadth first; within one generation by kind then id). As
+// in [Notebook.Ancestors], a process reached on the way is listed but not
+// walked through: a piece's descendants do not include the devices a shared
+// run made from other pieces.
 func (nb *Notebook) Descendants(id string) []*Entry {
 	e, ok := nb.byID[id]
 	if !ok {
@@ -108,7 +116,9 @@ func (nb *Notebook) walk(start *Entry, next map[*Entry][]*Entry) []*Entry {
 			if !seen[n] {
 				seen[n] = true
 				out = append(out, n)
-				queue = append(queue, n)
+				if n.Kind != KindProcess {
+					queue = append(queue, n)
+				}
 			}
 		}
 	}

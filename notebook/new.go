@@ -12,6 +12,7 @@ var (
 	ErrNotFound  = errors.New("no such entry")
 	ErrWrongKind = errors.New("wrong kind")
 	ErrBadID     = errors.New("invalid id")
+	ErrNoParent  = errors.New("no parent given")
 )
 
 var folders = map[Kind]string{
@@ -31,7 +32,9 @@ func DefaultPath(kind Kind, id string) string {
 
 // CheckNew says whether an entry of the given kind and id can be added with
 // the given parents (ids its link fields will name). It refuses an unknown
-// kind, an invalid or existing id, a missing parent, and a parent whose kind
+// kind, an invalid or existing id, a missing parent (one that does not exist,
+// or none at all for a kind whose lineage link is required: a piece needs its
+// wafer or piece, a device its piece), and a parent whose kind
 // none of the kind's link fields accepts (a wafer or mask takes no parents).
 // All reasons are joined into one error.
 func (nb *Notebook) CheckNew(kind Kind, id string, parents []string) error {
@@ -50,6 +53,10 @@ func (nb *Notebook) CheckNew(kind Kind, id string, parents []string) error {
 	var accepted []Kind
 	if lf := linkFields(kind); len(lf) > 0 {
 		accepted = append(accepted, lf[0].Kinds...)
+	}
+	if lf := linkFields(kind); len(parents) == 0 && len(lf) > 0 && lf[0].Required {
+		errs = append(errs, fmt.Errorf("new %s %s: %w: a %s needs --from with the id of a %s (%s)",
+			kind, id, ErrNoParent, kind, orKinds(accepted), lf[0].Doc))
 	}
 	for _, p := range parents {
 		pe, ok := nb.byID[p]

@@ -339,6 +339,11 @@ func TestCheckNewAndDefaultPath(t *testing.T) {
 		{KindCooldown, "C9", []string{"W23-017-a"}, ErrWrongKind, "expected a device"},
 		{KindWafer, "W9", []string{"W23-017"}, ErrWrongKind, "has no parents"},
 		{KindPiece, "bad id", []string{"W23-017"}, ErrBadID, "bad id"},
+		// a piece and a device cannot exist without the sample they were cut from
+		{KindPiece, "P10", nil, ErrNoParent, "needs --from with the id of a wafer or piece"},
+		{KindDevice, "D10", nil, ErrNoParent, "needs --from with the id of a piece"},
+		{KindProcess, "F-2", nil, nil, ""},
+		{KindCooldown, "C-3", nil, nil, ""},
 		{Kind("sample"), "S1", nil, nil, "unknown kind"},
 	}
 	for _, tc := range tests {
@@ -433,5 +438,58 @@ func TestUnknownUnitInLayerTable(t *testing.T) {
 	ps := mustLoad(t, fsys).Validate()
 	if len(ps) != 1 || ps[0].Line != 9 || ps[0].Col != 10 || !strings.HasPrefix(ps[0].Msg, `layer table: thickness "3 parsecs": `) {
 		t.Errorf("got %v", ps)
+	}
+}
+
+// TestSharedProcessRun: one process run treats pieces of two wafers. The run is
+// a side branch: a device of wafer W2 is not a descendant of W1, W1 is not its
+// ancestor, and the tree of W1 does not list W2's devices or cooldowns.
+func TestSharedProcessRun(t *testing.T) {
+	entry := func(s string) *fstest.MapFile { return &fstest.MapFile{Data: []byte("---\n" + s + "---\n")} }
+	nb := mustLoad(t, fstest.MapFS{
+		"wafers/W1.md":    entry("id: W1\nkind: wafer\n"),
+		"wafers/W2.md":    entry("id: W2\nkind: wafer\n"),
+		"pieces/W1-a.md":  entry("id: W1-a\nkind: piece\nfrom: W1\n"),
+		"pieces/W2-a.md":  entry("id: W2-a\nkind: piece\nfrom: W2\n"),
+		"processes/R.md":  entry("id: R\nkind: process\npieces: [W1-a, W2-a]\n"),
+		"devices/D1.md":   entry("id: D1\nkind: device\nfrom: W1-a\nprocess: [R]\n"),
+		"devices/D2.md":   entry("id: D2\nkind: device\nfrom: W2-a\nprocess: [R]\n"),
+		"cooldowns/C2.md": entry("id: C2\nkind: cooldown\ndevices: [D2]\n"),
+	})
+	if ps := nb.Validate(); len(ps) != 0 {
+		t.Fatalf("unexpected problems: %v", ps)
+	}
+	for _, tc := range []struct {
+		id                 string
+		ancestors, descend []string
+	}{
+		{"W1", []string{}, []string{"W1-a", "D1", "R"}},
+		{"W2-a", []string{"W2"}, []string{"D2", "R", "C2"}},
+		{"D2", []string{"W2-a", "R", "W2"}, []string{"C2"}},
+		{"C2", []string{"D2", "W2-a", "R", "W2"}, []string{}},
+		// the run itself still knows every piece it treated and every device it made
+		{"R", []string{"W1-a", "W2-a", "W1", "W2"}, []string{"D1", "D2", "C2"}},
+	} {
+		if got := ids(nb.Ancestors(tc.id)); !slices.Equal(got, tc.ancestors) {
+			t.Errorf("Ancestors(%s): got %q, want %q", tc.id, got, tc.ancestors)
+		}
+		if got := ids(nb.Descendants(tc.id)); !slices.Equal(got, tc.descend) {
+			t.Errorf("Descendants(%s): got %q, want %q", tc.id, got, tc.descend)
+		}
+	}
+	var b bytes.Buffer
+	if err := nb.Tree(&b, "W1"); err != nil {
+		t.Fatal(err)
+	}
+	want := "wafer W1  (wafers/W1.md) *\n  piece W1-a  (pieces/W1-a.md)\n    device D1  (devices/D1.md)\n    process R  (processes/R.md)\n"
+	if b.String() != want {
+		t.Errorf("Tree(W1):\n%s\nwant:\n%s", b.String(), want)
+	}
+	b.Reset()
+	if err := nb.Tree(&b, "D2"); err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(b.String(), "W1") {
+		t.Errorf("Tree(D2) lists wafer W1's entries:\n%s", b.String())
 	}
 }

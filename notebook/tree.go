@@ -16,7 +16,9 @@ import (
 // first, then masks, then any other entry without parents, each group by id);
 // an entry reached a second time (a device under its piece and under its
 // process or mask) is printed again with "(see above)" and without its
-// subtree. Files without an entry are not listed.
+// subtree. A process below a piece is listed without its devices (a run may
+// treat pieces of several wafers; its devices appear under their own pieces).
+// Files without an entry are not listed.
 //
 // With an id it prints that entry's ancestors along its first links (wafer,
 // then piece, …), the entry itself marked with "*" and its descendants indented
@@ -102,6 +104,11 @@ func label(e *Entry) string {
 
 func (nb *Notebook) printTree(w io.Writer, e *Entry, depth int, seen map[*Entry]bool, mark string) {
 	ind := strings.Repeat("  ", depth)
+	if e.Kind == KindProcess && len(nb.parents[e]) > 0 && mark == "" {
+		seen[e] = true
+		fmt.Fprintf(w, "%s%s\n", ind, label(e)) // a side branch: see the doc of Tree
+		return
+	}
 	if seen[e] {
 		fmt.Fprintf(w, "%s%s  (see above)\n", ind, label(e))
 		return
