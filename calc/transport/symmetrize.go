@@ -21,7 +21,11 @@ type SymResult struct {
 	BMin, BMax   float64
 	DataHash     string
 	RemovedRatio float64 // RMS(Other)/RMS(Values) over the grid
-	Warnings     []Warning
+	// FieldOffset is the field offset δ (T; measured B = true B + δ) that best
+	// explains Other as −δ dValues/d|B|, and OffsetMatch the fraction of
+	// Other's variance it explains (0–1). See fieldOffset.
+	FieldOffset, OffsetMatch float64
+	Warnings                 []Warning
 }
 
 // WarnOddPart is raised by Symmetrize when R_xx differs between +B and −B
@@ -161,6 +165,21 @@ func symmetrize(d *Dataset, xcol, ycol string, sign float64) (*SymResult, error)
 	} else if so > 0 {
 		res.RemovedRatio = math.Inf(1)
 	}
+	res.FieldOffset, res.OffsetMatch = fieldOffset(res.B, res.Values, res.Other)
+	hint := "density gradient? record which contact pair was used"
+	if sign < 0 {
+		hint = "R_xx pick-up from misaligned probes"
+	}
+	if res.OffsetMatch > 0.5 {
+		off := fmt.Sprintf("the +B and −B traces line up if the field column is shifted by %.3g mT (%.0f %% of the removed part explained); check the magnet's remanent field or the field zero before symmetrising", -1e3*res.FieldOffset, 100*res.OffsetMatch)
+		if sign > 0 {
+			hint = "it matches a field offset: " + off
+		} else {
+			// Near a linear Hall line a constant pick-up and a field offset
+			// look alike; R_xx's structure tells them apart only in R_xx.
+			hint += ", or a field offset: " + off
+		}
+	}
 	if sign > 0 {
 		if neg > 0 {
 			res.Warnings = append(res.Warnings, Warning{WarnNegative, fmt.Sprintf(
@@ -168,13 +187,13 @@ func symmetrize(d *Dataset, xcol, ycol string, sign float64) (*SymResult, error)
 		}
 		if res.RemovedRatio > 0.05 {
 			res.Warnings = append(res.Warnings, Warning{WarnOddPart, fmt.Sprintf(
-				"%s differs between +B and −B: the odd part is %.1f %% of the even part (RMS; tolerance 5 %%, common practice): density gradient? record which contact pair was used",
-				yc.Name, 100*res.RemovedRatio)})
+				"%s differs between +B and −B: the odd part is %.1f %% of the even part (RMS; tolerance 5 %%, common practice): %s",
+				yc.Name, 100*res.RemovedRatio, hint)})
 		}
 	} else if res.RemovedRatio > 0.01 {
 		res.Warnings = append(res.Warnings, Warning{WarnEvenPart, fmt.Sprintf(
-			"%s has an even part of %.1f %% of the odd part (RMS; bound 1 %%, REFERENCE §6): R_xx pick-up from misaligned probes",
-			yc.Name, 100*res.RemovedRatio)})
+			"%s has an even part of %.1f %% of the odd part (RMS; bound 1 %%, REFERENCE §6): %s",
+			yc.Name, 100*res.RemovedRatio, hint)})
 	}
 	return res, nil
 }
@@ -187,4 +206,24 @@ func countNonZero(b []float64) int {
 		}
 	}
 	return n
+}
+
+// fieldOffset estimates a field offset δ from a (anti)symmetrisation. If the
+// field column reads B + δ, a trace R(B) that is even (odd) in the true field
+// gives, to first order in δ, R(+b) = R(b) − δR'(b) and R(−b) = ±[R(b) + δR'(b)],
+// so the removed part is −δ R'(b) for both kinds. δ is the least-squares
+// coefficient of the removed part on −dValues/db (central differences), and
+// match the squared correlation of the two.
+func fieldOffset(b, v, other []float64) (delta, match float64) {
+	var so, sd, sod float64
+	for i := 1; i+1 < len(b); i++ {
+		dv := (v[i+1] - v[i-1]) / (b[i+1] - b[i-1])
+		so += other[i] * other[i]
+		sd += dv * dv
+		sod += other[i] * dv
+	}
+	if !(so > 0) || !(sd > 0) {
+		return 0, 0
+	}
+	return -sod / sd, sod * sod / (so * sd)
 }
