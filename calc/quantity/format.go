@@ -100,22 +100,44 @@ var parsedDisplay = func() map[string]Unit {
 // Customary returns the trade's display unit for q: its dimension decides
 // the unit and, for some dimensions, the size of the value picks the prefix.
 // A dimension without a customary unit gets its SI base-unit string
-// ([Dim.String]) with scale 1.
+// ([Dim.String]) with scale 1, and so does a value (or uncertainty) so far
+// out of range that it would overflow or fall into the subnormal range in
+// the customary unit: 1e300 g is about 1e327 electron masses, beyond the
+// largest float64, but prints as 1e297 kg.
 func Customary(q Quantity) Unit {
+	si := Unit{Symbol: q.d.String(), Scale: 1, D: q.d}
 	r, ok := displayRules[q.d]
 	if !ok {
-		return Unit{Symbol: q.d.String(), Scale: 1, D: q.d}
+		return si
 	}
 	a := math.Abs(q.v)
 	if a == 0 || math.IsNaN(a) || math.IsInf(a, 0) {
 		return parsedDisplay[r.zero]
 	}
+	u := parsedDisplay[r.steps[len(r.steps)-1].sym]
 	for _, s := range r.steps {
 		if a < s.below {
-			return parsedDisplay[s.sym]
+			u = parsedDisplay[s.sym]
+			break
 		}
 	}
-	return parsedDisplay[r.steps[len(r.steps)-1].sym]
+	if !representable(a, u.Scale) || !representable(q.Uncertainty(), u.Scale) {
+		return si
+	}
+	return u
+}
+
+// representable reports whether the SI magnitude x keeps its precision in
+// a unit of the given scale: the converted number is finite, and either
+// normal or no smaller than x (a subnormal number holds fewer significant
+// digits the smaller it is, down to none at zero).
+func representable(x, scale float64) bool {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return true
+	}
+	const minNormal = 0x1p-1022
+	y := math.Abs(fromSI(x, scale))
+	return !math.IsInf(y, 0) && (y >= minNormal || y >= math.Abs(x))
 }
 
 // Format writes q in its [Customary] unit; see the package documentation

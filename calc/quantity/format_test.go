@@ -147,6 +147,26 @@ func TestCustomaryTable(t *testing.T) {
 	}
 }
 
+// TestCustomaryOutOfRange: a value or uncertainty that would overflow, or
+// lose digits to the subnormal range, in the customary unit is written in SI
+// base units instead (found by FuzzParseQuantity: 1e300 g printed as Inf m_e).
+func TestCustomaryOutOfRange(t *testing.T) {
+	tests := []struct {
+		q    Quantity
+		want string
+	}{
+		{New(1e297, Mass), "1.0000e297 kg"},
+		{Uncertain(1, 1e297, Mass), "(0.0 ± 1.0)e297 kg"},
+		{New(1e-300, Mass), "1.0978e-270 m_e"},            // ordinary case: still m_e
+		{New(1e-319, Length.Pow(-2)), "9.9999e-320 m^-2"}, // 1e-323 cm^-2 would be subnormal
+	}
+	for _, tc := range tests {
+		if got := Format(tc.q); got != tc.want {
+			t.Errorf("Format(%v %v) = %q, want %q", tc.q.Value(), tc.q.Dim(), got, tc.want)
+		}
+	}
+}
+
 func TestFormatIn(t *testing.T) {
 	q := Uncertain(3.1e15, 2e13, Length.Pow(-2))
 	got, err := FormatIn(q, MustUnit("m^-2"))
