@@ -43,7 +43,7 @@ func init() {
 		{"check", "[PATH...]", "recompute without writing; list stale results and errors as path:line: old → new", runCheck},
 		{"eval", "[--in FILE] [--json] EXPR", "evaluate one expression, in the context of an entry with --in", runEval},
 		{"demo", "[DIR]", "write the demo notebook (to DIR or a new temp folder) and run everything on it", runDemo},
-		{"version", "", "print the version", func(c *cli, _ []string) int { fmt.Fprintln(c.out, "cleave", version); return 0 }},
+		{"version", "", "print the version", runVersion},
 	}
 }
 
@@ -329,12 +329,15 @@ func (c *cli) recompute(name string, args []string, write bool) int {
 	if err != nil {
 		return c.fail(name, err)
 	}
+	// One problem per line printed: a failed line is both stale and an error, and is
+	// listed (and counted) once.
 	bad := 0
-	for _, f := range rep.Files {
-		bad += len(f.Errors)
-		if !write {
-			bad += len(f.Stale)
+	if write {
+		for _, f := range rep.Files {
+			bad += len(f.Errors)
 		}
+	} else {
+		bad = len(rep.Lines()) - len(rep.Failures)
 	}
 	if write {
 		for _, p := range rep.Written {
@@ -403,6 +406,15 @@ func runEval(c *cli, args []string) int {
 		return 0
 	}
 	fmt.Fprintln(c.out, compute.ResultOf(v).Display)
+	return 0
+}
+
+func runVersion(c *cli, args []string) int {
+	pos, err := parse(c.flags("version"), args)
+	if err != nil || len(pos) > 0 {
+		return c.usageErr("version", flagMsg(err, "takes no arguments"))
+	}
+	fmt.Fprintln(c.out, "cleave", version)
 	return 0
 }
 

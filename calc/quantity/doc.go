@@ -69,6 +69,9 @@
 //     the value rounded to the same decimal place, separated by " ± ":
 //     "12.50 ± 0.20 um", or with a common power of ten when the larger of
 //     the two is at least 1e5 or below 1e-3: "(3.072 ± 0.041)e11 cm^-2";
+//   - a value whose relative uncertainty is below 1e-8 (one derived only from
+//     CODATA's measured constants, such as mu_B B) like an exact one, since
+//     its uncertainty would need a dozen digits; the uncertainty is kept;
 //   - non-finite values as Inf, -Inf, NaN.
 //
 // [ParseQuantity] reads all of these back (and "+/-" for "±"), so a

@@ -155,7 +155,9 @@ func FormatIn(q Quantity, u Unit) (string, error) {
 		return "", err
 	}
 	var num string
-	if sigma := fromSI(q.Uncertainty(), u.Scale); sigma == 0 || !q.HasUncertainty() {
+	// A relative uncertainty below 1e-8 (values derived only from CODATA's measured
+	// constants, e.g. mu_B B) would need a dozen digits; such values are shown as exact ones.
+	if sigma := fromSI(q.Uncertainty(), u.Scale); sigma == 0 || !q.HasUncertainty() || math.Abs(sigma) < 1e-8*math.Abs(v) {
 		num = formatExact(v)
 	} else {
 		num = formatUncertain(v, math.Abs(sigma))
