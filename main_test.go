@@ -218,6 +218,14 @@ func TestUsageErrors(t *testing.T) {
 		{"eval"},
 		{"tree", "a", "b"},
 		{"validate", "extra"},
+		{"version", "extra"},
+		{"init", "a", "b"},
+		{"demo", "a", "b"},
+		{"calc", "--bogus"},
+		{"check", "--bogus"},
+		{"eval", "--in"},
+		{"new", "piece", "P1", "--from"},
+		{"tree", "--bogus"},
 	} {
 		code, _, errs := cleave(t, args...)
 		if code != 2 {
@@ -284,6 +292,29 @@ func TestInitNewValidate(t *testing.T) {
 	}
 	if code, out, _ := cleave(t, "-C", dir, "tree", "W1"); code != 0 || !strings.Contains(out, "C1") {
 		t.Errorf("tree W1: exit %d, missing the cooldown:\n%s", code, out)
+	}
+	if code, _, errs := cleave(t, "-C", dir, "tree", "W9"); code != 1 || strings.Count(errs, "tree") != 1 || !strings.Contains(errs, `"W9"`) {
+		t.Errorf("tree of an unknown id: exit %d, stderr %q; want 1 and one mention of the command", code, errs)
+	}
+	// A piece or a device without --from would fail validation at once: new refuses it.
+	if code, _, errs := cleave(t, "-C", dir, "new", "device", "D3"); code != 1 || !strings.Contains(errs, "--from") {
+		t.Errorf("new device without --from: exit %d (%q), want 1 and a hint", code, errs)
+	}
+	// One failing line is one problem: it is stale and an error, listed once and counted once.
+	m := filepath.Join(dir, "masks", "M1.md")
+	mb, _ := os.ReadFile(m)
+	broken := strings.Replace(string(mb), "```calc\n", "```calc\nbad = 1 T + 1 K\n", 1)
+	if broken == string(mb) {
+		t.Fatal("the mask template has no calc block to break")
+	}
+	if err := os.WriteFile(m, []byte(broken), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, cmd := range []string{"check", "calc"} {
+		code, out, errs := cleave(t, "-C", dir, cmd)
+		if code != 1 || strings.Count(out, "error:") != 1 || !strings.Contains(out, "masks/M1.md:") || !strings.Contains(errs, " 1 problem(s)") {
+			t.Errorf("%s with one failing line: exit %d, want 1, one line and a count of 1:\n%s%s", cmd, code, out, errs)
+		}
 	}
 }
 

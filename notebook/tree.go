@@ -54,7 +54,7 @@ func (nb *Notebook) Tree(w io.Writer, id string) error {
 	}
 	e, ok := nb.byID[id]
 	if !ok {
-		return fmt.Errorf("tree: no entry has id %q", id)
+		return fmt.Errorf("no entry has id %q", id)
 	}
 	// The chain of first parents, farthest first.
 	var chain []*Entry
