@@ -16,7 +16,7 @@ import (
 
 // CacheVersion is mixed into every cache key and written into every entry.
 // Change it whenever the meaning of a cached entry changes.
-const CacheVersion = "cleave-calc-cache 1"
+const CacheVersion = "cleave-calc-cache 2"
 
 // Cache is a directory of results keyed by SHA-256 hex strings. It is safe
 // for use by several processes at once: entries are written to a temporary
@@ -94,7 +94,7 @@ func (c *Cache) Get(key string) ([]string, bool) {
 	if !validKey(key) {
 		return nil, false
 	}
-	data, err := os.ReadFile(c.path(key))
+	data, err := ReadFile(c.path(key))
 	if err != nil {
 		return nil, false
 	}
@@ -242,22 +242,31 @@ func countCode(blocks []Block) int {
 	return n
 }
 
+// A file's cache entry sits under its text key and holds, in order: the
+// full key its results were computed under, the number of dependencies,
+// the dependencies, and the encoded results. One read answers a lookup: the
+// dependencies' current values give the full key, which must match.
+
 // lookup returns cached results for the file's code lines, or nil.
 func lookup(opt Options, path string, blocks []Block) []cached {
 	if opt.Cache == nil || opt.Resolve == nil {
 		return nil
 	}
 	tk := textKey(opt, path, blocks)
-	deps, ok := opt.Cache.Get(tk)
-	if !ok {
+	ent, ok := opt.Cache.Get(tk)
+	if !ok || len(ent) < 2 {
+		return nil
+	}
+	n, err := strconv.Atoi(ent[1])
+	if err != nil || n < 0 || n > len(ent)-2 {
+		return nil
+	}
+	deps, enc := ent[2:2+n], ent[2+n:]
+	if len(enc) != countCode(blocks) {
 		return nil
 	}
 	fk, ok := fullKey(opt, tk, deps)
-	if !ok {
-		return nil
-	}
-	enc, ok := opt.Cache.Get(fk)
-	if !ok || len(enc) != countCode(blocks) {
+	if !ok || fk != ent[0] {
 		return nil
 	}
 	rs, ok := decodeResults(enc)
@@ -278,8 +287,9 @@ func store(opt Options, path string, blocks []Block, deps []string, rs []cached)
 	if !ok {
 		return
 	}
-	if opt.Cache.Put(fk, encodeResults(rs)) != nil {
-		return
-	}
-	_ = opt.Cache.Put(tk, append([]string{}, deps...))
+	ent := make([]string, 0, 2+len(deps)+len(rs))
+	ent = append(ent, fk, strconv.Itoa(len(deps)))
+	ent = append(ent, deps...)
+	ent = append(ent, encodeResults(rs)...)
+	_ = opt.Cache.Put(tk, ent)
 }

@@ -88,13 +88,25 @@ func Recompute(path string, raw []byte, ev Evaluator) (*FileReport, error) {
 
 // RecomputeWith is [Recompute] with a cache.
 func RecomputeWith(path string, raw []byte, ev Evaluator, opt Options) (*FileReport, error) {
-	rep := &FileReport{Path: path, NewBytes: raw}
 	s, perr := mdsrc.Parse(raw)
-	if perr != nil {
-		var pe *mdsrc.PosError
-		if !errors.As(perr, &pe) {
-			return nil, fmt.Errorf("%s: %w", path, perr)
-		}
+	return RecomputeParsed(path, s, perr, ev, opt)
+}
+
+// RecomputeParsed is [RecomputeWith] for a file already parsed: s and perr
+// are what mdsrc.Parse returned for it (s must not be nil). It saves a second
+// Markdown parse when the caller has loaded the notebook. s is only read, so
+// files may be recomputed in parallel.
+func RecomputeParsed(path string, s *mdsrc.Source, perr error, ev Evaluator, opt Options) (*FileReport, error) {
+	var pe *mdsrc.PosError
+	if perr != nil && !errors.As(perr, &pe) {
+		return nil, fmt.Errorf("%s: %w", path, perr)
+	}
+	if s == nil {
+		return nil, fmt.Errorf("%s: no parsed source", path)
+	}
+	raw := s.Raw
+	rep := &FileReport{Path: path, NewBytes: raw}
+	if pe != nil {
 		rep.Errors = append(rep.Errors, Change{Path: path, Line: pe.Line, New: "error: " + pe.Msg})
 	}
 	blocks, err := Find(s)

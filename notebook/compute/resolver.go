@@ -9,6 +9,8 @@ import (
 	"cleave/calc/physics"
 	"cleave/calc/quantity"
 	"cleave/notebook"
+
+	"go.yaml.in/yaml/v3"
 )
 
 // resolver answers the names of DESIGN's field access for one entry (see the package doc).
@@ -63,16 +65,8 @@ func (r *resolver) lookup(name string) calc.Value {
 // geometry is the Hall-bar geometry calculations use: the device's as-built width and
 // probes where given, otherwise the mask's drawn ones.
 func (r *resolver) geometry() (*calc.Record, error) {
-	dev, hasDev := r.nb.Nearest(r.e, notebook.KindDevice)
-	var mask *notebook.Entry
-	if hasDev {
-		if id, ok := dev.Text("mask"); ok && id != "" {
-			mask, _ = r.nb.Entry(id)
-		}
-	}
-	if mask == nil {
-		mask, _ = r.nb.Nearest(r.e, notebook.KindMask)
-	}
+	src := geometrySources(r.nb, r.e)
+	dev, hasDev, mask := src.dev, src.hasDev, src.mask
 	if mask == nil && !hasDev {
 		return nil, errors.New("geometry: no device or mask in this entry's lineage")
 	}
@@ -94,6 +88,30 @@ func (r *resolver) geometry() (*calc.Record, error) {
 		pick(f)
 	}
 	return g, nil
+}
+
+// geomSources names the entries the geometry of an entry is read from: the nearest device
+// (with its as-built map, nil when it has none) and the mask.
+type geomSources struct {
+	dev     *notebook.Entry
+	hasDev  bool
+	asBuilt *yaml.Node
+	mask    *notebook.Entry
+}
+
+func geometrySources(nb *notebook.Notebook, e *notebook.Entry) geomSources {
+	var g geomSources
+	g.dev, g.hasDev = nb.Nearest(e, notebook.KindDevice)
+	if g.hasDev {
+		if id, ok := g.dev.Text("mask"); ok && id != "" {
+			g.mask, _ = nb.Entry(id)
+		}
+		g.asBuilt, _ = g.dev.Field("as_built")
+	}
+	if g.mask == nil {
+		g.mask, _ = nb.Nearest(e, notebook.KindMask)
+	}
+	return g
 }
 
 // hallBar builds the physics model of the geometry record.

@@ -2,20 +2,22 @@ package compute
 
 import (
 	"bytes"
-	"crypto/sha256"
-	"encoding/hex"
 	"errors"
 	"fmt"
 	"io/fs"
 	"os"
 	"path"
 	"path/filepath"
+	"runtime"
 	"sort"
 	"strings"
+	"sync"
+	"sync/atomic"
 
 	"cleave/calc"
 	"cleave/notebook"
 	"cleave/notebook/calcblock"
+	"cleave/notebook/mdsrc"
 )
 
 // Version is mixed into every cache key (with a hash of the executable, see engineSalt), so
@@ -75,9 +77,11 @@ func (r *Report) Lines() []string {
 }
 
 // Run evaluates the calc blocks of the notebook rooted at root (see Options). The notebook
-// is loaded once; every file is evaluated even when others fail.
+// is loaded once; every file is evaluated even when others fail. Files are evaluated in
+// parallel, each with its own environment (the notebook is only read); the report lists them
+// in path order, and with Write they are rewritten in that order once all are evaluated.
 func Run(root string, nb *notebook.Notebook, opt Options) (*Report, error) {
-	fsys := os.DirFS(root)
+	fsys := newDirFS(root)
 	if nb == nil {
 		var err error
 		nb, err = notebook.Load(fsys)
@@ -95,12 +99,42 @@ func Run(root string, nb *notebook.Notebook, opt Options) (*Report, error) {
 	if err != nil {
 		return nil, err
 	}
-	rep := &Report{}
+	var todo []*notebook.File
 	for _, f := range nb.Files {
-		if !sel(f.Path) || !hasCalcFence(f.Src.Raw) {
-			continue
+		if sel(f.Path) && hasCalcFence(f.Src.Raw) {
+			todo = append(todo, f)
 		}
-		fr, err := runFile(root, fsys, nb, f, cache)
+	}
+	type outcome struct {
+		fr  *calcblock.FileReport
+		err error
+	}
+	out := make([]outcome, len(todo))
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(runtime.GOMAXPROCS(0), len(todo)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			var deps *depResolver
+			if cache != nil {
+				deps = newDepResolver(fsys, nb)
+			}
+			for {
+				i := int(next.Add(1)) - 1
+				if i >= len(todo) {
+					return
+				}
+				fr, err := runFile(fsys, nb, todo[i], cache, deps)
+				out[i] = outcome{fr, err}
+			}
+		}()
+	}
+	wg.Wait()
+
+	rep := &Report{}
+	for i, f := range todo {
+		fr, err := out[i].fr, out[i].err
 		if err != nil {
 			rep.Failures = append(rep.Failures, err)
 			continue
@@ -141,9 +175,17 @@ func newEnvDepth(fsys fs.FS, nb *notebook.Notebook, f *notebook.File, depth int)
 	return env
 }
 
-type evaluator struct{ env *calc.Env }
+// evaluator evaluates a file's lines in an environment made on the first line, so that a
+// file answered from the cache never builds one.
+type evaluator struct {
+	make func() *calc.Env
+	env  *calc.Env
+}
 
-func (ev evaluator) EvalLine(code string, lineNo int) (string, error) {
+func (ev *evaluator) EvalLine(code string, lineNo int) (string, error) {
+	if ev.env == nil {
+		ev.env = ev.make()
+	}
 	res := ev.env.EvalLine(code, lineNo)
 	if res.Err != nil {
 		return "", res.Err
@@ -151,79 +193,34 @@ func (ev evaluator) EvalLine(code string, lineNo int) (string, error) {
 	return res.Display, nil
 }
 
-func (ev evaluator) Deps() []string { return ev.env.Deps() }
-
-func runFile(root string, fsys fs.FS, nb *notebook.Notebook, f *notebook.File, cache *calcblock.Cache) (*calcblock.FileReport, error) {
-	env := NewEnv(fsys, nb, f)
-	opt := calcblock.Options{Cache: cache, Salt: engineSalt()}
-	if cache != nil {
-		// The dependency values must be computed in a fresh environment: the cache asks for
-		// them before anything is evaluated.
-		depEnv := NewEnv(fsys, nb, f)
-		opt.Resolve = func(dep string) (string, error) { return depValue(fsys, nb, depEnv, dep) }
+func (ev *evaluator) Deps() []string {
+	if ev.env == nil {
+		return nil
 	}
-	return calcblock.RecomputeWith(f.Path, f.Src.Raw, evaluator{env}, opt)
+	return ev.env.Deps()
 }
 
-// depValue is the current value of a dependency reported by calc.Env.Deps: a field's
-// displayed value, or a data file's content hash.
-func depValue(fsys fs.FS, nb *notebook.Notebook, env *calc.Env, dep string) (string, error) {
-	switch {
-	case strings.HasPrefix(dep, "entry:"):
-		// "entry:<id>:<dep>": a dependency of another entry that a scorecard evaluated.
-		rest := strings.TrimPrefix(dep, "entry:")
-		i := strings.Index(rest, ":")
-		if i < 0 {
-			return "", fmt.Errorf("bad dependency %q", dep)
-		}
-		e, ok := nb.Entry(rest[:i])
-		if !ok {
-			return "", fmt.Errorf("dependency %q: no entry %s", dep, rest[:i])
-		}
-		f, ok := nb.File(e.Path)
-		if !ok {
-			return "", fmt.Errorf("dependency %q: no file for %s", dep, rest[:i])
-		}
-		return depValue(fsys, nb, NewEnv(fsys, nb, f), rest[i+1:])
-	case strings.HasPrefix(dep, "lineage:"):
-		// "lineage:<id>": the cooldowns that measured devices cut from that entry.
-		e, ok := nb.Entry(strings.TrimPrefix(dep, "lineage:"))
-		if !ok {
-			return "", fmt.Errorf("dependency %q: no such entry", dep)
-		}
-		var ids []string
-		for _, c := range newResolver(fsys, nb, e, 0).measuredBy() {
-			ids = append(ids, c.ID)
-		}
-		return strings.Join(ids, ","), nil
-	case strings.HasPrefix(dep, "field:@"):
-		// "field:@<id>.<field>": a front-matter field of another entry.
-		rest := strings.TrimPrefix(dep, "field:@")
-		id, field, _ := strings.Cut(rest, ".")
-		e, ok := nb.Entry(id)
-		if !ok {
-			return "", fmt.Errorf("dependency %q: no entry %s", dep, id)
-		}
-		n, ok := e.Field(field)
-		if !ok {
-			return "", nil
-		}
-		return calc.Display(nodeValue(n, field)), nil
-	case strings.HasPrefix(dep, "field:"):
-		v, err := env.Eval(strings.TrimPrefix(dep, "field:"))
-		if err != nil {
-			return "", err
-		}
-		return calc.Display(v), nil
-	case strings.HasPrefix(dep, "file:"):
-		b, err := fs.ReadFile(fsys, strings.TrimPrefix(dep, "file:"))
-		if err != nil {
-			return "", err
-		}
-		sum := sha256.Sum256(b)
-		return "sha256:" + hex.EncodeToString(sum[:]), nil
+// runFile recomputes one file; deps (nil without a cache) is the calling worker's.
+func runFile(fsys fs.FS, nb *notebook.Notebook, f *notebook.File, cache *calcblock.Cache, deps *depResolver) (*calcblock.FileReport, error) {
+	ev := &evaluator{make: func() *calc.Env { return NewEnv(fsys, nb, f) }}
+	opt := calcblock.Options{Cache: cache, Salt: engineSalt()}
+	if cache != nil {
+		opt.Resolve = func(dep string) (string, error) { return deps.value(f.Entry, dep) }
 	}
-	return "", fmt.Errorf("unknown dependency %q", dep)
+	if perr, ok := parseError(f.Src); ok {
+		return calcblock.RecomputeParsed(f.Path, f.Src, perr, ev, opt)
+	}
+	// Front matter that did not close: parse again to get the error the report shows.
+	return calcblock.RecomputeWith(f.Path, f.Src.Raw, ev, opt)
+}
+
+// parseError returns the error mdsrc.Parse gave for src when it is known to be nil: the
+// front matter closed, or the file does not open with a `---` line. ok is false otherwise.
+func parseError(src *mdsrc.Source) (error, bool) {
+	if src.HasFrontMatter {
+		return nil, true
+	}
+	return nil, !bytes.HasPrefix(src.Raw[src.BOM:], []byte("---"))
 }
 
 // selector returns a predicate over slash paths for the paths given on the command line.
