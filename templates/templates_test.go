@@ -9,6 +9,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"os"
+	"path"
 	"path/filepath"
 	"regexp"
 	"slices"
@@ -966,5 +967,27 @@ func TestCommentedExamplesUncomment(t *testing.T) {
 				}
 			}
 		}
+	}
+}
+
+// TestCooldownDataPaths: the data paths the cooldown template suggests, taken relative
+// to the entry in cooldowns/ as data("…") takes them, land in the notebook's data/ folder
+// that `cleave init` creates (a folder per cooldown), not in a cooldowns/data/ nobody made.
+func TestCooldownDataPaths(t *testing.T) {
+	b, err := Render(nil, "cooldown", Data{Kind: "cooldown", ID: "CD-7", Date: "2025-03-20"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	re := regexp.MustCompile(`data\("([^"]+)"\)|file: (\S+)`)
+	found := 0
+	for _, m := range re.FindAllStringSubmatch(string(b), -1) {
+		p := m[1] + m[2]
+		found++
+		if got := path.Join("cooldowns", p); !strings.HasPrefix(got, "data/CD-7/") {
+			t.Errorf("template path %q resolves to %s from cooldowns/, want data/CD-7/…", p, got)
+		}
+	}
+	if found < 2 {
+		t.Errorf("found %d data paths in the cooldown template, want the data: example and the data(...) example", found)
 	}
 }
