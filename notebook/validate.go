@@ -67,8 +67,13 @@ func (nb *Notebook) Validate() []Problem {
 			n, ok := e.Field(f.Name)
 			if !ok {
 				if f.Required {
-					l, _ := e.Pos(e.Meta)
-					add(e.Path, max(l-1, 1), 1, "missing `%s:` (%s: the id of a %s)", f.Name, f.Doc, orKinds(f.Kinds))
+					if k := metaKey(e, f.Name); k != nil { // written but left empty
+						l, c := e.Pos(k)
+						add(e.Path, l, c, "`%s:` is empty: expected the id of a %s (%s)", f.Name, orKinds(f.Kinds), f.Doc)
+					} else {
+						l, _ := e.Pos(e.Meta)
+						add(e.Path, max(l-1, 1), 1, "missing `%s:` (%s: the id of a %s)", f.Name, f.Doc, orKinds(f.Kinds))
+					}
 				}
 				continue
 			}
@@ -271,4 +276,18 @@ func checkQuantity(e *Entry, v *yaml.Node, f Field, name string) []Problem {
 		return bad("expected %s with a unit, e.g. `%s`", want, f.Example)
 	}
 	return bad("%q is %s, expected %s, e.g. `%s`", v.Value, dimName(qv.Dim()), want, f.Example)
+}
+
+// metaKey returns the key node of a top-level front-matter field, or nil.
+func metaKey(e *Entry, name string) *yaml.Node {
+	m := deref(e.Meta)
+	if m == nil || m.Kind != yaml.MappingNode {
+		return nil
+	}
+	for i := 0; i+1 < len(m.Content); i += 2 {
+		if m.Content[i].Value == name {
+			return m.Content[i]
+		}
+	}
+	return nil
 }
