@@ -10,8 +10,10 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"sort"
 	"strconv"
 	"strings"
+	"sync"
 )
 
 // CacheVersion is mixed into every cache key and written into every entry.
@@ -20,9 +22,22 @@ const CacheVersion = "cleave-calc-cache 2"
 
 // Cache is a directory of results keyed by SHA-256 hex strings. It is safe
 // for use by several processes at once: entries are written to a temporary
-// file and renamed into place, and a damaged entry reads as a miss.
+// file and renamed into place, and a damaged entry reads as a miss. One
+// Cache may be used by several goroutines.
+//
+// Besides one file per entry, the directory holds a pack: a copy of the
+// entries one session used, in a single file, written by [Cache.Flush] and
+// read at the first Get of the next session, so that a check of ten thousand
+// files reads one file instead of ten thousand. A packed entry is checked like
+// a file; the pack only saves reads, and deleting it changes no result.
 type Cache struct {
 	dir string
+
+	mu         sync.Mutex
+	packLoaded bool
+	pack       map[string][]byte // entries of the pack read at the first Get
+	used       map[string][]byte // entries read or written by this session
+	dirty      bool              // used differs from pack
 }
 
 // GitDir returns the git directory of the work tree rooted at root: root/.git
@@ -61,7 +76,7 @@ func OpenCache(gitDir string) (*Cache, error) {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return nil, fmt.Errorf("opening the calc cache: %w", err)
 	}
-	return &Cache{dir: dir}, nil
+	return &Cache{dir: dir, used: map[string][]byte{}}, nil
 }
 
 // Dir returns the directory holding the entries.
@@ -94,10 +109,44 @@ func (c *Cache) Get(key string) ([]string, bool) {
 	if !validKey(key) {
 		return nil, false
 	}
-	data, err := ReadFile(c.path(key))
-	if err != nil {
-		return nil, false
+	c.mu.Lock()
+	c.loadPack()
+	data, packed := c.pack[key]
+	c.mu.Unlock()
+	if !packed {
+		var err error
+		if data, err = ReadFile(c.path(key)); err != nil {
+			return nil, false
+		}
 	}
+	out, ok := decodeEntry(key, data)
+	if !ok && packed {
+		// A damaged packed entry: the entry's own file may still be good.
+		packed = false
+		if fileData, err := ReadFile(c.path(key)); err == nil {
+			data = fileData
+			out, ok = decodeEntry(key, data)
+		}
+	}
+	if ok {
+		c.remember(key, data, !packed)
+	}
+	return out, ok
+}
+
+// remember notes an entry this session used, for Flush.
+func (c *Cache) remember(key string, data []byte, changed bool) {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if c.used == nil {
+		c.used = map[string][]byte{}
+	}
+	c.used[key] = data
+	c.dirty = c.dirty || changed
+}
+
+// decodeEntry checks and decodes the content of an entry file.
+func decodeEntry(key string, data []byte) ([]string, bool) {
 	header, rest, ok := bytes.Cut(data, []byte("\n"))
 	if !ok || string(header) != CacheVersion {
 		return nil, false
@@ -146,6 +195,89 @@ func (c *Cache) Put(key string, results []string) error {
 		os.Remove(f.Name())
 		return fmt.Errorf("calc cache: %w", err)
 	}
+	c.remember(key, buf.Bytes(), true)
+	return nil
+}
+
+const (
+	packName   = "pack"
+	packHeader = "cleave-calc-pack 1\n"
+)
+
+// loadPack reads the pack once; a missing or damaged pack (or the damaged
+// rest of one) holds no entries. c.mu must be held.
+func (c *Cache) loadPack() {
+	if c.packLoaded {
+		return
+	}
+	c.packLoaded = true
+	c.pack = map[string][]byte{}
+	data, err := os.ReadFile(filepath.Join(c.dir, packName)) // one large file: os.ReadFile sizes its buffer
+	if err != nil {
+		return
+	}
+	rest, ok := bytes.CutPrefix(data, []byte(packHeader))
+	if !ok {
+		return
+	}
+	// Each entry: the key, a blank, the length of the content in bytes, a
+	// line feed, the content.
+	for len(rest) > 0 {
+		line, after, ok := bytes.Cut(rest, []byte("\n"))
+		if !ok {
+			return
+		}
+		key, size, ok := bytes.Cut(line, []byte(" "))
+		n, err := strconv.Atoi(string(size))
+		if !ok || err != nil || n < 0 || n > len(after) || !validKey(string(key)) {
+			return
+		}
+		c.pack[string(key)] = after[:n:n]
+		rest = after[n:]
+	}
+}
+
+// Flush writes the entries this session read or wrote as the pack, if they
+// differ from the pack it found. Like Put, it may fail without harm.
+func (c *Cache) Flush() error {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	c.loadPack()
+	if !c.dirty && len(c.used) == len(c.pack) {
+		return nil
+	}
+	keys := make([]string, 0, len(c.used))
+	size := len(packHeader)
+	for k, v := range c.used {
+		keys = append(keys, k)
+		size += len(k) + len(v) + 24
+	}
+	sort.Strings(keys)
+	buf := make([]byte, 0, size)
+	buf = append(buf, packHeader...)
+	for _, k := range keys {
+		buf = append(buf, k...)
+		buf = append(buf, ' ')
+		buf = strconv.AppendInt(buf, int64(len(c.used[k])), 10)
+		buf = append(buf, '\n')
+		buf = append(buf, c.used[k]...)
+	}
+	f, err := os.CreateTemp(c.dir, ".tmp-pack-*")
+	if err != nil {
+		return fmt.Errorf("calc cache: %w", err)
+	}
+	_, werr := f.Write(buf)
+	cerr := f.Close()
+	if err := errors.Join(werr, cerr); err != nil {
+		os.Remove(f.Name())
+		return fmt.Errorf("calc cache: %w", err)
+	}
+	if err := os.Rename(f.Name(), filepath.Join(c.dir, packName)); err != nil {
+		os.Remove(f.Name())
+		return fmt.Errorf("calc cache: %w", err)
+	}
+	c.pack, c.dirty = c.used, false
+	c.used = make(map[string][]byte, len(c.pack))
 	return nil
 }
 

@@ -8,7 +8,8 @@ import (
 )
 
 // ReadFile reads the whole named file, like os.ReadFile, with fewer system
-// calls: open, read until end of file, close. os.ReadFile also sets and
+// calls: open, read until end of file, close (and one fstat for a file larger
+// than 4 KiB). os.ReadFile also sets and
 // clears non-blocking mode, tries the network poller and asks for the size,
 // which on a virtual machine costs more than the read itself when a check
 // reads ten thousand small files.
@@ -26,9 +27,19 @@ func ReadFile(name string) ([]byte, error) {
 	}
 	defer syscall.Close(fd)
 	buf := make([]byte, 0, 4096)
+	sized := false
 	for {
 		if len(buf) == cap(buf) {
-			buf = append(buf, 0)[:len(buf)]
+			// More than a small file: ask for the size once, then grow by doubling.
+			want := 2 * cap(buf)
+			var st syscall.Stat_t
+			if !sized && syscall.Fstat(fd, &st) == nil && int(st.Size) >= cap(buf) {
+				want = int(st.Size) + 512
+			}
+			sized = true
+			nb := make([]byte, len(buf), want)
+			copy(nb, buf)
+			buf = nb
 		}
 		n, err := syscall.Read(fd, buf[len(buf):cap(buf)])
 		if err == syscall.EINTR {

@@ -171,3 +171,104 @@ func TestGitDir(t *testing.T) {
 		t.Error("GitDir without .git: want an error")
 	}
 }
+
+// TestCachePack checks that the entries a session used come back from the pack alone, that
+// a damaged pack or packed entry falls back to the entry files, and that a session using
+// fewer entries writes a smaller pack.
+func TestCachePack(t *testing.T) {
+	gitDir := t.TempDir()
+	c, err := OpenCache(gitDir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	keys := []string{strings.Repeat("a1", 32), strings.Repeat("b2", 32), strings.Repeat("c3", 32)}
+	for i, k := range keys {
+		if err := c.Put(k, []string{"=" + strings.Repeat("x", i)}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := c.Flush(); err != nil {
+		t.Fatal(err)
+	}
+	packPath := filepath.Join(c.Dir(), packName)
+	packed, err := os.ReadFile(packPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Without the entry files, a new session reads every entry from the pack.
+	for _, k := range keys {
+		if err := os.Remove(c.path(k)); err != nil {
+			t.Fatal(err)
+		}
+	}
+	c2, _ := OpenCache(gitDir)
+	for i, k := range keys {
+		got, ok := c2.Get(k)
+		if !ok || len(got) != 1 || got[0] != "="+strings.Repeat("x", i) {
+			t.Fatalf("Get(%s) from the pack = %q, %v", k[:4], got, ok)
+		}
+	}
+	// Nothing changed: Flush leaves the pack as it was.
+	if err := c2.Flush(); err != nil {
+		t.Fatal(err)
+	}
+	if again, _ := os.ReadFile(packPath); !bytes.Equal(again, packed) {
+		t.Error("an unchanged session rewrote the pack")
+	}
+	// A session that uses one entry keeps only that one.
+	c3, _ := OpenCache(gitDir)
+	if _, ok := c3.Get(keys[1]); !ok {
+		t.Fatal("miss after reopening")
+	}
+	if err := c3.Flush(); err != nil {
+		t.Fatal(err)
+	}
+	c4, _ := OpenCache(gitDir)
+	if _, ok := c4.Get(keys[0]); ok {
+		t.Error("an entry the last session did not use is still packed")
+	}
+	if _, ok := c4.Get(keys[1]); !ok {
+		t.Error("the entry the last session used is not packed")
+	}
+
+	// Damage: a flipped byte inside a packed entry fails its checksum, and the entry's own
+	// file answers; a truncated or foreign pack is read up to the damage; none panics.
+	if err := c.Put(keys[2], []string{"=file"}); err != nil {
+		t.Fatal(err)
+	}
+	bad := bytes.Replace(packed, []byte(`["=xx"]`), []byte(`["=yy"]`), 1)
+	if bytes.Equal(bad, packed) {
+		t.Fatal("test pack does not hold the expected entry")
+	}
+	for _, p := range [][]byte{bad, packed[:len(packed)/2], []byte("not a pack"), nil} {
+		if err := os.WriteFile(packPath, p, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		c5, _ := OpenCache(gitDir)
+		if got, ok := c5.Get(keys[2]); !ok || got[0] != "=file" {
+			t.Errorf("damaged pack %q...: Get = %q, %v; want the file's entry", firstBytes(p), got, ok)
+		}
+	}
+}
+
+func firstBytes(b []byte) []byte { return b[:min(len(b), 20)] }
+
+// TestReadFile compares ReadFile with os.ReadFile on files around the sizes where its buffer
+// grows, and on a missing file.
+func TestReadFile(t *testing.T) {
+	dir := t.TempDir()
+	for _, n := range []int{0, 1, 4095, 4096, 4097, 8192, 100000, 1 << 20} {
+		p := filepath.Join(dir, "f")
+		want := bytes.Repeat([]byte("0123456789abcdef"), n/16+1)[:n]
+		if err := os.WriteFile(p, want, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		got, err := ReadFile(p)
+		if err != nil || !bytes.Equal(got, want) {
+			t.Errorf("size %d: got %d bytes, %v", n, len(got), err)
+		}
+	}
+	if _, err := ReadFile(filepath.Join(dir, "missing")); !errors.Is(err, os.ErrNotExist) {
+		t.Errorf("missing file: %v, want not exist", err)
+	}
+}

@@ -131,6 +131,9 @@ func Run(root string, nb *notebook.Notebook, opt Options) (*Report, error) {
 		}()
 	}
 	wg.Wait()
+	if cache != nil {
+		_ = cache.Flush() // the pack only saves reads next time
+	}
 
 	rep := &Report{}
 	for i, f := range todo {
