@@ -194,8 +194,9 @@ func (s *Source) Masked() []byte { return s.masked }
 // Pos converts a byte offset into Raw to a 1-based line and a 1-based column
 // counted in characters (runes) from the start of the line; a BOM is not
 // counted. Offsets outside [0, len(Raw)] are clamped to that range. An offset
-// in the middle of a multibyte character counts each byte before it on the
-// line that does not complete a character as one column.
+// in the middle of a multibyte character gives that character's column; a
+// byte that is not part of valid UTF-8 counts as one column, as in
+// [utf8.RuneCount], so no column is past the end of its line.
 func (s *Source) Pos(off int) (line, col int) {
 	if off < 0 {
 		off = 0
@@ -208,7 +209,15 @@ func (s *Source) Pos(off int) (line, col int) {
 	if li == 0 && s.BOM > 0 {
 		start = min(s.BOM, off)
 	}
-	return li + 1, utf8.RuneCount(s.Raw[start:off]) + 1
+	col = 1
+	for i := start; i < off; col++ {
+		_, n := utf8.DecodeRune(s.Raw[i:])
+		if i+n > off {
+			break // off is inside this character
+		}
+		i += n
+	}
+	return li + 1, col
 }
 
 // LineStart returns the offset of the first byte of the 1-based line n, or -1

@@ -221,6 +221,8 @@ func TestPos(t *testing.T) {
 		{"newline of line 1", 5, 1, 3},
 		{"µ", 6, 2, 1},
 		{"≈", 8, 2, 2},
+		{"inside µ", 7, 2, 1},
+		{"inside ≈", 10, 2, 2},
 		{"x", 11, 2, 3},
 		{"CR", 12, 2, 4},
 		{"empty line", 14, 3, 1},
