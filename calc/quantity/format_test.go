@@ -322,7 +322,14 @@ func checkRoundTrip(t *testing.T, q Quantity) {
 	u := q.Uncertainty()
 	// Exact: 5 significant figures, so half a unit in the 5th digit.
 	tol := 5e-5 * math.Abs(v) * 1.0000001
-	if q.HasUncertainty() {
+	cu := Customary(q)
+	if q.HasUncertainty() && fromSI(u, cu.Scale) < 1e-8*math.Abs(fromSI(v, cu.Scale)) {
+		// A relative uncertainty below 1e-8 is written like an exact value
+		// (see the package documentation): the text carries no uncertainty.
+		if p.HasUncertainty() {
+			t.Fatalf("%q: relative uncertainty %g printed, want an exact-looking value", s, u/math.Abs(v))
+		}
+	} else if q.HasUncertainty() {
 		// The value is rounded to the last digit of a 2-digit uncertainty:
 		// at most 0.05 u (plus 0.5e-16 |v| for binary rounding).
 		tol = max(0.051*u, tol*(u/math.Abs(v))) + 1e-15*math.Abs(v)
