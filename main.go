@@ -345,7 +345,7 @@ func (c *cli) recompute(name string, args []string, write bool) int {
 		}
 		for _, f := range rep.Files {
 			for _, ch := range f.Errors {
-				fmt.Fprintf(c.out, "%s:%d: %s\n", ch.Path, ch.Line, ch.New)
+				fmt.Fprintln(c.out, compute.ErrorLine(ch))
 			}
 		}
 	} else {

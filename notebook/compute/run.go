@@ -8,8 +8,10 @@ import (
 	"os"
 	"path"
 	"path/filepath"
+	"regexp"
 	"runtime"
 	"sort"
+	"strconv"
 	"strings"
 	"sync"
 	"sync/atomic"
@@ -64,10 +66,13 @@ func (r *Report) Lines() []string {
 	var out []string
 	for _, f := range r.Files {
 		for _, c := range f.Stale {
+			if calcblock.IsError(c.New) {
+				continue // listed with the errors below, with its column
+			}
 			out = append(out, c.String())
 		}
 		for _, c := range f.Errors {
-			out = append(out, fmt.Sprintf("%s:%d: %s", c.Path, c.Line, c.New))
+			out = append(out, ErrorLine(c))
 		}
 	}
 	for _, err := range r.Failures {
@@ -255,4 +260,16 @@ func selector(root string, paths []string) (func(string) bool, error) {
 		}
 		return false
 	}, nil
+}
+
+// errPos matches the start of an error result: "error: 13:11: message".
+var errPos = regexp.MustCompile(`^error: (\d+):(\d+): `)
+
+// ErrorLine formats a failed line as `path:line:col: error: message`, taking the column
+// from the evaluator's message when it has one.
+func ErrorLine(c calcblock.Change) string {
+	if m := errPos.FindStringSubmatch(c.New); m != nil && m[1] == strconv.Itoa(c.Line) {
+		return fmt.Sprintf("%s:%d:%s: error: %s", c.Path, c.Line, m[2], c.New[len(m[0]):])
+	}
+	return fmt.Sprintf("%s:%d: %s", c.Path, c.Line, c.New)
 }
