@@ -199,3 +199,30 @@ func TestCacheMissOnAncestorEdit(t *testing.T) {
 		t.Errorf("stale after the mask edit: %v, want %s", stale, want)
 	}
 }
+
+// TestCacheFollowsIdentity: an entry that loses its id (becoming a note whose names resolve
+// to nothing) and gets it back must not keep the errors cached in between.
+func TestCacheFollowsIdentity(t *testing.T) {
+	root := testNotebook(t)
+	if _, err := Run(root, nil, Options{Write: true}); err != nil {
+		t.Fatal(err)
+	}
+	mask := filepath.Join(root, "masks", "M1.md")
+	good, _ := os.ReadFile(mask)
+	if err := os.WriteFile(mask, bytes.Replace(good, []byte("id: M1"), []byte("idx: M1"), 1), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if rep, err := Run(root, nil, Options{}); err != nil || rep.OK() {
+		t.Fatalf("check without the mask's id: err %v, ok %v; want failures", err, rep != nil && rep.OK())
+	}
+	if err := os.WriteFile(mask, good, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	rep, err := Run(root, nil, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !rep.OK() {
+		t.Errorf("check after restoring the id still fails: %v", rep.Lines())
+	}
+}

@@ -2,6 +2,8 @@ package compute
 
 import (
 	"bytes"
+	"crypto/sha256"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -211,7 +213,14 @@ func (ev *evaluator) Deps() []string {
 // runFile recomputes one file; deps (nil without a cache) is the calling worker's.
 func runFile(fsys fs.FS, nb *notebook.Notebook, f *notebook.File, cache *calcblock.Cache, deps *depResolver) (*calcblock.FileReport, error) {
 	ev := &evaluator{make: func() *calc.Env { return NewEnv(fsys, nb, f) }}
-	opt := calcblock.Options{Cache: cache, Salt: engineSalt()}
+	// The file's own front matter decides what its names mean (its kind, id and links), even
+	// where no line reads a field: it salts the file's cache keys.
+	salt := engineSalt()
+	if f.Src.HasFrontMatter {
+		sum := sha256.Sum256(f.Src.Raw[f.Src.FrontMatter.Start:f.Src.FrontMatter.End])
+		salt += " " + hex.EncodeToString(sum[:8])
+	}
+	opt := calcblock.Options{Cache: cache, Salt: salt}
 	if cache != nil {
 		opt.Resolve = func(dep string) (string, error) { return deps.value(f.Entry, dep) }
 	}
