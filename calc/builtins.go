@@ -182,6 +182,9 @@ func (e *Env) OpenData(p string) (Value, error) {
 	if DataLoader != nil {
 		v, err := DataLoader(name, strings.NewReader(string(b)))
 		if err != nil {
+			if strings.Contains(err.Error(), name) {
+				return nil, err // the reader's message already names the file and position
+			}
 			return nil, fmt.Errorf("data file %s: %w", name, err)
 		}
 		return v, nil

@@ -109,7 +109,10 @@ func parseUnitAt(text string, p Pos) (quantity.Unit, error) {
 	if errors.As(err, &ue) {
 		off := min(max(ue.Offset, 0), len(text))
 		col += utf8.RuneCountInString(text[:off])
-		msg = "in unit \"" + text + "\": " + ue.Msg
+		msg = ue.Msg
+		if !strings.Contains(ue.Msg, "\""+text+"\"") {
+			msg = "in unit \"" + text + "\": " + ue.Msg
+		}
 	}
 	return quantity.Unit{}, &Error{Line: p.Line, Col: col, Msg: msg, Err: err}
 }

@@ -72,7 +72,7 @@ func fileEnv(root, inFile string) (*calc.Env, error) {
 	f, ok := nb.File(filepath.ToSlash(rel))
 	if !ok {
 		if _, err := fs.Stat(fsys, filepath.ToSlash(rel)); err != nil {
-			return nil, fmt.Errorf("%s: %w", inFile, err)
+			return nil, fmt.Errorf("%s: no such file in the notebook", inFile)
 		}
 		return nil, fmt.Errorf("%s: not a Markdown file of the notebook", inFile)
 	}
