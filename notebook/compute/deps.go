@@ -139,7 +139,9 @@ func (d *depResolver) compute(e *notebook.Entry, dep string) (string, error) {
 		v, err := d.env.Eval(strings.TrimPrefix(dep, "field:"))
 		d.cur.r = nil
 		if err != nil {
-			return "", err
+			// A name the entry does not have (yet) is a value too: the lines that read it
+			// failed, and stay failed until it appears, which changes this text.
+			return "no value: " + err.Error(), nil
 		}
 		return calc.Display(v), nil
 	case strings.HasPrefix(dep, "file:"):
