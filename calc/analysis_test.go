@@ -172,3 +172,58 @@ func TestAnalysisArgumentErrors(t *testing.T) {
 		}
 	}
 }
+
+// expected_density on a delta-doped stack like REFERENCE §5 row 25's example (Al0.3Ga0.7As,
+// a Si sheet 30 nm above the interface, here under a 60 nm barrier and cap with a pinned
+// surface): deeper donors leave fewer electrons in the well (REFERENCE §3.3: n falls as E_D'
+// rises), and the self-consistent and analytic densities stay within 10 % of each other.
+func TestExpectedDensityDonorDepth(t *testing.T) {
+	e := NewEnv()
+	stack := layerTable([][4]string{
+		{"cap", "GaAs", "10 nm", ""},
+		{"barrier", "Al0.3Ga0.7As", "50 nm", ""},
+		{"delta", "Al0.3Ga0.7As", "1 nm", "Si delta 2.5e12 cm^-2"},
+		{"spacer", "Al0.3Ga0.7As", "30 nm", ""},
+		{"channel", "GaAs", "400 nm", "C 1e14 cm^-3"},
+	})
+	e.Set("layers", stack)
+	prev := math.Inf(1)
+	for _, d := range []string{"0 eV", "0.05 eV", "0.1 eV", "0.15 eV"} {
+		v, err := e.Eval("expected_density(layers, donor_depth = " + d + ")")
+		if err != nil {
+			t.Fatalf("donor_depth %s: %v", d, err)
+		}
+		r := v.(*Result)
+		n := fieldValue(t, r, "n")
+		an := fieldValue(t, r, "analytic")
+		if !(n < prev) {
+			t.Errorf("donor_depth %s: n = %g, not below %g", d, n, prev)
+		}
+		if math.Abs(an/n-1) > 0.1 {
+			t.Errorf("donor_depth %s: analytic %g vs self-consistent %g", d, an, n)
+		}
+		prev = n
+	}
+	if _, err := e.Eval("expected_density(layers, donor_depth = -0.1 eV)"); err == nil {
+		t.Error("a negative donor depth was accepted")
+	}
+}
+
+// layerTable builds a layer table as the notebook gives it: rows with layer, material,
+// thickness and doping.
+func layerTable(rows [][4]string) List {
+	var l List
+	for _, r := range rows {
+		l = append(l, NewRecord("", "layer", String(r[0]), "material", String(r[1]), "thickness", String(r[2]), "doping", String(r[3])))
+	}
+	return l
+}
+
+func fieldValue(t *testing.T, r *Result, name string) float64 {
+	t.Helper()
+	v, ok := r.Field(name)
+	if !ok {
+		t.Fatalf("no field %s in %s", name, r.Display())
+	}
+	return v.(Quantity).Q.Value()
+}

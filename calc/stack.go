@@ -76,10 +76,11 @@ func textOf(v Value) string {
 func registerStack(e *Env) {
 	eV := quantity.MustUnit("eV")
 	e.Register(Func{Name: "expected_density",
-		Doc: "the 2D density a self-consistent Schrödinger–Poisson solution of the layer table expects (surface pinned at `barrier` below the conduction band, or a gate at `gate` volts), with the subbands and the analytic heterojunction estimate",
+		Doc: "the 2D density a self-consistent Schrödinger–Poisson solution of the layer table expects (surface pinned at `barrier` below the conduction band, or a gate at `gate` volts; donors shallow and hydrogenic unless `donor_depth` gives an effective deep level such as a DX centre), with the subbands and the analytic heterojunction estimate",
 		Params: []Param{{Name: "layers"}, {Name: "T", Default: Q(quantity.New(1.5, dTemp)), Dim: dimp(dTemp)},
 			{Name: "barrier", Default: Q(quantity.New(band.DefaultPinningEV, eV.D).Scale(eV.Scale)), Dim: dimp(eV.D)},
-			{Name: "gate", Default: String("none")}},
+			{Name: "gate", Default: String("none")},
+			{Name: "donor_depth", Default: Q(quantity.New(0, eV.D)), Dim: dimp(eV.D)}},
 		Call: func(_ *Env, a []Value) (Value, error) {
 			layers, err := stackArg(a, 0)
 			if err != nil {
@@ -98,7 +99,11 @@ func registerStack(e *Env) {
 				}
 				st.Surface.GateV = g.Q.Value()
 			}
-			res, err := band.Solve(st, band.Options{TemperatureK: qa(a, 1).Value()})
+			depth := qa(a, 4).Value() / eV.Scale
+			if depth < 0 {
+				return nil, &ArgError{Arg: 4, Err: fmt.Errorf("%w: donor_depth must be positive (an energy below the conduction band)", ErrArgument)}
+			}
+			res, err := band.Solve(st, band.Options{TemperatureK: qa(a, 1).Value(), DonorDepthEV: depth})
 			if err != nil {
 				var ce *band.ConvergenceError
 				if errors.As(err, &ce) {
@@ -106,12 +111,12 @@ func registerStack(e *Env) {
 				}
 				return nil, err
 			}
-			return bandValue(st, res), nil
+			return bandValue(st, res, depth), nil
 		}})
 }
 
 // bandValue is the language's view of a solved stack.
-func bandValue(st band.Stack, res *band.Result) *Result {
+func bandValue(st band.Stack, res *band.Result, donorDepthEV float64) *Result {
 	meV := quantity.MustUnit("meV")
 	var subs List
 	occupied := 0
@@ -141,7 +146,7 @@ func bandValue(st band.Stack, res *band.Result) *Result {
 	if len(res.Subbands) > 0 {
 		r.Rec.Fields = append(r.Rec.Fields, RecordField{Name: "E0", Value: Q(quantity.New(res.Subbands[0].E*1e3*meV.Scale, meV.D))})
 	}
-	if in, err := band.AnalyticInputFor(st, 0); err == nil {
+	if in, err := band.AnalyticInputFor(st, donorDepthEV); err == nil {
 		if an, err := band.Analytic(in); err == nil {
 			r.Rec.Fields = append(r.Rec.Fields, RecordField{Name: "analytic", Value: Q(quantity.New(an.N2D, dDensity))})
 		}
