@@ -47,5 +47,7 @@ func genNotebook(nWafers int, seed uint64) fstest.MapFS {
 			}
 		}
 	}
+	// The data file every generated cooldown lists (validation checks it exists).
+	fsys["cooldowns/data/sweep.csv"] = &fstest.MapFile{Data: []byte("B (T),Rxx (Ohm),Rxy (Ohm)\n0,10,0\n")}
 	return fsys
 }

@@ -28,6 +28,7 @@ type Notebook struct {
 	dups     map[string][]*Entry
 	parents  map[*Entry][]*Entry // existing link targets, in link order, without repeats
 	children map[*Entry][]*Entry // reverse of parents, sorted for display
+	fsys     fs.FS               // what Load read, for checks of files entries name
 }
 
 // FindRoot returns the top of the git work tree that contains dir: the
@@ -118,7 +119,7 @@ func Load(fsys fs.FS) (*Notebook, error) {
 	}
 	wg.Wait()
 
-	nb := &Notebook{Problems: walkProblems}
+	nb := &Notebook{Problems: walkProblems, fsys: fsys}
 	for _, r := range results {
 		nb.Files = append(nb.Files, r.file)
 		nb.Problems = append(nb.Problems, r.problems...)

@@ -3,6 +3,8 @@ package notebook
 import (
 	"cmp"
 	"fmt"
+	"io/fs"
+	"path"
 	"slices"
 	"strings"
 	"time"
@@ -93,6 +95,11 @@ func (nb *Notebook) Validate() []Problem {
 			case t == e:
 				add(e.Path, l.Line, l.Col, "%s: an entry cannot link to itself", l.Field)
 			}
+		}
+	}
+	for _, e := range nb.Entries {
+		if e.Kind == KindCooldown {
+			ps = append(ps, nb.checkDataFiles(e)...)
 		}
 	}
 	for _, cyc := range nb.cycles() {
@@ -290,4 +297,44 @@ func metaKey(e *Entry, name string) *yaml.Node {
 		}
 	}
 	return nil
+}
+
+// checkDataFiles reports the data files a cooldown lists (`data:` items with `file:`) that
+// leave the notebook or do not exist. Paths are relative to the entry's folder.
+func (nb *Notebook) checkDataFiles(e *Entry) []Problem {
+	list, ok := e.Field("data")
+	if !ok || list.Kind != yaml.SequenceNode || nb.fsys == nil {
+		return nil
+	}
+	var ps []Problem
+	for _, item := range list.Content {
+		var fn *yaml.Node
+		switch item.Kind {
+		case yaml.MappingNode:
+			for i := 0; i+1 < len(item.Content); i += 2 {
+				if item.Content[i].Value == "file" {
+					fn = item.Content[i+1]
+				}
+			}
+		case yaml.ScalarNode:
+			fn = item
+		}
+		if fn == nil || fn.Kind != yaml.ScalarNode || strings.TrimSpace(fn.Value) == "" {
+			continue
+		}
+		name := strings.TrimSpace(fn.Value)
+		l, c := e.Pos(fn)
+		full := path.Join(path.Dir(e.Path), name)
+		switch {
+		case path.IsAbs(name) || strings.Contains(name, "\\") || full == ".." || strings.HasPrefix(full, "../"):
+			ps = append(ps, Problem{Path: e.Path, Line: l, Col: max(c, 1),
+				Msg: fmt.Sprintf("data: %q leaves the notebook; expected a path inside it, relative to %s", name, path.Dir(e.Path)+"/")})
+		default:
+			if _, err := fs.Stat(nb.fsys, full); err != nil {
+				ps = append(ps, Problem{Path: e.Path, Line: l, Col: max(c, 1),
+					Msg: fmt.Sprintf("data: file %q not found (looked for %s; paths are relative to the entry's folder)", name, full)})
+			}
+		}
+	}
+	return ps
 }
