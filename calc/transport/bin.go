@@ -5,10 +5,11 @@ import (
 	"slices"
 )
 
-// selectPairs is pairs with exactly sized results: a counting pass first, so
+// selectPairs returns the (x, y) points, and sigma when s is not nil, with no
+// NaN, lo ≤ |x| ≤ hi and (with s) 0 < s < ∞: the pair-wise dropping of
+// missing values that every analysis applies. A counting pass comes first, so
 // that a selection of 10^6 points costs one allocation per slice instead of
-// the repeated copies of append growth. It returns the (x, y) points, and
-// sigma when s is not nil, with no NaN, lo ≤ |x| ≤ hi and (with s) 0 < s < ∞.
+// the repeated copies of append growth. No points gives nil slices.
 func selectPairs(x, y, s []float64, lo, hi float64) (xs, ys, ss []float64) {
 	keep := func(i int) bool {
 		xv, yv := x[i], y[i]

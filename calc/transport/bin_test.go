@@ -98,19 +98,31 @@ func TestSdHBinnedRecovery(t *testing.T) {
 	}
 }
 
-// TestSelectPairs: selectPairs keeps exactly what pairs keeps.
+// TestSelectPairs: selectPairs drops NaN pairs, points outside lo ≤ |x| ≤ hi
+// and, with sigma, points whose sigma is not in (0, ∞); the wanted slices are
+// worked out by hand from the table.
 func TestSelectPairs(t *testing.T) {
 	t.Parallel()
 	nan := math.NaN()
 	x := []float64{-2, -1, nan, 0, 0.5, 1, 1.5, 2, 3}
 	y := []float64{1, 2, 3, nan, 5, 6, 7, 8, 9}
 	s := []float64{1, 0, 1, 1, 1, math.Inf(1), 1, 1, 1}
-	for _, sig := range [][]float64{nil, s} {
-		ax, ay, as := pairs(x, y, sig, 0.5, 2)
-		bx, by, bs := selectPairs(x, y, sig, 0.5, 2)
-		if !equalNaN(ax, bx) || !equalNaN(ay, by) || !equalNaN(as, bs) {
-			t.Errorf("sigma %v: selectPairs = %v %v %v, pairs = %v %v %v", sig != nil, bx, by, bs, ax, ay, as)
+	tests := []struct {
+		name       string
+		sig        []float64
+		wx, wy, ws []float64
+	}{
+		{"no sigma", nil, []float64{-2, -1, 0.5, 1, 1.5, 2}, []float64{1, 2, 5, 6, 7, 8}, nil},
+		{"sigma", s, []float64{-2, 0.5, 1.5, 2}, []float64{1, 5, 7, 8}, []float64{1, 1, 1, 1}},
+	}
+	for _, tc := range tests {
+		bx, by, bs := selectPairs(x, y, tc.sig, 0.5, 2)
+		if !equalNaN(bx, tc.wx) || !equalNaN(by, tc.wy) || !equalNaN(bs, tc.ws) || (tc.sig == nil) != (bs == nil) {
+			t.Errorf("%s: selectPairs = %v %v %v, want %v %v %v", tc.name, bx, by, bs, tc.wx, tc.wy, tc.ws)
 		}
+	}
+	if ax, ay, as := selectPairs(x, y, s, 5, 6); ax != nil || ay != nil || as != nil {
+		t.Errorf("empty selection = %v %v %v, want nil slices", ax, ay, as)
 	}
 }
 

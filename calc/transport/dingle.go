@@ -86,7 +86,7 @@ func QuantumLifetime(d *Dataset, bmin, bmax, mstar, n, T float64, opts ...Option
 	if err != nil {
 		return nil, err
 	}
-	B, R, _ := pairs(xc.Values, yc.Values, nil, bmin, bmax)
+	B, R, _ := selectPairs(xc.Values, yc.Values, nil, bmin, bmax)
 	if len(B) < 32 {
 		return nil, fmt.Errorf("%s: Dingle analysis of %s over %g T ≤ |B| ≤ %g T: %d points; need at least 32: %w",
 			d.Name, yc.Name, bmin, bmax, len(B), ErrTooFewPoints)

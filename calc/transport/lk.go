@@ -383,7 +383,7 @@ func LKMassSweeps(sweeps []*Dataset, temps []float64, bmin, bmax float64, opts .
 		if err != nil {
 			return nil, err
 		}
-		B, R, _ := pairs(xc.Values, yc.Values, nil, bmin, bmax)
+		B, R, _ := selectPairs(xc.Values, yc.Values, nil, bmin, bmax)
 		if len(B) < 32 {
 			return nil, fmt.Errorf("%s: LK mass: %d points in %g T ≤ |B| ≤ %g T; need at least 32: %w", d.Name, len(B), bmin, bmax, ErrTooFewPoints)
 		}

@@ -98,29 +98,6 @@ func column(d *Dataset, name string, wantDim quantity.Dim, what string) (*Column
 	return c, nil
 }
 
-// pairs returns the (x, y) points, and sigma if wanted, with no NaN and with
-// lo ≤ |x| ≤ hi.
-func pairs(x, y, s []float64, lo, hi float64) (xs, ys, ss []float64) {
-	for i := range x {
-		xv, yv := x[i], y[i]
-		if math.IsNaN(xv) || math.IsNaN(yv) {
-			continue
-		}
-		if a := math.Abs(xv); a < lo || a > hi {
-			continue
-		}
-		if s != nil {
-			if !(s[i] > 0) || math.IsInf(s[i], 0) {
-				continue
-			}
-			ss = append(ss, s[i])
-		}
-		xs = append(xs, xv)
-		ys = append(ys, yv)
-	}
-	return xs, ys, ss
-}
-
 // outOfPhase checks a lock-in Y column that belongs to ycol, if one exists:
 // ycol+"_Y", ycol+"Y", ycol with a trailing "_X"/"X" replaced by "_Y"/"Y", or a lone "Y".
 // It warns when the RMS of Y exceeds frac times the RMS of X over the same

@@ -50,7 +50,7 @@ func ZeroField(d *Dataset, col string, opts ...Option) (*ZeroFieldResult, error)
 		}
 		sig = sc.Values
 	}
-	B, Y, S := pairs(xc.Values, yc.Values, sig, 0, math.Inf(1))
+	B, Y, S := selectPairs(xc.Values, yc.Values, sig, 0, math.Inf(1))
 	k := max(o.points, MinZeroFieldPoints)
 	if len(B) < MinZeroFieldPoints {
 		return nil, fmt.Errorf("%s: value of %s at B = 0: %d usable points; need at least %d: %w",
