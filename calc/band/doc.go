@@ -25,12 +25,13 @@
 //
 // # Band parameters
 //
-// Band edges, Γ masses and permittivities come from a table in this package ([Lookup]),
-// each value with its source: Vurgaftman, Meyer & Ram-Mohan, J. Appl. Phys. 89, 5815 (2001)
-// for the III–V band parameters and the Ioffe handbook (Levinshtein et al., Handbook Series
-// on Semiconductor Parameters, World Scientific 1996) for the static permittivity of
-// Al(x)Ga(1−x)As. GaAs, AlAs and Al(x)Ga(1−x)As are known; the table is keyed by the element
-// string of the alloy so that InAs, InGaAs or Ge/SiGe can be added as further rows.
+// Band edges (Γ gaps and valence-band offsets) come from a table in this package ([Lookup]),
+// each value with its source: Vurgaftman, Meyer & Ram-Mohan, J. Appl. Phys. 89, 5815 (2001).
+// The Γ masses and static permittivities are taken from cleave/calc/materials, the one
+// table of them (Vurgaftman et al. for the masses, the Ioffe handbook for the permittivity
+// of Al(x)Ga(1−x)As), with their sources. GaAs, AlAs and Al(x)Ga(1−x)As are known; the table
+// is keyed by the element string of the alloy so that InAs, InGaAs or Ge/SiGe can be added
+// as further rows.
 //
 // # What it leaves out
 //

@@ -35,7 +35,9 @@ var rydbergEV = me * qe * qe * qe / (8 * eps0 * eps0 * (2 * math.Pi * hbar) * (2
 // ErrUnknownMaterial is returned (wrapped) for a material with no band parameters.
 var ErrUnknownMaterial = errors.New("unknown material")
 
-// Params are the low-temperature (0 K) band parameters of one layer material.
+// Params are the low-temperature (0 K) band parameters of one layer material. The band
+// edges are this package's; Mstar and EpsR come from cleave/calc/materials, which is the one
+// table of masses and permittivities.
 type Params struct {
 	Name     string  // the name as written, e.g. "Al0.33Ga0.67As"
 	Elements string  // the alloy without fractions, e.g. "AlGaAs"
@@ -43,8 +45,8 @@ type Params struct {
 	EgEV     float64 // Γ band gap at 0 K, eV
 	VBOEV    float64 // valence-band maximum on the common scale of Vurgaftman et al., eV
 	EcEV     float64 // Γ conduction-band edge on that scale, VBOEV + EgEV, eV
-	Mstar    float64 // Γ conduction-band effective mass, m*/m_e
-	EpsR     float64 // static relative permittivity
+	Mstar    float64 // Γ conduction-band effective mass, m*/m_e (from materials.Lookup)
+	EpsR     float64 // static relative permittivity (from materials.Lookup)
 	// DonorEV is the shallow (hydrogenic, effective-mass) donor binding energy
 	// Ry·(m*/m_e)/ε_r², eV. It is not the DX level.
 	DonorEV float64
@@ -53,15 +55,17 @@ type Params struct {
 
 // system is one row of the parameter table: a material or an alloy family.
 type system struct {
-	elements string
-	alloy    bool // needs a fraction x in [0, 1]
-	params   func(x float64) Params
+	alloy bool // needs a fraction x in [0, 1]
+	// edges gives the Γ gap and valence-band maximum (eV) at fraction x; a binary is called
+	// with its own end-point fraction xFixed.
+	edges  func(x float64) (eg, vbo float64)
+	xFixed float64
 }
 
 const (
 	srcVMR   = "Vurgaftman, Meyer, Ram-Mohan, J. Appl. Phys. 89, 5815 (2001), 0 K"
-	srcIoffe = "Ioffe handbook (Levinshtein et al., Handbook Series on Semiconductor Parameters, World Scientific 1996)"
 	srcHydro = "effective-mass hydrogenic donor Ry·m*/ε_r², with Ry from CODATA 2018 constants"
+	srcMat   = " (cleave/calc/materials)"
 )
 
 // Vurgaftman et al. (2001) Table III/IV values at 0 K.
@@ -70,49 +74,24 @@ const (
 	egAlAs  = 3.099 // eV, Γ gap
 	vboGaAs = -0.80 // eV
 	vboAlAs = -1.33 // eV
-	mGaAs   = 0.067 // Γ mass
-	mAlAs   = 0.15  // Γ mass
 )
 
 // gapBowingAlGaAs is the Γ-gap bowing of Al(x)Ga(1−x)As, C(x) = −0.127 + 1.310x eV
 // (Vurgaftman et al. 2001); Eg(x) = (1−x)Eg(GaAs) + x Eg(AlAs) − x(1−x)C(x).
 func gapBowingAlGaAs(x float64) float64 { return -0.127 + 1.310*x }
 
-// epsAlGaAs is the static permittivity 12.90 − 2.84x of Al(x)Ga(1−x)As (Ioffe handbook).
-func epsAlGaAs(x float64) float64 { return 12.90 - 2.84*x }
-
-func algaas(x float64) Params {
-	eg := (1-x)*egGaAs + x*egAlAs - x*(1-x)*gapBowingAlGaAs(x)
-	vbo := (1-x)*vboGaAs + x*vboAlAs // no VBO bowing for AlGaAs (Vurgaftman et al.)
-	m := (1-x)*mGaAs + x*mAlAs       // linear between the end points (Vurgaftman et al. give no bowing)
-	eps := epsAlGaAs(x)
-	return Params{
-		X: x, EgEV: eg, VBOEV: vbo, EcEV: vbo + eg, Mstar: m, EpsR: eps,
-		DonorEV: rydbergEV * m / (eps * eps),
-		Sources: map[string]string{
-			"EgEV":    srcVMR + " (Γ gap with bowing −0.127+1.310x eV)",
-			"VBOEV":   srcVMR + " (linear in x)",
-			"Mstar":   srcVMR + " (linear between GaAs 0.067 and AlAs 0.15)",
-			"EpsR":    srcIoffe + " (12.90 − 2.84x)",
-			"DonorEV": srcHydro,
-		},
-	}
+// algaasEdges is the Γ gap with bowing and the valence-band maximum of Al(x)Ga(1−x)As, linear
+// in x (no VBO bowing for AlGaAs in Vurgaftman et al.).
+func algaasEdges(x float64) (eg, vbo float64) {
+	eg = (1-x)*egGaAs + x*egAlAs - x*(1-x)*gapBowingAlGaAs(x)
+	vbo = (1-x)*vboGaAs + x*vboAlAs
+	return eg, vbo
 }
 
 var table = map[string]system{
-	"GaAs": {elements: "GaAs", params: func(float64) Params {
-		p := algaas(0)
-		p.X = math.NaN()
-		p.Sources["EpsR"] = srcIoffe + " (12.9)"
-		return p
-	}},
-	"AlAs": {elements: "AlAs", params: func(float64) Params {
-		p := algaas(1)
-		p.X = math.NaN()
-		p.Sources["EpsR"] = srcIoffe + " (12.90 − 2.84x at x = 1; tables disagree, 10.06–10.9)"
-		return p
-	}},
-	"AlGaAs": {elements: "AlGaAs", alloy: true, params: algaas},
+	"GaAs":   {edges: algaasEdges, xFixed: 0},
+	"AlAs":   {edges: algaasEdges, xFixed: 1},
+	"AlGaAs": {alloy: true, edges: algaasEdges},
 }
 
 // Known returns the material families that have band parameters, sorted.
@@ -147,8 +126,26 @@ func Lookup(name string) (Params, error) {
 	if !sys.alloy && !math.IsNaN(x) {
 		return Params{}, fmt.Errorf("material %q: %s takes no alloy fraction", name, elems)
 	}
-	p := sys.params(x)
-	p.Name = name
-	p.Elements = elems
-	return p, nil
+	m, err := materials.Lookup(name)
+	if err != nil { // every row of table has a materials entry; this guards against drift
+		return Params{}, fmt.Errorf("material %q: no mass or permittivity: %w", name, err)
+	}
+	xe := x
+	if !sys.alloy {
+		xe = sys.xFixed
+	}
+	eg, vbo := sys.edges(xe)
+	return Params{
+		Name: name, Elements: elems, X: x,
+		EgEV: eg, VBOEV: vbo, EcEV: vbo + eg,
+		Mstar: m.Mstar, EpsR: m.EpsR,
+		DonorEV: rydbergEV * m.Mstar / (m.EpsR * m.EpsR),
+		Sources: map[string]string{
+			"EgEV":    srcVMR + " (Γ gap with bowing −0.127+1.310x eV)",
+			"VBOEV":   srcVMR + " (linear in x)",
+			"Mstar":   m.Sources["Mstar"] + srcMat,
+			"EpsR":    m.Sources["EpsR"] + srcMat,
+			"DonorEV": srcHydro,
+		},
+	}, nil
 }

@@ -4,6 +4,8 @@ import (
 	"errors"
 	"math"
 	"testing"
+
+	"cleave/calc/materials"
 )
 
 // TestLookup checks the band table against REFERENCE §4: Vurgaftman, Meyer & Ram-Mohan,
@@ -77,5 +79,30 @@ func TestLookupErrors(t *testing.T) {
 		} else if name == "InP" && !errors.Is(err, ErrUnknownMaterial) {
 			t.Errorf("Lookup(%q) = %v, want ErrUnknownMaterial", name, err)
 		}
+	}
+}
+
+// TestMassPermittivityFromMaterials: m* and ε_r are not kept here but taken from
+// cleave/calc/materials, so they match it exactly (both end points and an alloy), with the
+// same sources (Vurgaftman et al. 2001 masses, Ioffe handbook 12.90 − 2.84x).
+func TestMassPermittivityFromMaterials(t *testing.T) {
+	for _, name := range []string{"GaAs", "AlAs", "Al0.3Ga0.7As", "Al(0.33)Ga(0.67)As"} {
+		p, err := Lookup(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		m, err := materials.Lookup(name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if p.Mstar != m.Mstar || p.EpsR != m.EpsR {
+			t.Errorf("%s: band m* %v eps %v, materials m* %v eps %v", name, p.Mstar, p.EpsR, m.Mstar, m.EpsR)
+		}
+		if p.Sources["Mstar"] == "" || p.Sources["EpsR"] == "" {
+			t.Errorf("%s: mass and permittivity must carry their sources", name)
+		}
+	}
+	if a, _ := Lookup("AlAs"); a.Mstar != 0.15 || math.Abs(a.EpsR-10.06) > 1e-12 {
+		t.Errorf("AlAs Γ m* %v, eps %v; want 0.15 (Vurgaftman 2001), 10.06 (Ioffe 12.90 − 2.84)", a.Mstar, a.EpsR)
 	}
 }

@@ -8,7 +8,8 @@
 // callers use VF.
 //
 // The package does not compute band gaps, offsets or temperature dependences; the band
-// solver keeps those with its own citations.
+// solver (cleave/calc/band) keeps those with its own citations and takes its masses and
+// permittivities from here.
 package materials
 
 import (
@@ -45,10 +46,11 @@ const (
 	srcGammaValley = "single Γ valley (textbook)"
 )
 
-// AlGaAs composition-dependent parameters.
+// Γ-valley masses of the Al(x)Ga(1-x)As end points (Vurgaftman et al. 2001) and the Ioffe
+// handbook permittivity ε_r = 12.90 - 2.84x.
 const (
-	algaasM0   = 0.067 // GaAs Γ mass / m_e
-	algaasMx   = 0.083 // (AlAs Γ 0.15) - (GaAs 0.067)
+	mGaAs      = 0.067 // GaAs Γ mass / m_e
+	mAlAsGamma = 0.15  // AlAs Γ mass / m_e
 	algaasEps0 = 12.90
 	algaasEpsX = -2.84
 )
@@ -64,9 +66,10 @@ func AlGaAs(x float64) (Material, error) {
 	}
 	name := alloyName("Al", "Ga", "As", x)
 	return Material{
-		Name:    name,
-		X:       x,
-		Mstar:   algaasM0 + algaasMx*x,
+		Name:  name,
+		X:     x,
+		Mstar: (1-x)*mGaAs + x*mAlAsGamma, // exact at both end points
+
 		EpsR:    algaasEps0 + algaasEpsX*x,
 		G:       math.NaN(),
 		Gs:      2,
@@ -96,7 +99,7 @@ func alloyName(a, b, anion string, x float64) string {
 
 func gaas() Material {
 	return Material{
-		Name: "GaAs", X: math.NaN(), Mstar: 0.067, EpsR: 12.9, G: -0.44, Gs: 2, Gv: 1, Carrier: "electron",
+		Name: "GaAs", X: math.NaN(), Mstar: mGaAs, EpsR: algaasEps0, G: -0.44, Gs: 2, Gv: 1, Carrier: "electron",
 		Sources: map[string]string{
 			"Mstar": srcVurgaftman + " (Adachi: 0.067)",
 			"EpsR":  srcIoffe,

@@ -102,6 +102,12 @@ func TestAlGaAsEndPoints(t *testing.T) {
 	if err != nil || !sameFloat(a1.Mstar, 0.15, 1e-12) || !sameFloat(a1.EpsR, 10.06, 1e-12) {
 		t.Errorf("AlGaAs(1) = %+v, %v; want mass 0.15, eps 10.06", a1, err)
 	}
+	// The end points are exact, not merely within rounding: the band solver takes its GaAs
+	// and AlAs masses and permittivities from here.
+	if a0.Mstar != g.Mstar || a0.EpsR != g.EpsR || a1.Mstar != 0.15 {
+		t.Errorf("end points not exact: AlGaAs(0) m* %v eps %v (GaAs %v, %v); AlGaAs(1) m* %v (want 0.15)",
+			a0.Mstar, a0.EpsR, g.Mstar, g.EpsR, a1.Mstar)
+	}
 	for _, x := range []float64{-0.1, 1.01, nan} {
 		if _, err := AlGaAs(x); err == nil {
 			t.Errorf("AlGaAs(%v): want error", x)
