@@ -78,11 +78,11 @@ func QuantumLifetime(d *Dataset, bmin, bmax, mstar, n, T float64, opts ...Option
 	case !(o.gv > 0):
 		return nil, fmt.Errorf("%s: Dingle analysis: valley degeneracy %g: %w", d.Name, o.gv, ErrBadArgument)
 	}
-	xc, err := column(d, o.field, DimField, "magnetic field")
+	xc, err := column(d, o.field, DimField)
 	if err != nil {
 		return nil, err
 	}
-	yc, err := column(d, o.ycol, DimResistance, "resistance")
+	yc, err := column(d, o.ycol, DimResistance)
 	if err != nil {
 		return nil, err
 	}

@@ -48,17 +48,17 @@ func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Opti
 	if !(bmin >= 0) || !(bmax > bmin) {
 		return nil, fmt.Errorf("%s: Hall fit: field range %g T to %g T: expected 0 ≤ bmin < bmax: %w", d.Name, bmin, bmax, ErrBadArgument)
 	}
-	xc, err := column(d, xcol, DimField, "magnetic field")
+	xc, err := column(d, xcol, DimField)
 	if err != nil {
 		return nil, err
 	}
-	yc, err := column(d, ycol, DimResistance, "resistance")
+	yc, err := column(d, ycol, DimResistance)
 	if err != nil {
 		return nil, err
 	}
 	var sig []float64
 	if o.sigma != "" {
-		sc, err := column(d, o.sigma, DimResistance, "resistance")
+		sc, err := column(d, o.sigma, DimResistance)
 		if err != nil {
 			return nil, err
 		}

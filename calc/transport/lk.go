@@ -375,11 +375,11 @@ func LKMassSweeps(sweeps []*Dataset, temps []float64, bmin, bmax float64, opts .
 		if temps[i] < temps[cold] {
 			cold = i
 		}
-		xc, err := column(d, o.field, DimField, "magnetic field")
+		xc, err := column(d, o.field, DimField)
 		if err != nil {
 			return nil, err
 		}
-		yc, err := column(d, o.ycol, DimResistance, "resistance")
+		yc, err := column(d, o.ycol, DimResistance)
 		if err != nil {
 			return nil, err
 		}

@@ -86,14 +86,14 @@ func (w Warning) String() string { return w.Code + ": " + w.Msg }
 // column fetches a column and checks its dimension when the header gave a unit.
 // Columns without a unit and with an unknown name are taken to be in SI units
 // of the expected dimension.
-func column(d *Dataset, name string, wantDim quantity.Dim, what string) (*Column, error) {
+func column(d *Dataset, name string, wantDim quantity.Dim) (*Column, error) {
 	c, err := d.Col(name)
 	if err != nil {
 		return nil, err
 	}
 	if c.Unit != "" && c.Dim != wantDim {
 		return nil, &ParseError{File: d.Name, Line: max(d.HeaderLine, 1), Col: 1,
-			Msg: fmt.Sprintf("column %q is in %s, not a unit of %s", c.Name, c.Unit, what), Err: ErrUnitDim}
+			Msg: fmt.Sprintf("column %q is in %s, %s; expected %s", c.Name, c.Unit, dimKind(c.Dim), dimName(wantDim)), Err: ErrUnitDim}
 	}
 	return c, nil
 }

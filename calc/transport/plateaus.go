@@ -86,16 +86,16 @@ func Plateaus(d *Dataset, opt PlateauOptions) (*PlateauResult, error) {
 	if !(opt.MinWidth > 0) || !(opt.Window > 0) || !(opt.Flatness > 0) || !(opt.RxxTol > 0) || !(opt.Density >= 0) {
 		return nil, fmt.Errorf("%s: plateaus: MinWidth, Window, Flatness and RxxTol must be > 0 and Density ≥ 0: %w", d.Name, ErrBadArgument)
 	}
-	xc, err := column(d, opt.XCol, DimField, "magnetic field")
+	xc, err := column(d, opt.XCol, DimField)
 	if err != nil {
 		return nil, err
 	}
-	yc, err := column(d, opt.YCol, DimResistance, "resistance")
+	yc, err := column(d, opt.YCol, DimResistance)
 	if err != nil {
 		return nil, err
 	}
 	var rxx []float64
-	if rc, err := column(d, opt.RxxCol, DimResistance, "resistance"); err == nil {
+	if rc, err := column(d, opt.RxxCol, DimResistance); err == nil {
 		rxx = rc.Values
 	}
 	res := &PlateauResult{XCol: xc.Name, YCol: yc.Name, DataHash: d.Hash, RxxRef: math.NaN()}

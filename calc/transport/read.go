@@ -423,7 +423,7 @@ func (d *Dataset) parseHeader(line []byte, delim byte) ([]float64, error) {
 				return nil, perr(f.col, ErrHeader, "column %q appears twice", name)
 			}
 		}
-		kd, kunit, known := knownDim(name)
+		kd, known := knownDim(name)
 		c := Column{Name: name, Unit: unit}
 		scale := 1.0
 		switch {
@@ -433,7 +433,7 @@ func (d *Dataset) parseHeader(line []byte, delim byte) ([]float64, error) {
 				return nil, perr(f.col+off, ErrUnknownUnit, "unknown unit %q in column %q: %v", unit, name, err)
 			}
 			if known && dim != kd {
-				return nil, perr(f.col+off, ErrUnitDim, "unit %q of column %q has dimension %v; expected a unit of %v such as %s", unit, name, dim, kd, kunit)
+				return nil, perr(f.col+off, ErrUnitDim, "unit %q of column %q is %s; expected %s", unit, name, dimKind(dim), dimName(kd))
 			}
 			scale = s
 			c.Dim = dim

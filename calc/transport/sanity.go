@@ -68,7 +68,7 @@ const (
 // field column, or a column in the wrong unit).
 func CheckSweep(d *Dataset, opts ...Option) ([]Warning, error) {
 	o := newOptions(opts)
-	xc, err := column(d, o.field, DimField, "magnetic field")
+	xc, err := column(d, o.field, DimField)
 	if err != nil {
 		return nil, err
 	}
@@ -84,7 +84,7 @@ func CheckSweep(d *Dataset, opts ...Option) ([]Warning, error) {
 	if n < 10 {
 		ws = append(ws, Warning{WarnFewPoints, fmt.Sprintf("only %d points with a field value", n)})
 	}
-	if yc, err := column(d, "Rxy", DimResistance, "resistance"); err == nil {
+	if yc, err := column(d, "Rxy", DimResistance); err == nil {
 		if z, err := ZeroField(d, yc.Name, WithField(xc.Name), WithPoints(o.points)); err == nil {
 			ref := 0.0
 			for i, b := range xc.Values {
@@ -103,7 +103,7 @@ func CheckSweep(d *Dataset, opts ...Option) ([]Warning, error) {
 			ws = append(ws, *w)
 		}
 	}
-	if rc, err := column(d, "Rxx", DimResistance, "resistance"); err == nil {
+	if rc, err := column(d, "Rxx", DimResistance); err == nil {
 		if w := outOfPhase(d, xc, rc, 0, math.Inf(1), o.maxYFrac); w != nil {
 			ws = append(ws, *w)
 		}

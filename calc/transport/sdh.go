@@ -100,11 +100,11 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 	if o.bgDeg < 0 || o.bgDeg > 3 {
 		return nil, fmt.Errorf("%s: SdH analysis: background degree %d: expected 0–3: %w", d.Name, o.bgDeg, ErrBadArgument)
 	}
-	xc, err := column(d, o.field, DimField, "magnetic field")
+	xc, err := column(d, o.field, DimField)
 	if err != nil {
 		return nil, err
 	}
-	yc, err := column(d, o.ycol, DimResistance, "resistance")
+	yc, err := column(d, o.ycol, DimResistance)
 	if err != nil {
 		return nil, err
 	}

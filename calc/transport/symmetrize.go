@@ -115,11 +115,11 @@ func symmetrize(d *Dataset, xcol, ycol string, sign float64) (*SymResult, error)
 	if sign < 0 {
 		kind, what = "antisymmetric", "antisymmetrize"
 	}
-	xc, err := column(d, xcol, DimField, "magnetic field")
+	xc, err := column(d, xcol, DimField)
 	if err != nil {
 		return nil, err
 	}
-	yc, err := column(d, ycol, DimResistance, "resistance")
+	yc, err := column(d, ycol, DimResistance)
 	if err != nil {
 		return nil, err
 	}

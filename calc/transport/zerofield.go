@@ -34,7 +34,7 @@ const MinZeroFieldPoints = 4
 // points is an error wrapping ErrTooFewPoints. WithSigma weights the fit.
 func ZeroField(d *Dataset, col string, opts ...Option) (*ZeroFieldResult, error) {
 	o := newOptions(opts)
-	xc, err := column(d, o.field, DimField, "magnetic field")
+	xc, err := column(d, o.field, DimField)
 	if err != nil {
 		return nil, err
 	}
