@@ -13,20 +13,12 @@ import (
 
 // Physical constants in SI, taken from cleave/calc/constants (CODATA 2018).
 var (
-	qe   = mustConst("e")    // C
-	hbar = mustConst("hbar") // J s
-	kB   = mustConst("k_B")  // J/K
-	me   = mustConst("m_e")  // kg
-	eps0 = mustConst("eps0") // F/m
+	qe   = constants.Value("e")    // C
+	hbar = constants.Value("hbar") // J s
+	kB   = constants.Value("k_B")  // J/K
+	me   = constants.Value("m_e")  // kg
+	eps0 = constants.Value("eps0") // F/m
 )
-
-func mustConst(sym string) float64 {
-	c, ok := constants.Lookup(sym)
-	if !ok {
-		panic("band: constant " + sym + " missing from cleave/calc/constants")
-	}
-	return c.Value
-}
 
 // rydbergEV is the hydrogen Rydberg energy m_e e⁴/(8 ε0² h²) in eV, computed from the
 // CODATA 2018 constants.

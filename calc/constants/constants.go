@@ -14,6 +14,7 @@
 package constants
 
 import (
+	"fmt"
 	"math"
 	"sort"
 )
@@ -153,6 +154,17 @@ func Lookup(sym string) (Constant, bool) {
 		return Constant{}, false
 	}
 	return table[i], true
+}
+
+// Value returns the SI value of the table constant with the given symbol or alias. Like
+// [Q] it panics if the symbol is unknown: it is meant for package-level variables with
+// literal symbols, such as the float64 constants of a numerical solver.
+func Value(sym string) float64 {
+	c, ok := Lookup(sym)
+	if !ok {
+		panic(fmt.Sprintf("constants: unknown symbol %q", sym))
+	}
+	return c.Value
 }
 
 // All returns a copy of the table, sorted by symbol.

@@ -75,3 +75,29 @@ func TestQPanicsOnUnknown(t *testing.T) {
 	}()
 	Q("nope")
 }
+
+// TestValue: Value is Lookup's SI value (CODATA 2018 exact e and h, measured m_e) and
+// panics on an unknown symbol.
+func TestValue(t *testing.T) {
+	for sym, want := range map[string]float64{"e": 1.602176634e-19, "h": 6.62607015e-34, "m_e": 9.1093837015e-31, "ħ": 6.62607015e-34 / (2 * math.Pi)} {
+		if got := Value(sym); got != want {
+			t.Errorf("Value(%q) = %v, want %v (CODATA 2018)", sym, got, want)
+		}
+	}
+	defer func() {
+		if recover() == nil {
+			t.Error("Value(\"nope\") did not panic")
+		}
+	}()
+	Value("nope")
+}
+
+// TestUnitTableAgrees: the quantity package keeps its own e and m_e for the units "eV" and
+// "m_e" (it cannot import this package, which imports it); they must be this table's
+// CODATA 2018 values exactly.
+func TestUnitTableAgrees(t *testing.T) {
+	if quantity.ElementaryCharge != Value("e") || quantity.ElectronMass != Value("m_e") {
+		t.Errorf("quantity e %v, m_e %v; constants e %v, m_e %v", quantity.ElementaryCharge,
+			quantity.ElectronMass, Value("e"), Value("m_e"))
+	}
+}

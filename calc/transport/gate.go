@@ -3,9 +3,11 @@ package transport
 import (
 	"fmt"
 	"math"
+
+	"cleave/calc/constants"
 )
 
-var eps0 = mustConst("eps_0") // vacuum permittivity, F/m (CODATA 2018 via calc/constants)
+var eps0 = constants.Value("eps_0") // vacuum permittivity, F/m (CODATA 2018 via calc/constants)
 
 // ParallelPlateCapacitance returns the geometric gate capacitance per area
 // C = ε_r ε_0/d (F/m²) of a gate at distance d (m) from the 2D channel through

@@ -13,21 +13,13 @@ import (
 
 // SI constants from the project's single CODATA 2018 table.
 var (
-	qe   = mustConst("e")    // elementary charge, C
-	hPl  = mustConst("h")    // Planck constant, J s
-	hbar = mustConst("hbar") // reduced Planck constant, J s
-	kB   = mustConst("k_B")  // Boltzmann constant, J/K
-	mE   = mustConst("m_e")  // electron mass, kg
-	rK   = mustConst("R_K")  // von Klitzing constant h/e², Ohm
+	qe   = constants.Value("e")    // elementary charge, C
+	hPl  = constants.Value("h")    // Planck constant, J s
+	hbar = constants.Value("hbar") // reduced Planck constant, J s
+	kB   = constants.Value("k_B")  // Boltzmann constant, J/K
+	mE   = constants.Value("m_e")  // electron mass, kg
+	rK   = constants.Value("R_K")  // von Klitzing constant h/e², Ohm
 )
-
-func mustConst(sym string) float64 {
-	c, ok := constants.Lookup(sym)
-	if !ok {
-		panic("transport: constant " + sym + " missing from calc/constants")
-	}
-	return c.Value
-}
 
 // Layer is a second, parallel conducting channel (for example a doping layer
 // that did not freeze out), described by the Drude model.
