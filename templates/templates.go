@@ -16,6 +16,8 @@ import (
 	"time"
 
 	"go.yaml.in/yaml/v3"
+
+	"cleave/notebook/mdsrc"
 )
 
 //go:embed defaults/*.md
@@ -294,27 +296,15 @@ func yamlScalar(s string) string {
 	return out
 }
 
-// frontMatter returns the YAML between a first line "---" and the next line
-// "---" or "...", and whether the document opens with front matter. A BOM
-// before the first line is skipped.
+// frontMatter returns the YAML of the document's front matter and whether
+// the document opens with a `---` line, by the rules the notebook reads
+// entries with ([mdsrc.SplitFrontMatter]).
 func frontMatter(doc []byte) (yamlText []byte, ok bool, err error) {
-	doc = bytes.TrimPrefix(doc, []byte("\ufeff"))
-	first, rest, found := bytes.Cut(doc, []byte("\n"))
-	if !found || string(bytes.TrimRight(first, "\r")) != "---" {
-		return nil, false, nil
+	y, ok, err := mdsrc.SplitFrontMatter(doc)
+	if err != nil {
+		return nil, true, errors.New("front matter opened with --- on line 1 is never closed (want a line ---)")
 	}
-	off := 0 // offset in rest of the current line
-	for off < len(rest) {
-		line := rest[off:]
-		if i := bytes.IndexByte(line, '\n'); i >= 0 {
-			line = line[:i]
-		}
-		if l := string(bytes.TrimRight(line, "\r")); l == "---" || l == "..." {
-			return rest[:off], true, nil
-		}
-		off += len(line) + 1
-	}
-	return nil, true, errors.New("front matter opened with --- on line 1 is never closed (want a line ---)")
+	return y, ok, nil
 }
 
 var yamlLine = regexp.MustCompile(`line (\d+)`)

@@ -843,7 +843,9 @@ func TestFrontMatter(t *testing.T) {
 		{"bom", "\ufeff---\nid: a\n---\n", "id: a\n", true, false},
 		{"empty", "---\n---\n", "", true, false},
 		{"unclosed", "---\nid: a\n", "", true, true},
-		{"no newline", "---", "", false, false},
+		{"no newline", "---", "", true, true}, // an opening line with nothing after it never closes
+		{"trailing blanks", "--- \nid: a\n---\t\n", "id: a\n", true, false},
+		{"not a delimiter", "----\nid: a\n---\n", "", false, false},
 	}
 	for _, tc := range tests {
 		y, ok, err := frontMatter([]byte(tc.doc))

@@ -117,31 +117,13 @@ func Parse(raw []byte) (*Source, error) {
 
 	var perr error
 	s.Body = s.BOM
-	if end, ok := delimiterLine(raw, s.BOM, "---"); ok {
-		closed := false
-		// Scan the following lines for the closing delimiter.
-		for li := 1; li < len(s.lineStarts); li++ {
-			start := s.lineStarts[li]
-			if start < end {
-				continue
-			}
-			e, ok := delimiterLine(raw, start, "---")
-			if !ok {
-				e, ok = delimiterLine(raw, start, "...")
-			}
-			if ok {
-				s.HasFrontMatter = true
-				s.FrontMatter = Span{end, start}
-				s.FrontMatterLine = 2
-				s.Body = e
-				closed = true
-				break
-			}
-		}
-		if !closed {
-			perr = &PosError{Line: 1, Col: 1,
-				Msg: "front matter opened with --- is never closed (expected a line --- or ... after the YAML); treating the file as Markdown"}
-		}
+	if fm, body, opened, closed := frontMatter(raw, s.BOM); closed {
+		s.HasFrontMatter = true
+		s.FrontMatter = fm
+		s.FrontMatterLine = 2
+		s.Body = body
+	} else if opened {
+		perr = unclosedError()
 	}
 
 	s.masked = make([]byte, len(raw))
@@ -157,6 +139,56 @@ func Parse(raw []byte) (*Source, error) {
 	}
 	s.Doc = markdownParser().Parse(text.NewReader(s.masked))
 	return s, perr
+}
+
+// SplitFrontMatter returns the YAML text of raw's front matter by the rules
+// [Parse] applies (see the package documentation), without parsing the
+// Markdown body. ok reports whether raw opens with a `---` line; err is the
+// *PosError Parse returns when that block is never closed (yaml is then nil).
+func SplitFrontMatter(raw []byte) (yaml []byte, ok bool, err error) {
+	from := 0
+	if bytes.HasPrefix(raw, bom) {
+		from = len(bom)
+	}
+	fm, _, opened, closed := frontMatter(raw, from)
+	switch {
+	case closed:
+		return raw[fm.Start:fm.End], true, nil
+	case opened:
+		return nil, true, unclosedError()
+	}
+	return nil, false, nil
+}
+
+// frontMatter looks for a front-matter block whose opening line starts at
+// offset from: opened reports an opening `---` line there, closed a later
+// closing line. fm is the YAML text between the two lines and body the
+// offset just after the closing line.
+func frontMatter(raw []byte, from int) (fm Span, body int, opened, closed bool) {
+	start, ok := delimiterLine(raw, from, "---")
+	if !ok {
+		return Span{}, from, false, false
+	}
+	for line := start; line < len(raw); {
+		e, ok := delimiterLine(raw, line, "---")
+		if !ok {
+			e, ok = delimiterLine(raw, line, "...")
+		}
+		if ok {
+			return Span{start, line}, e, true, true
+		}
+		i := bytes.IndexByte(raw[line:], '\n')
+		if i < 0 {
+			break
+		}
+		line += i + 1
+	}
+	return Span{}, from, true, false
+}
+
+func unclosedError() *PosError {
+	return &PosError{Line: 1, Col: 1,
+		Msg: "front matter opened with --- is never closed (expected a line --- or ... after the YAML); treating the file as Markdown"}
 }
 
 // delimiterLine reports whether the line starting at off consists of delim
