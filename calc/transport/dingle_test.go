@@ -3,6 +3,7 @@ package transport
 import (
 	"errors"
 	"math"
+	"strings"
 	"testing"
 
 	"cleave/calc/physics"
@@ -226,4 +227,36 @@ func hasWarning(ws []Warning, code string) bool {
 		}
 	}
 	return false
+}
+
+// TestNoFrequencyNamesFileOnce: when the SdH analysis that places the extrema
+// fails, the Dingle and LK errors wrap its error, which already starts with the
+// file name; the name must appear once. A noise-free exponential with a
+// constant background polynomial holds no oscillation, and SdHDensity fails
+// on it.
+func TestNoFrequencyNamesFileOnce(t *testing.T) {
+	t.Parallel()
+	const name = "cd7-steep.csv"
+	mk := func() *Dataset {
+		B, R := make([]float64, 400), make([]float64, 400)
+		for i := range B {
+			B[i] = 0.5 + 1.5*float64(i)/399
+			R[i] = 100 * math.Exp(3*B[i])
+		}
+		return &Dataset{Name: name, Columns: []Column{
+			{Name: "B", Unit: "T", Dim: DimField, Values: B},
+			{Name: "Rxx", Unit: "Ohm", Dim: DimResistance, Values: R}}}
+	}
+	_, errD := QuantumLifetime(mk(), 0.5, 2, 0.067*mE, 0, 1.5, WithBackground(0))
+	ds := []*Dataset{mk(), mk(), mk()}
+	_, errL := LKMassSweeps(ds, []float64{1, 2, 3}, 0.5, 2, WithBackground(0))
+	for _, err := range []error{errD, errL} {
+		if err == nil {
+			t.Error("no error for a sweep without oscillations")
+			continue
+		}
+		if n := strings.Count(err.Error(), name); n != 1 {
+			t.Errorf("file name appears %d times in %q", n, err)
+		}
+	}
 }

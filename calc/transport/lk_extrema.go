@@ -183,7 +183,10 @@ func oscFrequency(d *Dataset, bmin, bmax, hint float64, opts []Option) (float64,
 	if hint > 0 {
 		return hint, "from the given density", nil
 	}
-	return 0, "", fmt.Errorf("%s: no oscillation frequency: %w", d.Name, err)
+	if err == nil {
+		err = fmt.Errorf("%s: SdH analysis gave no positive frequency: %w", d.Name, ErrNoOscillation)
+	}
+	return 0, "", fmt.Errorf("no oscillation frequency: %w", err) // err starts with the file name
 }
 
 // xOverSinh is X/sinh X, with its series near 0.
