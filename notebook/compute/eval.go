@@ -4,8 +4,6 @@ import (
 	"fmt"
 	"io/fs"
 	"os"
-	"path/filepath"
-	"strings"
 
 	"cleave/calc"
 	"cleave/notebook"
@@ -56,12 +54,11 @@ func ResultOf(v calc.Value) Result {
 // fileEnv loads the notebook and evaluates every calc line of the file, so that an
 // expression sees the names they define.
 func fileEnv(root, inFile string) (*calc.Env, error) {
-	abs, err := filepath.Abs(inFile)
+	rel, inside, err := relToRoot(root, inFile)
 	if err != nil {
 		return nil, err
 	}
-	rel, err := filepath.Rel(root, abs)
-	if err != nil || strings.HasPrefix(rel, "..") {
+	if !inside {
 		return nil, fmt.Errorf("%s: not inside the notebook at %s", inFile, root)
 	}
 	fsys := os.DirFS(root)
@@ -69,9 +66,9 @@ func fileEnv(root, inFile string) (*calc.Env, error) {
 	if err != nil {
 		return nil, err
 	}
-	f, ok := nb.File(filepath.ToSlash(rel))
+	f, ok := nb.File(rel)
 	if !ok {
-		if _, err := fs.Stat(fsys, filepath.ToSlash(rel)); err != nil {
+		if _, err := fs.Stat(fsys, rel); err != nil {
 			return nil, fmt.Errorf("%s: no such file in the notebook", inFile)
 		}
 		return nil, fmt.Errorf("%s: not a Markdown file of the notebook", inFile)

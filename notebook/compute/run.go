@@ -247,18 +247,17 @@ func selector(root string, paths []string) (func(string) bool, error) {
 	}
 	var prefixes []string
 	for _, p := range paths {
-		abs, err := filepath.Abs(p)
+		rel, inside, err := relToRoot(root, p)
 		if err != nil {
 			return nil, err
 		}
-		rel, err := filepath.Rel(root, abs)
-		if err != nil || rel == ".." || strings.HasPrefix(rel, ".."+string(filepath.Separator)) {
+		if !inside {
 			return nil, fmt.Errorf("%s: outside the notebook at %s", p, root)
 		}
-		if _, err := os.Stat(abs); err != nil {
+		if _, err := os.Stat(p); err != nil {
 			return nil, fmt.Errorf("%s: %w", p, errors.Unwrap(err))
 		}
-		prefixes = append(prefixes, filepath.ToSlash(rel))
+		prefixes = append(prefixes, rel)
 	}
 	sort.Strings(prefixes)
 	return func(p string) bool {
@@ -269,6 +268,21 @@ func selector(root string, paths []string) (func(string) bool, error) {
 		}
 		return false
 	}, nil
+}
+
+// relToRoot returns p, an OS path (absolute or relative to the working directory), as a
+// slash path relative to the notebook root, and whether it lies inside the notebook (the
+// root itself included).
+func relToRoot(root, p string) (rel string, inside bool, err error) {
+	abs, err := filepath.Abs(p)
+	if err != nil {
+		return "", false, err
+	}
+	rel, err = filepath.Rel(root, abs)
+	if err != nil || !filepath.IsLocal(rel) {
+		return "", false, nil
+	}
+	return filepath.ToSlash(rel), true, nil
 }
 
 // errPos matches the start of an error result: "error: 13:11: message".
