@@ -57,7 +57,7 @@ func (d *DataSet) Display() string {
 // Field gives metadata values by key (`d.T`, `d.sample`) and the row count (`d.rows`).
 func (d *DataSet) Field(name string) (Value, bool) {
 	if name == "rows" {
-		return Q(quantity.Scalar(float64(d.D.Len()))), true
+		return num(float64(d.D.Len())), true
 	}
 	if name == "hash" {
 		return String(d.D.Hash), true
@@ -157,14 +157,6 @@ func est(e transport.Estimate, d quantity.Dim) Quantity {
 	return Q(quantity.New(e.Value, d))
 }
 
-func num(v float64) Quantity { return Q(quantity.Scalar(v)) }
-
-var (
-	dOhm         = dResistance
-	dOhmPerTesla = quantity.MustUnit("Ohm/T").D
-	dDensity2    = dDensity
-)
-
 // dataArg reads a data-set argument.
 func dataArg(args []Value, i int) (*transport.Dataset, error) {
 	d, ok := args[i].(*DataSet)
@@ -209,13 +201,11 @@ func strArg(args []Value, i int) (string, error) {
 	return string(s), nil
 }
 
-func str(def string) Value { return String(def) }
-
 // registerAnalysis adds the data-file analyses.
 func registerAnalysis(e *Env) {
 	e.Register(Func{Name: "hall_density",
 		Doc:    "Hall density from a linear fit of R_xy against B over a |B| range: n = 1/(e |slope|); the sign of the slope says electrons (negative, with B along +z) or holes",
-		Params: []Param{{Name: "d"}, {Name: "range"}, {Name: "x", Default: str("B")}, {Name: "y", Default: str("Rxy")}},
+		Params: []Param{{Name: "d"}, {Name: "range"}, {Name: "x", Default: String("B")}, {Name: "y", Default: String("Rxy")}},
 		Call: func(_ *Env, a []Value) (Value, error) {
 			d, lo, hi, err := dataAndRange(a)
 			if err != nil {
@@ -231,7 +221,7 @@ func registerAnalysis(e *Env) {
 		}})
 	e.Register(Func{Name: "sdh_density",
 		Doc:    "Shubnikov-de Haas density from the Fourier spectrum of R_xx against 1/B over a |B| range: n = gs gv (e/h) f_B",
-		Params: []Param{{Name: "d"}, {Name: "range"}, {Name: "gs", Default: num(2)}, {Name: "gv", Default: num(1)}, {Name: "x", Default: str("B")}, {Name: "y", Default: str("Rxx")}},
+		Params: []Param{{Name: "d"}, {Name: "range"}, {Name: "gs", Default: num(2)}, {Name: "gv", Default: num(1)}, {Name: "x", Default: String("B")}, {Name: "y", Default: String("Rxx")}},
 		Call: func(_ *Env, a []Value) (Value, error) {
 			d, lo, hi, err := dataAndRange(a)
 			if err != nil {
@@ -272,7 +262,7 @@ func registerAnalysis(e *Env) {
 			}
 			r := newResult("compare_densities", "relative_difference", []string{"verdict"},
 				"relative_difference", num(c.RelDiff),
-				"difference", est(c.Diff, dDensity2),
+				"difference", est(c.Diff, dDensity),
 				"verdict", String(verdict))
 			if c.Warning != nil {
 				r.Warnings = append(r.Warnings, c.Warning.Msg)
@@ -281,7 +271,7 @@ func registerAnalysis(e *Env) {
 		}})
 	e.Register(Func{Name: "zero_field",
 		Doc:    "a column's value at B = 0, by a local low-order fit over the points nearest zero field",
-		Params: []Param{{Name: "d"}, {Name: "column", Default: str("Rxx")}},
+		Params: []Param{{Name: "d"}, {Name: "column", Default: String("Rxx")}},
 		Call: func(_ *Env, a []Value) (Value, error) {
 			d, err := dataArg(a, 0)
 			if err != nil {
@@ -303,21 +293,21 @@ func registerAnalysis(e *Env) {
 		}})
 	e.Register(Func{Name: "symmetrize",
 		Doc:    "the data set over |B| with R_xx symmetrised and R_xy antisymmetrised from sweeps over +B and -B (with y=: only that column, symmetrised)",
-		Params: []Param{{Name: "d"}, {Name: "y", Default: str("")}, {Name: "x", Default: str("B")}},
+		Params: []Param{{Name: "d"}, {Name: "y", Default: String("")}, {Name: "x", Default: String("B")}},
 		Call:   func(_ *Env, a []Value) (Value, error) { return symmetrizeCall(a, +1) }})
 	e.Register(Func{Name: "antisymmetrize",
 		Doc:    "the data set over |B| with column y (default Rxy) antisymmetrised from sweeps over +B and -B",
-		Params: []Param{{Name: "d"}, {Name: "y", Default: str("Rxy")}, {Name: "x", Default: str("B")}},
+		Params: []Param{{Name: "d"}, {Name: "y", Default: String("Rxy")}, {Name: "x", Default: String("B")}},
 		Call:   func(_ *Env, a []Value) (Value, error) { return symmetrizeCall(a, -1) }})
 }
 
 // hallValue is the language's view of a Hall fit.
 func hallValue(h *transport.HallResult) *Result {
 	r := newResult("hall_density", "n", []string{"carriers"},
-		"n", est(h.Density, dDensity2),
+		"n", est(h.Density, dDensity),
 		"carriers", String(h.Carriers),
-		"slope", est(h.Slope, dOhmPerTesla),
-		"intercept", est(h.Intercept, dOhm),
+		"slope", est(h.Slope, dHallSlope),
+		"intercept", est(h.Intercept, dResistance),
 		"points", num(float64(len(h.B))),
 		"range", Range{Lo: quantity.New(h.BMin, dField), Hi: quantity.New(h.BMax, dField)},
 	).warn(h.Warnings)
@@ -328,7 +318,7 @@ func hallValue(h *transport.HallResult) *Result {
 // sdhValue is the language's view of an SdH analysis.
 func sdhValue(s *transport.SdHResult) *Result {
 	r := newResult("sdh_density", "n", []string{"frequency"},
-		"n", est(s.Density, dDensity2),
+		"n", est(s.Density, dDensity),
 		"frequency", est(s.Frequency, dField),
 		"oscillations", num(s.Oscillations),
 		"gs", num(s.GS),

@@ -13,12 +13,6 @@ import (
 // oscillations, quantum lifetime from a Dingle plot, quantum Hall plateaus, gate series,
 // van der Pauw Hall density and the sanity checks of a raw sweep.
 
-var (
-	dVolt    = quantity.MustUnit("V").D
-	dCapArea = quantity.MustUnit("F/m^2").D
-	dPerVolt = quantity.MustUnit("m^-2/V").D
-)
-
 // optQ reads an optional quantity argument whose default is the string "none".
 func optQ(args []Value, i int, d quantity.Dim, what string) (quantity.Quantity, bool, error) {
 	switch v := args[i].(type) {

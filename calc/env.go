@@ -299,7 +299,7 @@ func (e *Env) lookupName(id *Ident) (Value, error) {
 		return v, nil
 	}
 	if id.Name == "pi" || id.Name == "π" {
-		return Q(quantity.Scalar(math.Pi)), nil
+		return num(math.Pi), nil
 	}
 	if c, ok := constants.Lookup(id.Name); ok {
 		return Q(c.Quantity()), nil
@@ -357,13 +357,13 @@ func materialRecord(m materials.Material) *Record {
 		add("mstar", Q(quantity.New(m.Mstar*quantity.ElectronMass, quantity.Mass)))
 	}
 	if !math.IsNaN(m.EpsR) && m.EpsR > 0 {
-		add("eps_r", Q(quantity.Scalar(m.EpsR)))
+		add("eps_r", num(m.EpsR))
 	}
 	if !math.IsNaN(m.G) {
-		add("g", Q(quantity.Scalar(m.G)))
+		add("g", num(m.G))
 	}
-	add("gs", Q(quantity.Scalar(float64(m.Gs))))
-	add("gv", Q(quantity.Scalar(float64(m.Gv))))
+	add("gs", num(float64(m.Gs)))
+	add("gv", num(float64(m.Gv)))
 	if m.VF > 0 {
 		add("vF", Q(quantity.New(m.VF, quantity.Length.Div(quantity.Time))))
 	}
@@ -371,7 +371,7 @@ func materialRecord(m materials.Material) *Record {
 		add("carrier", String(m.Carrier))
 	}
 	if !math.IsNaN(m.X) {
-		add("x", Q(quantity.Scalar(m.X)))
+		add("x", num(m.X))
 	}
 	return r
 }

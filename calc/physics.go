@@ -19,6 +19,10 @@ var (
 	dMobility   = quantity.MustUnit("m^2/(V s)").D
 	dTime       = quantity.Time
 	dTemp       = quantity.Temperature
+	dHallSlope  = quantity.MustUnit("Ohm/T").D
+	dVolt       = quantity.MustUnit("V").D
+	dCapArea    = quantity.MustUnit("F/m^2").D
+	dPerVolt    = quantity.MustUnit("m^-2/V").D
 )
 
 func dimp(d quantity.Dim) *quantity.Dim { return &d }
@@ -29,13 +33,12 @@ func req(name string, d quantity.Dim) Param { return Param{Name: name, Dim: dimp
 func mass(name string) Param { return Param{Name: name, Dim: dimp(dMass), FromRecord: "mstar"} }
 
 func opt(name string, def float64) Param {
-	return Param{Name: name, Dim: dimp(dNone), Default: Q(quantity.Scalar(def))}
+	return Param{Name: name, Dim: dimp(dNone), Default: num(def)}
 }
 
 // intArg converts a dimensionless exact argument to an int (Landau index, degeneracy).
 func intArg(args []Value, i int) (int, error) {
-	q := args[i].(Quantity).Q
-	v := q.Value()
+	v := qa(args, i).Value()
 	if v != math.Trunc(v) || math.Abs(v) > 1e6 {
 		return 0, &ArgError{Arg: i, Err: fmt.Errorf("%w: needs a whole number, found %g", ErrArgument, v)}
 	}

@@ -67,7 +67,7 @@ func registerTransport(add func(name, doc string, params []Param, f func(args []
 			}
 			return physics.MeanFreePath(qa(a, 0), qa(a, 1), gs, gv)
 		})
-	add("density_from_slope", "n = 1/(e |dR_xy/dB|) from a Hall slope (hall_density fits a data set)", []Param{req("slope", quantity.MustUnit("Ohm/T").D)},
+	add("density_from_slope", "n = 1/(e |dR_xy/dB|) from a Hall slope (hall_density fits a data set)", []Param{req("slope", dHallSlope)},
 		func(a []Value) (q, error) { return physics.HallDensity(qa(a, 0)) })
 	add("vdp_sheet_resistance", "van der Pauw: exp(-pi R1/Rs) + exp(-pi R2/Rs) = 1", []Param{req("R1", dResistance), req("R2", dResistance)},
 		func(a []Value) (q, error) { return physics.VdpSheetResistance(qa(a, 0), qa(a, 1)) })

@@ -89,7 +89,7 @@ func registerStack(e *Env) {
 			st := band.Stack{Layers: layers}
 			st.Surface.BarrierEV = qa(a, 2).Value() / eV.Scale
 			if g, ok := a[3].(Quantity); ok {
-				if g.Q.Dim() != quantity.MustUnit("V").D {
+				if g.Q.Dim() != dVolt {
 					return nil, &ArgError{Arg: 3, Err: fmt.Errorf("%w: gate must be a voltage, found %s", ErrArgument, g.Q.Dim())}
 				}
 				st.Surface.Kind = band.SurfaceGate

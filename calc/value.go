@@ -65,6 +65,9 @@ type Record struct {
 // Q wraps a quantity.Quantity as a Value.
 func Q(q quantity.Quantity) Quantity { return Quantity{Q: q} }
 
+// num wraps a plain dimensionless number.
+func num(v float64) Quantity { return Q(quantity.Scalar(v)) }
+
 func (Quantity) Type() string { return "quantity" }
 func (String) Type() string   { return "string" }
 func (List) Type() string     { return "list" }
@@ -135,7 +138,7 @@ func (d *DataFile) Field(name string) (Value, bool) {
 	case "hash":
 		return String(d.Hash), true
 	case "size":
-		return Q(quantity.Scalar(float64(d.Size))), true
+		return num(float64(d.Size)), true
 	}
 	return nil, false
 }
