@@ -74,8 +74,14 @@
 // The cache is file-level, not block-level: the [Evaluator] carries names from
 // earlier blocks into later ones and offers no way to restore that state from
 // cached display strings, so a change anywhere in a file's calc blocks
-// re-evaluates the whole file. Nothing is ever evicted; delete the directory
-// to reclaim space.
+// re-evaluates the whole file.
+//
+// Each entry is a file of its own; in addition [Cache.Flush] writes the
+// entries one session used into a single pack file in the same directory,
+// which the next session reads at its first lookup instead of one file per
+// entry. The pack holds only what the last session used; entry files are
+// never evicted, so delete the directory to reclaim space (results stay the
+// same, only the next run is slower).
 //
 // # Writing files
 //
