@@ -1,9 +1,10 @@
-// Package hooks holds everything of cleave that touches git: creating a notebook repository,
-// committing the demo notebook's story, and (later) the pre-commit hook, the merge driver,
-// sample history and review reports.
+// Package hooks holds the parts of cleave that create or write git repositories: making a
+// notebook (`cleave init`: a repository when the folder is not inside one, the conventional
+// folders, a README) and committing the demo notebook's story (`cleave demo`).
 //
-// Reading history uses go-git; anything that writes the index of a user's repository goes
-// through the git binary (go-git ignores GIT_INDEX_FILE and drops index extensions).
-// The only index writes here are in repositories this package has just created itself
-// (`cleave init` on a new folder, `cleave demo`), where go-git is safe.
+// Both use go-git. The index is written only in repositories this package has just created
+// itself (the demo notebook), where go-git is safe; `cleave init` inside an existing repository
+// writes files but never touches its index. Code that has to write the index of a user's
+// repository must go through the git binary instead: go-git ignores GIT_INDEX_FILE and drops
+// index extensions.
 package hooks
