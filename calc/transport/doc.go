@@ -1,13 +1,12 @@
-// Package transport reads magnetotransport data files and runs the standard
-// analyses on them: Hall density, (anti)symmetrisation over ±B, the value at
-// zero field, and the Shubnikov–de Haas (SdH) density from a Fourier analysis
-// against 1/B. It also generates synthetic sweeps from published models, for
-// tests and for the demo notebook.
+// Package transport reads magnetotransport data files of Hall bars and van der
+// Pauw samples and runs the standard analyses on them, each with a standard
+// uncertainty and a list of warnings. It also generates synthetic sweeps from
+// published models, for tests and for the demo notebook.
 //
-// Everything inside is float64 in coherent SI units (T, Ohm, K, m^-2); units
-// are converted once, when a file is read. The package does not know about
-// calc blocks, notebooks or git, and it must not import package calc (calc
-// imports it).
+// Everything inside is float64 in coherent SI units (T, Ohm, K, m^-2, kg, s);
+// units are converted once, when a file is read. The package does not know
+// about calc blocks, notebooks or git, and it must not import package calc
+// (calc imports it and wraps the analyses as calc functions).
 //
 // # Data files
 //
@@ -24,6 +23,7 @@
 // is taken to be in T, Ohm or K. Blank lines and "#" lines after the header are
 // skipped. An empty field or NaN is a missing value, stored as NaN so that all
 // columns keep the same length; decimal commas and infinities are errors.
+// [WriteCSV] writes a data set back in the same format.
 //
 // Missing values are dropped pair-wise at analysis time: an analysis of Rxy
 // against B skips the rows where B or Rxy is NaN, whatever the other columns hold.
@@ -32,37 +32,106 @@
 // no allocation per row) and computes the SHA-256 of the bytes read as
 // [Dataset.Hash], which results carry as DataHash so that a changed file makes
 // a stored result stale. Errors about the content are [*ParseError] values,
-// "file:line:col: message", wrapping a sentinel such as [ErrUnknownUnit].
+// "file:line:col: message", wrapping a sentinel such as [ErrUnknownUnit] or
+// [ErrUnitDim]; a unit of the wrong kind is named in trade terms ("unit "Ohm"
+// of column "B" is a resistance; expected a magnetic field (T)").
 //
-// # Results
+// # Analyses
 //
-// Each analysis returns a result struct holding the value as an [Estimate]
-// (value and standard uncertainty), the columns, the field range, the points
-// used, the data hash and a list of [Warning] values (sanity checks a reviewer
-// wants to see; codes such as [WarnCurvature] are stable). Bad arguments and
-// too few points are errors; doubtful data is a warning.
+// Of a field sweep ([Dataset]):
 //
-// # Building blocks for further analyses
+//   - [HallDensity]: n = 1/(e|dR_xy/dB|) from a straight-line fit;
+//   - [ZeroField]: a column's value at B = 0 from a local fit;
+//   - [Symmetrize] and [Antisymmetrize]: the even and odd parts over ±B on one
+//     |B| grid, with the field offset that best explains the removed part;
+//   - [SdHDensity]: the Shubnikov–de Haas frequency of R_xx against 1/B
+//     (background removal, Fourier transform, least-squares refinement) and
+//     n = g_s g_v (e/h) f_B;
+//   - [QuantumLifetime]: the Dingle analysis, τ_q, the Dingle temperature,
+//     the quantum mobility and, with [WithMobility], the ratio τ_t/τ_q;
+//   - [LKMassSweeps]: the effective mass from sweeps at several temperatures,
+//     an LK fit at each extremum of the oscillation and their weighted mean;
+//   - [Plateaus]: quantum Hall plateaus in R_xy with their filling factors and
+//     deviations from R_K/ν;
+//   - [CheckSweep]: sanity checks of a raw sweep that belong to no one analysis.
 //
-// [FitPoly] is a weighted or unweighted polynomial least-squares fit with a
-// residual-based covariance ([PolyFit.CoefEstimate], [PolyFit.EvalEstimate]).
-// [Symmetrize] and [Antisymmetrize] put +B and −B data on one |B| grid.
-// [SdHDensity] exposes its spectrum; [SdHFrequency] and [DensityFromSdH]
-// convert between density and SdH frequency; [SweepParams.Resistivity] is the
-// model behind [Sweep] and can generate test data for Dingle, Lifshitz–Kosevich
-// and plateau analyses (set Temperature or QuantumLifetime and sample it).
-// Options ([Option]) are shared by all analyses; new analyses should add their
-// own With... functions in the same style and ignore the others.
+// Of numbers taken from results or typed in:
+//
+//   - [LKMassTable]: the Lifshitz–Kosevich fit of amplitudes against T at one field;
+//   - [LandauFan]: density and intercept from filling factors against 1/B;
+//   - [GateCapacitance] and [ParallelPlateCapacitance]: n(V_g) and its
+//     geometric expectation; [MobilityPowerLaw]: μ ∝ n^α;
+//   - [VdPHallDensity], [VdPHallDensityPolarity] and [VdPSheet]: van der Pauw
+//     density and sheet resistance;
+//   - [CompareDensities]: Hall against SdH density; [Scorecard]: per-wafer
+//     summaries of density and mobility, dark and illuminated.
+//
+// [SdHFrequency], [DensityFromSdH], [ThermalDamping] and [DingleFactor] are
+// the closed forms the analyses use. Each function's comment states its
+// method, its units and the reference it follows (REFERENCE sections).
+//
+// # Uncertainties
+//
+// Each result holds its values as [Estimate] (value and standard uncertainty).
+// Fits go through [FitPoly], a weighted or unweighted polynomial least-squares
+// fit; without weights its covariance is scaled by the residuals, with
+// weights (WithSigma, or bin counts in SdHDensity) it is that of the weights,
+// scaled by sqrt(χ²/DoF) where the analysis says so. Non-linear fits (the SdH
+// refinement, the LK fit) take σ from the covariance σ̂²(JᵀWJ)⁻¹ at the
+// optimum. Derived values carry the relative uncertainty of the fitted one
+// (first-order propagation); independent readings are combined in quadrature.
+// The SdH, Dingle and LK uncertainties are tested for coverage over 50 seeded
+// synthetic sweeps each: how often the true value lies within ±2σ (95 % for
+// an exact σ; each test states the fraction it requires).
+//
+// # Warnings
+//
+// Bad arguments and too few points are errors (sentinels [ErrBadArgument],
+// [ErrTooFewPoints], [ErrNoField], [ErrNoOscillation]); doubtful data gives a
+// result with [Warning] values. A warning's Code is stable and meant for
+// programs (the review report), its Msg for people. The codes are the Warn...
+// constants: fit shape and offsets ([WarnCurvature], [WarnEvenPart],
+// [WarnOddPart], [WarnOffset], [WarnXYAtZero], [WarnExtrapolated],
+// [WarnNegative]), data quality ([WarnFewPoints], [WarnOutOfPhase],
+// [WarnGap], [WarnDensityRange]), the SdH spectrum ([WarnWeakPeak],
+// [WarnHarmonic], [WarnDisagree]), the quantum Hall regime ([WarnRxxNotZero],
+// [WarnPlateauDev], [WarnFilling], [WarnFanIntercept]), the LK and Dingle
+// analyses ([WarnSaturation], [WarnMass], [WarnDingleRatio], [WarnIntercept],
+// [WarnFrequency], [WarnInsignificant]), gates ([WarnGateCurvature]) and van
+// der Pauw samples ([WarnReciprocity], [WarnVdPRatio]).
+//
+// # Options
+//
+// Options ([Option]) are shared by all analyses, and each ignores those that
+// do not apply to it: columns ([WithField], [WithColumns], [WithSigma]),
+// the SdH analysis ([WithValleyDegeneracy], [WithBackground], [WithPadding]),
+// [WithPoints] for ZeroField, and the expectations the warnings compare with
+// ([WithMobility], [WithExpectedMass], [WithDensity]). A new analysis adds
+// its own With... functions in the same style.
+//
+// # Synthetic sweeps
+//
+// [Sweep] samples [SweepParams.Resistivity]: the Drude tensor of the main
+// channel, optionally a parallel Drude channel ([Layer]), and the low-field
+// SdH form Δρ_xx/ρ_0 = 4 (X/sinh X) exp(−π/(ω_c τ_q)) cos(2π f_B/B − π), with
+// Gaussian noise from a seeded generator, an R_xx pick-up into R_xy and
+// out-of-phase lock-in columns on request. With Plateaus set, a smoothed-step
+// model gives the look of the quantum Hall regime. Its limits: the low-field
+// form is not clipped and holds only while the oscillation is small; the
+// plateau model is not a microscopic theory; spin splitting is not modelled
+// (g_s = 2 gives even ν only); there is no classical magnetoresistance of
+// the main channel and no temperature dependence other than X/sinh X.
 //
 // # Sign convention
 //
 // With B along +z, the current along +x and ρ_xy = E_y/j_x, the Drude model
 // gives ρ_xy = B/(q n): a negative Hall slope means electrons (REFERENCE §2.6).
-// The density always uses |slope|.
+// Densities always use |slope|.
 //
 // # Not covered here
 //
-// Quantum Hall plateau detection, the Lifshitz–Kosevich mass, the Dingle
-// analysis, van der Pauw Hall measurements and gate series live in other
-// files of this package.
+// Band structure and expected densities (package band), material parameters
+// (package materials), physical constants (package constants), and anything
+// about notebooks: which file belongs to which device and cooldown, and where
+// results are stored, is the caller's business.
 package transport
