@@ -62,17 +62,16 @@ func WithPoints(k int) Option { return func(o *options) { o.points = k } }
 // Warning codes. A Warning's Code is stable and meant for programs (the review
 // report); its Msg is for people.
 const (
-	WarnCurvature     = "curvature"         // R_xy(B) not linear in the fit range: parallel conduction?
-	WarnEvenPart      = "even-part"         // R_xy has a part even in B: R_xx pick-up, antisymmetrize
-	WarnOffset        = "zero-field-offset" // R_xy(0) far from 0: probe misalignment
-	WarnOutOfPhase    = "out-of-phase"      // large lock-in Y component
-	WarnFewPoints     = "few-points"        // a fit with few points or few oscillations
-	WarnExtrapolated  = "extrapolated"      // value at B = 0 extrapolated from one side
-	WarnDisagree      = "densities-disagree"
-	WarnWeakPeak      = "weak-peak"     // SdH peak barely above the spectrum floor
-	WarnSpectrumLimit = "peak-at-limit" // SdH peak at the edge of the allowed range
-	WarnGap           = "data-gap"      // SdH window has a hole in the data wider than half a period
-	WarnHarmonic      = "harmonic"      // SdH spectrum has a strong peak at twice or half f_B: spin splitting?
+	WarnCurvature    = "curvature"         // R_xy(B) not linear in the fit range: parallel conduction?
+	WarnEvenPart     = "even-part"         // R_xy has a part even in B: R_xx pick-up, antisymmetrize
+	WarnOffset       = "zero-field-offset" // R_xy(0) far from 0: probe misalignment
+	WarnOutOfPhase   = "out-of-phase"      // large lock-in Y component
+	WarnFewPoints    = "few-points"        // a fit with few points or few oscillations
+	WarnExtrapolated = "extrapolated"      // value at B = 0 extrapolated from one side
+	WarnDisagree     = "densities-disagree"
+	WarnWeakPeak     = "weak-peak" // SdH peak barely above the spectrum floor
+	WarnGap          = "data-gap"  // SdH window has a hole in the data wider than half a period
+	WarnHarmonic     = "harmonic"  // SdH spectrum has a strong peak at twice or half f_B: spin splitting?
 )
 
 // Warning is a sanity check that failed; the result is still returned.
