@@ -18,11 +18,12 @@ var (
 	kB   = constants.Value("k_B")  // J/K
 	me   = constants.Value("m_e")  // kg
 	eps0 = constants.Value("eps0") // F/m
+	hPl  = constants.Value("h")    // J s
 )
 
 // rydbergEV is the hydrogen Rydberg energy m_e e⁴/(8 ε0² h²) in eV, computed from the
 // CODATA 2018 constants.
-var rydbergEV = me * qe * qe * qe / (8 * eps0 * eps0 * (2 * math.Pi * hbar) * (2 * math.Pi * hbar))
+var rydbergEV = me * qe * qe * qe / (8 * eps0 * eps0 * hPl * hPl)
 
 // ErrUnknownMaterial is returned (wrapped) for a material with no band parameters.
 var ErrUnknownMaterial = errors.New("unknown material")
