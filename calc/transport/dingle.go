@@ -49,7 +49,7 @@ const MinDingleExtrema = 3
 // SdHDensity) is removed; the extrema of the oscillatory part ΔR are placed
 // using the SdH frequency of the data (SdHDensity; the frequency
 // h n/(2e)/g_v from n when that analysis fails) and each is measured by a local
-// least-squares sinusoid over half a period. Extrema with |ΔR| < 2σ are
+// least-squares sinusoid over one period centred on it. Extrema with |ΔR| < 2σ are
 // dropped. The Dingle plot
 //
 //	y = ln[|ΔR| sinh X / (4 R_0 X)],  X = 2π² k_B T m*/(ħ e B),

@@ -338,8 +338,8 @@ func sweepTemperature(d *Dataset) (float64, error) {
 // polynomial background in B removed as in SdHDensity (WithBackground). The
 // SdH frequency of the coldest sweep (SdHDensity) places the extrema, which
 // are located in the coldest sweep; at each of them the oscillatory part of
-// every sweep is measured by a local least-squares sinusoid over half a period
-// (value ± σ). Each extremum whose coldest amplitude exceeds 5σ is fitted with
+// every sweep is measured by a local least-squares sinusoid over one period
+// centred on it (value ± σ). Each extremum whose coldest amplitude exceeds 5σ is fitted with
 // the LK form (weighted by 1/σ²; see LKMassTable), and the masses are combined
 // by the inverse-variance weighted mean, whose uncertainty is scaled by
 // sqrt(χ²/(K−1)) when that exceeds 1.

@@ -65,13 +65,14 @@ func (o *oscData) phase(f float64) float64 {
 	return cmplx.Phase(s)
 }
 
-// localFit fits r ≈ c0 + c1 t + α cos(2π f t) + β sin(2π f t), t = u − uc,
-// to the points within half a period of uc (one full period in all), by
-// linear least squares with a residual-based covariance. The local constant
-// and slope absorb what the global background polynomial leaves (a large
-// oscillation pulls that polynomial); α is unbiased by a linear change of the
-// envelope across the window, which only feeds the odd terms. ok is false when
-// the window is not inside the data or holds fewer than 8 points.
+// localFit fits r ≈ c0 + c1 s + α cos(2π f t) + β sin(2π f t) + γ s cos(2π f t)
+// + δ s² cos(2π f t), t = u − uc, s = t/h, h = 1/(2f), to the points within
+// half a period of uc (one full period in all), by linear least squares with a
+// residual-based covariance. The local constant and slope absorb what the
+// global background polynomial leaves (a large oscillation pulls that
+// polynomial); the s cos and s² cos terms take up a change of the envelope
+// across the window, so α is the amplitude at uc. ok is false when the window
+// is not inside the data or holds fewer than 8 points.
 func (o *oscData) localFit(f, uc float64) (alpha, beta, sigA, c0 float64, n int, ok bool) {
 	h := 1 / (2 * f)
 	if uc-h < o.u[0] || uc+h > o.u[len(o.u)-1] {
