@@ -181,18 +181,7 @@ func (c *Cache) Put(key string, results []string) error {
 	var buf bytes.Buffer
 	buf.WriteString(CacheVersion + "\n" + entrySum(key, payload) + "\n")
 	buf.Write(payload)
-	f, err := os.CreateTemp(filepath.Dir(p), ".tmp-*")
-	if err != nil {
-		return fmt.Errorf("calc cache: %w", err)
-	}
-	_, werr := f.Write(buf.Bytes())
-	cerr := f.Close()
-	if err := errors.Join(werr, cerr); err != nil {
-		os.Remove(f.Name())
-		return fmt.Errorf("calc cache: %w", err)
-	}
-	if err := os.Rename(f.Name(), p); err != nil {
-		os.Remove(f.Name())
+	if err := ReplaceFile(p, buf.Bytes()); err != nil {
 		return fmt.Errorf("calc cache: %w", err)
 	}
 	c.remember(key, buf.Bytes(), true)
@@ -262,18 +251,7 @@ func (c *Cache) Flush() error {
 		buf = append(buf, '\n')
 		buf = append(buf, c.used[k]...)
 	}
-	f, err := os.CreateTemp(c.dir, ".tmp-pack-*")
-	if err != nil {
-		return fmt.Errorf("calc cache: %w", err)
-	}
-	_, werr := f.Write(buf)
-	cerr := f.Close()
-	if err := errors.Join(werr, cerr); err != nil {
-		os.Remove(f.Name())
-		return fmt.Errorf("calc cache: %w", err)
-	}
-	if err := os.Rename(f.Name(), filepath.Join(c.dir, packName)); err != nil {
-		os.Remove(f.Name())
+	if err := ReplaceFile(filepath.Join(c.dir, packName), buf); err != nil {
 		return fmt.Errorf("calc cache: %w", err)
 	}
 	c.pack, c.dirty = c.used, false
@@ -424,4 +402,26 @@ func store(opt Options, path string, blocks []Block, deps []string, rs []cached)
 	ent = append(ent, deps...)
 	ent = append(ent, encodeResults(rs)...)
 	_ = opt.Cache.Put(tk, ent)
+}
+
+// ReplaceFile writes data to a temporary file beside path and renames it over path, so a
+// reader sees the old content or the new, never a part. It is for the tool's own files
+// under the git directory (cache entries, the pack, the last good check's digest), where a
+// lost write only costs time; notebook files go through WriteAtomic, which also fsyncs and
+// refuses a file changed on disk.
+func ReplaceFile(path string, data []byte) error {
+	f, err := os.CreateTemp(filepath.Dir(path), ".tmp-*")
+	if err != nil {
+		return err
+	}
+	_, werr := f.Write(data)
+	if err := errors.Join(werr, f.Close()); err != nil {
+		os.Remove(f.Name())
+		return err
+	}
+	if err := os.Rename(f.Name(), path); err != nil {
+		os.Remove(f.Name())
+		return err
+	}
+	return nil
 }

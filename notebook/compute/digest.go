@@ -1,7 +1,6 @@
 package compute
 
 import (
-	"bufio"
 	"crypto/sha256"
 	"encoding/hex"
 	"fmt"
@@ -87,22 +86,7 @@ func RememberGoodCheck(root string) error {
 	if err := os.MkdirAll(dir, 0o755); err != nil {
 		return err
 	}
-	tmp, err := os.CreateTemp(dir, digestFile+".tmp-*")
-	if err != nil {
-		return err
-	}
-	w := bufio.NewWriter(tmp)
-	fmt.Fprintln(w, d)
-	if err := w.Flush(); err != nil {
-		tmp.Close()
-		os.Remove(tmp.Name())
-		return err
-	}
-	if err := tmp.Close(); err != nil {
-		os.Remove(tmp.Name())
-		return err
-	}
-	return os.Rename(tmp.Name(), filepath.Join(dir, digestFile))
+	return calcblock.ReplaceFile(filepath.Join(dir, digestFile), []byte(d+"\n"))
 }
 
 // ForgetGoodCheck removes the stored digest (after a check that found problems).
