@@ -58,7 +58,8 @@ func registerAnalysis2(e *Env) {
 		Doc: "effective mass from the thermal damping X/sinh X of the oscillation amplitude (Lifshitz–Kosevich): " +
 			"lk_mass([data sets at several temperatures], B range) with each file's temperature from its metadata (T), " +
 			"or given as a list T=[...]; or lk_mass(table, B) with a table of columns T and A at one field B",
-		Params: []Param{{Name: "x"}, {Name: "B"}, {Name: "T", Default: String("T")}, {Name: "A", Default: String("A")}},
+		Params: []Param{{Name: "x"}, {Name: "B"}, {Name: "T", Default: String("T")}, {Name: "A", Default: String("A")},
+			{Name: "field", Default: String("B")}, {Name: "y", Default: String("Rxx")}},
 		Call: func(_ *Env, a []Value) (Value, error) {
 			switch x := a[0].(type) {
 			case List:
@@ -83,7 +84,9 @@ func registerAnalysis2(e *Env) {
 						return nil, &ArgError{Arg: 2, Err: fmt.Errorf("%w: %d temperatures for %d data sets", ErrArgument, len(tl), len(sweeps))}
 					}
 				}
-				r, err := transport.LKMassSweeps(sweeps, temps, lo, hi)
+				fcol, _ := strArg(a, 4)
+				ycol, _ := strArg(a, 5)
+				r, err := transport.LKMassSweeps(sweeps, temps, lo, hi, transport.WithColumns(fcol, ycol))
 				if err != nil {
 					return nil, err
 				}
@@ -126,7 +129,8 @@ func registerAnalysis2(e *Env) {
 		Doc: "quantum lifetime tau_q from a Dingle plot of the oscillation amplitudes over a B range, for mass m and density n at temperature T " +
 			"(from the file's metadata when not given); with mu= also the transport time and the Dingle ratio tau_t/tau_q",
 		Params: []Param{{Name: "d"}, {Name: "range"}, mass("m"), {Name: "n", Dim: dimp(dDensity)},
-			{Name: "T", Default: String("none")}, {Name: "mu", Default: String("none")}},
+			{Name: "T", Default: String("none")}, {Name: "mu", Default: String("none")},
+			{Name: "x", Default: String("B")}, {Name: "y", Default: String("Rxx")}},
 		Call: func(_ *Env, a []Value) (Value, error) {
 			d, lo, hi, err := dataAndRange(a)
 			if err != nil {
@@ -145,7 +149,9 @@ func registerAnalysis2(e *Env) {
 				}
 				temp = q.Value()
 			}
-			var opts []transport.Option
+			xcol, _ := strArg(a, 6)
+			ycol, _ := strArg(a, 7)
+			opts := []transport.Option{transport.WithColumns(xcol, ycol)}
 			mu, hasMu, err := optQ(a, 5, dMobility, "a mobility")
 			if err != nil {
 				return nil, err
@@ -173,8 +179,9 @@ func registerAnalysis2(e *Env) {
 			return newResult("quantum_lifetime", "tau_q", extra, kv...).warn(r.Warnings), nil
 		}})
 	e.Register(Func{Name: "plateaus",
-		Doc:    "quantum Hall plateaus in R_xy with their filling factors and relative deviation from R_K/nu; with n= each is checked against the filling factor the density puts there",
-		Params: []Param{{Name: "d"}, {Name: "n", Default: String("none")}, {Name: "fractions", Default: num(0)}},
+		Doc: "quantum Hall plateaus in R_xy with their filling factors and relative deviation from R_K/nu; with n= each is checked against the filling factor the density puts there",
+		Params: []Param{{Name: "d"}, {Name: "n", Default: String("none")}, {Name: "fractions", Default: num(0)},
+			{Name: "x", Default: String("B")}, {Name: "y", Default: String("Rxy")}, {Name: "rxx", Default: String("Rxx")}},
 		Call: func(_ *Env, a []Value) (Value, error) {
 			d, err := dataArg(a, 0)
 			if err != nil {
@@ -185,6 +192,9 @@ func registerAnalysis2(e *Env) {
 				return nil, err
 			}
 			opt := transport.PlateauOptions{Fractions: qa(a, 2).Value() != 0}
+			opt.XCol, _ = strArg(a, 3)
+			opt.YCol, _ = strArg(a, 4)
+			opt.RxxCol, _ = strArg(a, 5)
 			if hasN {
 				opt.Density = n.Value()
 			}
