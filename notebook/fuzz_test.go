@@ -6,11 +6,13 @@ import (
 	"testing"
 	"testing/fstest"
 	"time"
+	"unicode/utf8"
 )
 
 // FuzzLoad loads a two-file notebook whose second file has fuzzed front
 // matter and body. Load and Validate must not panic, and every problem must
-// point inside its file: 1 ≤ line ≤ number of lines, col ≥ 1.
+// point inside its file: 1 ≤ line ≤ number of lines and 1 ≤ col ≤ the
+// characters on that line + 1 (one past the end marks a missing value).
 func FuzzLoad(f *testing.F) {
 	f.Add("id: W1\nkind: wafer", "## Layers\n\n| material | thickness |\n|---|---|\n| GaAs | 10 nm |\n")
 	f.Add("id: P1\nkind: piece\nfrom: W0\nwidth: 20", "body")
@@ -41,9 +43,12 @@ func FuzzLoad(f *testing.F) {
 			if !ok {
 				t.Fatalf("problem in unknown file: %v", p)
 			}
-			lines := bytes.Count(fl.Src.Raw, []byte("\n")) + 1
-			if p.Line < 1 || p.Line > lines || p.Col < 1 {
-				t.Fatalf("position outside the file (%d lines): %v", lines, p)
+			lines := bytes.Split(fl.Src.Raw, []byte("\n"))
+			if p.Line < 1 || p.Line > len(lines) || p.Col < 1 {
+				t.Fatalf("position outside the file (%d lines): %v", len(lines), p)
+			}
+			if n := utf8.RuneCount(lines[p.Line-1]); p.Col > n+1 {
+				t.Fatalf("column past the end of line %d (%d characters): %v", p.Line, n, p)
 			}
 		}
 		for _, e := range nb.Entries {
