@@ -149,9 +149,32 @@ func bandValue(st band.Stack, res *band.Result, donorDepthEV float64) *Result {
 	if in, err := band.AnalyticInputFor(st, donorDepthEV); err == nil {
 		if an, err := band.Analytic(in); err == nil {
 			r.Rec.Fields = append(r.Rec.Fields, RecordField{Name: "analytic", Value: Q(quantity.New(an.N2D, dDensity))})
+			// The analytic estimate assumes a doped layer thick enough to supply any density
+			// and no surface; when it asks for more electrons than the stack has donors,
+			// it does not describe this stack.
+			if nd := donorSheet(st); an.N2D > nd {
+				r.Warnings = append(r.Warnings, fmt.Sprintf("the analytic estimate %.3g cm^-2 exceeds the %.3g cm^-2 donors of the stack: its thick-doped-layer, no-surface model does not apply here",
+					an.N2D*1e-4, nd*1e-4))
+			}
 		}
 	}
 	return r
+}
+
+// donorSheet is the stack's donors per area, m^-2: sheet densities plus bulk densities times
+// their layer thickness.
+func donorSheet(st band.Stack) float64 {
+	total := 0.0
+	for _, l := range st.Layers {
+		switch {
+		case !l.Doping.Donor() || l.Doping.Density <= 0:
+		case l.Doping.Sheet:
+			total += l.Doping.Density
+		default:
+			total += l.Doping.Density * l.ThicknessM
+		}
+	}
+	return total
 }
 
 // registerMaterial adds material(name): the material record for a name held in a string,
