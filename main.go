@@ -17,6 +17,7 @@ import (
 	"sort"
 	"strings"
 	"time"
+	"unicode/utf8"
 
 	"cleave/hooks"
 	"cleave/notebook"
@@ -36,7 +37,7 @@ var commands []command
 func init() {
 	commands = []command{
 		{"init", "[DIR]", "create a notebook: a git repository, the conventional folders and a README", runInit},
-		{"new", "KIND ID [--from PARENT]...", "write a new entry from its template (kinds: wafer piece mask process device cooldown)", runNew},
+		{"new", "KIND ID [--from PARENT]... [--by INITIALS]", "write a new entry from its template (kinds: wafer piece mask process device cooldown)", runNew},
 		{"tree", "[ID]", "print the lineage of one sample (ancestors and descendants) or of the whole notebook", runTree},
 		{"validate", "", "check every entry: ids, links, kinds, front matter, layer tables, units", runValidate},
 		{"calc", "[PATH...]", "recompute calc blocks and write their results", runCalc},
@@ -104,8 +105,12 @@ func lookup(name string) (command, bool) {
 func usage(w io.Writer) {
 	fmt.Fprintln(w, "usage: cleave [-C DIR] COMMAND [ARGS]")
 	fmt.Fprintln(w, "\ncommands:")
+	width := 0
 	for _, cmd := range commands {
-		fmt.Fprintf(w, "  %-9s %-28s %s\n", cmd.name, cmd.args, cmd.summary)
+		width = max(width, utf8.RuneCountInString(cmd.args))
+	}
+	for _, cmd := range commands {
+		fmt.Fprintf(w, "  %-9s %-*s %s\n", cmd.name, width, cmd.args, cmd.summary)
 	}
 	fmt.Fprintln(w, "\n`cleave help COMMAND` shows one command. Exit codes: 0 ok, 1 problems found, 2 wrong usage.")
 }
@@ -208,8 +213,11 @@ func runNew(c *cli, args []string) int {
 	fs.Var(&from, "from", "parent id (repeatable)")
 	by := fs.String("by", os.Getenv("CLEAVE_BY"), "initials of the author")
 	pos, err := parse(fs, args)
-	if err != nil || len(pos) != 2 {
+	if err != nil || len(pos) < 2 {
 		return c.usageErr("new", flagMsg(err, "need KIND and ID"))
+	}
+	if len(pos) > 2 {
+		return c.usageErr("new", fmt.Sprintf("too many arguments: %q after KIND and ID", pos[2:]))
 	}
 	kind, id := notebook.Kind(pos[0]), pos[1]
 	if !kind.Known() {

@@ -214,6 +214,7 @@ func TestUsageErrors(t *testing.T) {
 		{},
 		{"frobnicate"},
 		{"new", "wafer"},
+		{"new", "wafer", "W1", "extra"},
 		{"new", "gizmo", "X1"},
 		{"eval"},
 		{"tree", "a", "b"},
