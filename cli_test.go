@@ -183,3 +183,38 @@ func TestNewUsesNotebookTemplate(t *testing.T) {
 		t.Errorf("validate: exit %d\n%s%s", code, out, errs)
 	}
 }
+
+// TestValidateBrokenNotebooks runs `cleave validate` on each broken notebook under
+// notebook/testdata/broken: it exits 1 and prints exactly the problems the notebook
+// package's golden file lists, one `path:line:col: message` a line.
+func TestValidateBrokenNotebooks(t *testing.T) {
+	cases, err := filepath.Glob(filepath.Join("notebook", "testdata", "broken", "*"))
+	if err != nil || len(cases) == 0 {
+		t.Fatalf("no broken notebooks found (%v)", err)
+	}
+	for _, c := range cases {
+		t.Run(filepath.Base(c), func(t *testing.T) {
+			want, err := os.ReadFile(filepath.Join(c, "problems.golden"))
+			if err != nil {
+				t.Fatal(err)
+			}
+			dir := filepath.Join(t.TempDir(), "nb")
+			if err := os.CopyFS(dir, os.DirFS(c)); err != nil {
+				t.Fatal(err)
+			}
+			if err := os.Remove(filepath.Join(dir, "problems.golden")); err != nil {
+				t.Fatal(err)
+			}
+			if err := os.Mkdir(filepath.Join(dir, ".git"), 0o755); err != nil {
+				t.Fatal(err)
+			}
+			code, out, errs := cleave(t, "-C", dir, "validate")
+			if code != 1 {
+				t.Errorf("exit %d, want 1\n%s%s", code, out, errs)
+			}
+			if out != string(want) {
+				t.Errorf("problems differ from %s:\n--- got ---\n%s--- want ---\n%s", c, out, want)
+			}
+		})
+	}
+}
