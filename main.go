@@ -42,7 +42,7 @@ func init() {
 		{"validate", "", "check every entry: ids, links, kinds, front matter, layer tables, units", runValidate},
 		{"calc", "[PATH...]", "recompute calc blocks and write their results", runCalc},
 		{"check", "[PATH...]", "recompute without writing; list stale results and errors as path:line: old → new", runCheck},
-		{"eval", "[--in FILE] [--json] EXPR", "evaluate one expression, in the context of an entry with --in", runEval},
+		{"eval", "[--in FILE] [--json|--csv] EXPR", "evaluate one expression, in the context of an entry with --in", runEval},
 		{"demo", "[DIR]", "write the demo notebook (to DIR or a new temp folder) and run everything on it", runDemo},
 		{"version", "", "print the version", runVersion},
 	}
@@ -390,6 +390,7 @@ func runEval(c *cli, args []string) int {
 	fs := c.flags("eval")
 	in := fs.String("in", "", "evaluate in the context of this entry `FILE`")
 	asJSON := fs.Bool("json", false, "print one JSON object: value, unit, display, uncertainty")
+	asCSV := fs.Bool("csv", false, "print a data-set value (a data file, a symmetrised sweep, a band profile) as CSV")
 	pos, err := parse(fs, args)
 	if err != nil || len(pos) == 0 {
 		return c.usageErr("eval", flagMsg(err, "need an expression"))
@@ -405,6 +406,12 @@ func runEval(c *cli, args []string) int {
 	v, err := compute.Eval(root, *in, expr)
 	if err != nil {
 		return c.fail("eval", err)
+	}
+	if *asCSV {
+		if err := compute.WriteCSV(c.out, v); err != nil {
+			return c.fail("eval", err)
+		}
+		return 0
 	}
 	if *asJSON {
 		enc := json.NewEncoder(c.out)

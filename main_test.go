@@ -329,3 +329,28 @@ func gitOut(t *testing.T, dir string, args ...string) string {
 	}
 	return string(out)
 }
+
+// TestEvalCSV exports data sets: the band profile of a demo wafer (depth, band edge, density,
+// |psi|^2 per subband) and a symmetrised sweep, in the format data("...") reads back.
+func TestEvalCSV(t *testing.T) {
+	dir := demoNotebook(t)
+	code, out, errs := cleave(t, "-C", dir, "eval", "--in", filepath.Join(dir, "wafers", "W24-032.md"), "--csv", "sp.profile")
+	if code != 0 {
+		t.Fatalf("eval --csv sp.profile: exit %d: %s", code, errs)
+	}
+	lines := strings.Split(strings.TrimSpace(out), "\n")
+	if !strings.HasPrefix(lines[0], "z (nm),Ec (eV),n (cm^-3),psi2_0 (nm^-1)") || len(lines) < 500 {
+		t.Errorf("profile CSV: header %q, %d lines", lines[0], len(lines))
+	}
+	// The surface node sits at the pinning barrier, 0.7 eV above E_F (the solver's default).
+	if !strings.HasPrefix(lines[1], "0,0.7,") {
+		t.Errorf("first profile row %q, want z = 0 at E_c = 0.7 eV", lines[1])
+	}
+	code, out, _ = cleave(t, "-C", dir, "eval", "--in", filepath.Join(dir, "cooldowns", "CD24-001.md"), "--csv", "d")
+	if code != 0 || !strings.Contains(out, "B (T),Rxx (Ohm),Rxy (Ohm)") {
+		t.Errorf("eval --csv d: exit %d, output starts %q", code, out[:min(len(out), 120)])
+	}
+	if code, _, errs := cleave(t, "eval", "--csv", "3 T"); code != 1 || !strings.Contains(errs, "needs a data set") {
+		t.Errorf("eval --csv of a quantity: exit %d, %q", code, errs)
+	}
+}

@@ -8,6 +8,7 @@ import (
 	"cleave/calc/band"
 	"cleave/calc/materials"
 	"cleave/calc/quantity"
+	"cleave/calc/transport"
 )
 
 // This file wires the one-dimensional Schrödinger–Poisson solver of calc/band into the
@@ -146,6 +147,7 @@ func bandValue(st band.Stack, res *band.Result, donorDepthEV float64) *Result {
 	if len(res.Subbands) > 0 {
 		r.Rec.Fields = append(r.Rec.Fields, RecordField{Name: "E0", Value: Q(quantity.New(res.Subbands[0].E*1e3*meV.Scale, meV.D))})
 	}
+	r.Rec.Fields = append(r.Rec.Fields, RecordField{Name: "profile", Value: profileData(res)})
 	if in, err := band.AnalyticInputFor(st, donorDepthEV); err == nil {
 		if an, err := band.Analytic(in); err == nil {
 			r.Rec.Fields = append(r.Rec.Fields, RecordField{Name: "analytic", Value: Q(quantity.New(an.N2D, dDensity))})
@@ -194,4 +196,31 @@ func registerMaterial(e *Env) {
 			}
 			return materialRecord(m), nil
 		}})
+}
+
+// profileData is the solution as a data set a plot can use: depth z, the conduction-band
+// edge E_c relative to E_F, the electron density, and |psi|^2 of the lowest subbands (at
+// most four), one row per grid node.
+func profileData(res *band.Result) *DataSet {
+	eV := quantity.MustUnit("eV")
+	ec := make([]float64, len(res.Ec))
+	for i, v := range res.Ec {
+		ec[i] = v * eV.Scale // SI, J
+	}
+	ds := &transport.Dataset{Name: "band profile", Columns: []transport.Column{
+		{Name: "z", Unit: "nm", Dim: quantity.Length, Values: res.Z},
+		{Name: "Ec", Unit: "eV", Dim: eV.D, Values: ec},
+		{Name: "n", Unit: "cm^-3", Dim: quantity.Length.Pow(-3), Values: res.N3D},
+	}}
+	for k, sb := range res.Subbands {
+		if k == 4 {
+			break
+		}
+		p2 := make([]float64, len(sb.Psi))
+		for i, v := range sb.Psi {
+			p2[i] = v * v // m^-1
+		}
+		ds.Columns = append(ds.Columns, transport.Column{Name: fmt.Sprintf("psi2_%d", k), Unit: "nm^-1", Dim: quantity.Length.Pow(-1), Values: p2})
+	}
+	return &DataSet{D: ds}
 }

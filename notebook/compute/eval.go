@@ -2,10 +2,12 @@ package compute
 
 import (
 	"fmt"
+	"io"
 	"io/fs"
 	"os"
 
 	"cleave/calc"
+	"cleave/calc/transport"
 	"cleave/notebook"
 	"cleave/notebook/calcblock"
 )
@@ -84,4 +86,14 @@ func fileEnv(root, inFile string) (*calc.Env, error) {
 		}
 	}
 	return env, nil
+}
+
+// WriteCSV writes a data-set value (a data file, a symmetrised sweep, a band profile) as CSV
+// with `# key: value` metadata lines and units in the header, the format data("...") reads.
+func WriteCSV(w io.Writer, v calc.Value) error {
+	d, ok := v.(*calc.DataSet)
+	if !ok {
+		return fmt.Errorf("--csv needs a data set (data(\"...\"), symmetrize(...), a band profile), found a %s", v.Type())
+	}
+	return transport.WriteCSV(w, d.D)
 }

@@ -27,6 +27,7 @@ type scoreRow struct {
 	illuminated bool
 	T           calc.Value
 	n, mu       calc.Value
+	nH, nSdH    calc.Value // the Hall and SdH densities, when the cooldown defines n_H and n_SdH
 }
 
 func (r *resolver) scorecard(env *calc.Env, densityName, mobilityName string) (calc.Value, error) {
@@ -63,6 +64,8 @@ func (r *resolver) scorecard(env *calc.Env, densityName, mobilityName string) (c
 			}
 		}
 		row.mu, _ = cenv.Var(mobilityName)
+		row.nH, _ = cenv.Var("n_H")
+		row.nSdH, _ = cenv.Var("n_SdH")
 		if row.n == nil && row.mu == nil {
 			continue // a cooldown without these results (yet)
 		}
@@ -143,7 +146,7 @@ func scoreValue(rows []scoreRow) calc.Value {
 		name string
 		ill  bool
 	}{{"dark", false}, {"illuminated", true}} {
-		var ns, mus []quantity.Quantity
+		var ns, mus, nHs, nSdHs []quantity.Quantity
 		var ids []string
 		var Ts []string
 		for _, r := range rows {
@@ -156,6 +159,12 @@ func scoreValue(rows []scoreRow) calc.Value {
 			}
 			if q, ok := r.mu.(calc.Quantity); ok {
 				mus = append(mus, q.Q)
+			}
+			if q, ok := r.nH.(calc.Quantity); ok {
+				nHs = append(nHs, q.Q)
+			}
+			if q, ok := r.nSdH.(calc.Quantity); ok {
+				nSdHs = append(nSdHs, q.Q)
 			}
 			if r.T != nil {
 				Ts = append(Ts, calc.Display(r.T))
@@ -177,6 +186,14 @@ func scoreValue(rows []scoreRow) calc.Value {
 			kv = append(kv, cond.name+"_mu", calc.Q(m))
 			text += ", mu " + quantity.Format(m)
 		}
+		// Both densities as well, for reading beside the expected one (a Hall density above
+		// the SdH one points to parallel conduction).
+		if m, ok := meanSpread(nHs); ok {
+			kv = append(kv, cond.name+"_n_H", calc.Q(m))
+		}
+		if m, ok := meanSpread(nSdHs); ok {
+			kv = append(kv, cond.name+"_n_SdH", calc.Q(m))
+		}
 		kv = append(kv, cond.name+"_cooldowns", calc.Q(quantity.Scalar(float64(len(ids)))))
 		parts = append(parts, text)
 	}
@@ -191,6 +208,12 @@ func scoreValue(rows []scoreRow) calc.Value {
 		}
 		if r.mu != nil {
 			fields = append(fields, "mu", r.mu)
+		}
+		if r.nH != nil {
+			fields = append(fields, "n_H", r.nH)
+		}
+		if r.nSdH != nil {
+			fields = append(fields, "n_SdH", r.nSdH)
 		}
 		list = append(list, calc.NewRecord("", fields...))
 	}
