@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"flag"
+	"fmt"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -83,8 +84,18 @@ func TestDemoEndToEnd(t *testing.T) {
 		t.Skip("git binary not on PATH")
 	}
 	log := gitOut(t, dir, "log", "--format=%an|%s")
-	if n := strings.Count(log, "\n"); n != 6 {
-		t.Errorf("demo history has %d commits, want 6:\n%s", n, log)
+	if n := strings.Count(log, "\n"); n != 7 {
+		t.Errorf("demo history has %d commits, want 7:\n%s", n, log)
+	}
+	// Every commit of the story passes the CI gate, as a colleague's pull request would.
+	revs := strings.Fields(gitOut(t, dir, "rev-list", "HEAD"))
+	for i, rev := range revs {
+		wt := filepath.Join(scratch, fmt.Sprintf("wt%d", i))
+		gitOut(t, dir, "worktree", "add", "--detach", wt, rev)
+		if code, out, errs := cleave(t, "-C", wt, "check"); code != 0 {
+			t.Errorf("commit %s of the demo fails check (exit %d):\n%s%s", rev[:8], code, out, errs)
+		}
+		gitOut(t, dir, "worktree", "remove", "--force", wt)
 	}
 	if !strings.Contains(log, "HB100: probe 4 sits at 750 um") {
 		t.Errorf("the mask correction commit is missing:\n%s", log)
@@ -93,7 +104,7 @@ func TestDemoEndToEnd(t *testing.T) {
 		t.Errorf("the demo left uncommitted changes:\n%s", st)
 	}
 	// The mask correction changed the mobility line of CD24-001 and nothing else in that file.
-	diff := gitOut(t, dir, "show", "--format=", "-U0", "HEAD~2", "--", "cooldowns/CD24-001.md")
+	diff := gitOut(t, dir, "show", "--format=", "-U0", "HEAD~3", "--", "cooldowns/CD24-001.md")
 	for _, l := range strings.Split(diff, "\n") {
 		if (strings.HasPrefix(l, "+") || strings.HasPrefix(l, "-")) && !strings.HasPrefix(l, "+++") && !strings.HasPrefix(l, "---") && !strings.Contains(l, "#=") {
 			t.Errorf("the correction changed a line outside the result regions: %q", l)

@@ -36,6 +36,12 @@ var demoStory = []demoStep{
 	{when: "2024-03-15T17:20:00Z", who: "AK", message: "Grow W24-031 (uniform doping) and W24-032 (delta doping); draw Hall-bar mask HB100",
 		paths: []string{"README.md", "wafers", "masks"},
 		edit: func(dir string) error {
+			// The scorecards come later, once cooldowns measured the wafers.
+			for _, w := range []string{"W24-031", "W24-032"} {
+				if err := cutFrom(filepath.Join(dir, "wafers", w+".md"), scorecardHeading); err != nil {
+					return err
+				}
+			}
 			return replaceIn(filepath.Join(dir, "masks", "HB100.md"), maskRight, maskTypo)
 		},
 		narrate: "two wafers and the Hall-bar mask (probe 4 entered at 700 um by mistake)"},
@@ -56,7 +62,13 @@ var demoStory = []demoStep{
 	{when: "2024-04-16T22:10:00Z", who: "RS", message: "CD24-003 (edge piece of W24-031) and CD24-004 (W24-032 to 9 T at 30 mK)",
 		paths: []string{"cooldowns/CD24-003.md", "cooldowns/CD24-004.md"}, data: []string{"CD24-003", "CD24-004"},
 		narrate: "the edge piece with a parallel conducting layer, and quantum Hall plateaus on the delta-doped wafer"},
+	{when: "2024-04-17T09:00:00Z", who: "AK", message: "W24-031, W24-032: scorecards of what the cooldowns measured, beside the expected density",
+		paths:   []string{"wafers"},
+		narrate: "the grower adds a scorecard to each wafer: measured densities beside the expected ones"},
 }
+
+// scorecardHeading starts the section of the demo wafers that the last step of the story adds.
+const scorecardHeading = "\n## Scorecard\n"
 
 var demoPeople = map[string]string{"AK": "A. K.", "JM": "J. M.", "RS": "R. S."}
 
@@ -185,7 +197,7 @@ func demoSummary(dir string, out io.Writer) error {
 What to look at next:
   cd %s
   git log --stat                      the story, commit by commit
-  git show HEAD~2                     the mask correction: each changed result is one changed line
+  git show HEAD~3                     the mask correction: each changed result is one changed line
   cat cooldowns/CD24-001.md           calc blocks with their results after #=
   cleave tree W24-031                 one wafer's pieces, devices and cooldowns
   cleave eval --in cooldowns/CD24-001.md 'mu -> cm^2/(V s)'
@@ -230,6 +242,20 @@ func writeFile(p string, b []byte) error {
 		return err
 	}
 	return os.WriteFile(p, b, 0o644)
+}
+
+// cutFrom removes everything from the first occurrence of mark to the end of the file,
+// keeping the line ending before it.
+func cutFrom(p, mark string) error {
+	b, err := os.ReadFile(p)
+	if err != nil {
+		return err
+	}
+	i := strings.Index(string(b), mark)
+	if i < 0 {
+		return fmt.Errorf("demo: %s has no %q", p, strings.TrimSpace(mark))
+	}
+	return os.WriteFile(p, b[:i+1], 0o644)
 }
 
 func replaceIn(p, old, new string) error {
