@@ -365,3 +365,32 @@ func TestEvalCSV(t *testing.T) {
 		t.Errorf("eval --csv of a quantity: exit %d, %q", code, errs)
 	}
 }
+
+// TestNewCooldownStalesScorecard: a cooldown added below a wafer makes the wafer's scorecard
+// stale, even though no byte of the wafer changed (the cache keys on which cooldowns count).
+func TestNewCooldownStalesScorecard(t *testing.T) {
+	src := demoNotebook(t)
+	dir := filepath.Join(t.TempDir(), "copy")
+	if err := os.CopyFS(dir, os.DirFS(src)); err != nil {
+		t.Fatal(err)
+	}
+	if code, out, _ := cleave(t, "-C", dir, "check"); code != 0 {
+		t.Fatalf("check of the copied demo: exit %d\n%s", code, out)
+	}
+	b, err := os.ReadFile(filepath.Join(dir, "cooldowns", "CD24-004.md"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	nc := strings.Replace(string(b), "id: CD24-004", "id: CD24-005", 1)
+	nc = strings.Replace(nc, "illumination: none", "illumination: {source: red LED, current: 10 uA, duration: 60 s, temperature: 4.2 K, gate_bias: 0 V}", 1)
+	if err := os.WriteFile(filepath.Join(dir, "cooldowns", "CD24-005.md"), []byte(nc), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, out, _ := cleave(t, "-C", dir, "check")
+	if code != 1 || !strings.Contains(out, "wafers/W24-032.md:") || !strings.Contains(out, "illuminated (CD24-005") {
+		t.Errorf("check after adding CD24-005: exit %d, want the W24-032 scorecard stale:\n%s", code, out)
+	}
+	if strings.Contains(out, "wafers/W24-031.md:") {
+		t.Errorf("W24-031's scorecard changed, but CD24-005 measured a W24-032 device:\n%s", out)
+	}
+}
