@@ -159,10 +159,10 @@ const maxLinkHops = 40
 // check needs an FS that implements fs.ReadLinkFS (os.DirFS and fstest.MapFS do); an FS
 // without it is trusted not to follow links out of its root (an os.Root's FS never does).
 func (e *Env) OpenData(p string) (Value, error) {
-	if err := checkDataPath(p); err != nil {
-		return nil, err
-	}
 	if e.fsys == nil {
+		if err := checkDataPath(p); err != nil {
+			return nil, err // a bad path is the first thing to say
+		}
 		return nil, fmt.Errorf("no notebook folder is open, so data(%s) cannot be read", quoteString(p))
 	}
 	name, real, err := e.resolveDataPath(p)
@@ -195,18 +195,27 @@ func (e *Env) OpenData(p string) (Value, error) {
 // resolveDataPath returns the cleaned notebook path of p and the path with symbolic links
 // resolved.
 func (e *Env) resolveDataPath(p string) (string, string, error) {
+	return ResolveDataPath(e.fsys, e.dir, p)
+}
+
+// ResolveDataPath applies the rule every data path of a notebook follows (data("...") in calc
+// blocks, a cooldown's `data:` list): p is a slash path relative to dir (a slash path inside
+// fsys, "" or "." for the root); it may not be absolute, use backslashes, or leave the root
+// after cleaning "..", and symbolic links on the way may not point outside (checked when
+// fsys implements fs.ReadLinkFS). It returns the cleaned path and the path with links
+// resolved; errors wrap ErrPath and say what was expected. The file need not exist.
+func ResolveDataPath(fsys fs.FS, dir, p string) (name, real string, err error) {
 	if err := checkDataPath(p); err != nil {
 		return "", "", err
 	}
-	dir := e.dir
 	if dir == "" {
 		dir = "."
 	}
-	name := path.Clean(path.Join(dir, p))
+	name = path.Clean(path.Join(dir, p))
 	if !inside(name) {
 		return "", "", fmt.Errorf("%w: %q leaves the notebook folder", ErrPath, p)
 	}
-	real, err := e.followLinks(name, p)
+	real, err = followLinks(fsys, name, p)
 	return name, real, err
 }
 
@@ -231,8 +240,8 @@ func inside(name string) bool {
 
 // followLinks walks name component by component, replacing symbolic links by their
 // targets, and fails if a target is absolute or leaves the root.
-func (e *Env) followLinks(name, orig string) (string, error) {
-	if _, ok := e.fsys.(fs.ReadLinkFS); !ok || name == "." {
+func followLinks(fsys fs.FS, name, orig string) (string, error) {
+	if _, ok := fsys.(fs.ReadLinkFS); !ok || name == "." {
 		return name, nil
 	}
 	hops := 0
@@ -241,7 +250,7 @@ func (e *Env) followLinks(name, orig string) (string, error) {
 	for len(parts) > 0 {
 		cur := path.Join(done, parts[0])
 		parts = parts[1:]
-		fi, err := fs.Lstat(e.fsys, cur)
+		fi, err := fs.Lstat(fsys, cur)
 		if err != nil || fi.Mode()&fs.ModeSymlink == 0 {
 			done = cur // missing files are reported when they are read
 			continue
@@ -250,7 +259,7 @@ func (e *Env) followLinks(name, orig string) (string, error) {
 		if hops > maxLinkHops {
 			return "", fmt.Errorf("%w: %q passes through more than %d symbolic links", ErrPath, orig, maxLinkHops)
 		}
-		target, err := fs.ReadLink(e.fsys, cur)
+		target, err := fs.ReadLink(fsys, cur)
 		if err != nil {
 			return "", fmt.Errorf("reading link %s: %w", cur, err)
 		}

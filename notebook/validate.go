@@ -1,6 +1,7 @@
 package notebook
 
 import (
+	"cleave/calc"
 	"cmp"
 	"fmt"
 	"io/fs"
@@ -324,13 +325,14 @@ func (nb *Notebook) checkDataFiles(e *Entry) []Problem {
 		}
 		name := strings.TrimSpace(fn.Value)
 		l, c := e.Pos(fn)
-		full := path.Join(path.Dir(e.Path), name)
+		// The same rule as data("...") in calc blocks, links included.
+		full, real, err := calc.ResolveDataPath(nb.fsys, path.Dir(e.Path), name)
 		switch {
-		case path.IsAbs(name) || strings.Contains(name, "\\") || full == ".." || strings.HasPrefix(full, "../"):
+		case err != nil:
 			ps = append(ps, Problem{Path: e.Path, Line: l, Col: max(c, 1),
-				Msg: fmt.Sprintf("data: %q leaves the notebook; expected a path inside it, relative to %s", name, path.Dir(e.Path)+"/")})
+				Msg: fmt.Sprintf("data: %v (paths are relative to %s)", err, path.Dir(e.Path)+"/")})
 		default:
-			if _, err := fs.Stat(nb.fsys, full); err != nil {
+			if _, err := fs.Stat(nb.fsys, real); err != nil {
 				ps = append(ps, Problem{Path: e.Path, Line: l, Col: max(c, 1),
 					Msg: fmt.Sprintf("data: file %q not found (looked for %s; paths are relative to the entry's folder)", name, full)})
 			}
