@@ -118,29 +118,28 @@ func Demo(scenario fs.FS, dir string, out io.Writer) error {
 			}
 		}
 		fmt.Fprintf(out, "step %d (%s, %s): %s\n", i+1, st.when[:10], st.who, st.narrate)
-		// A colleague runs `cleave check` first: after the mask correction it lists the
-		// stale results old → new.
-		rep, err := compute.Run(abs, nil, compute.Options{})
+		// A colleague brings the results up to date before committing; what the run found
+		// stale is what `cleave check` would have listed (after the mask correction: the
+		// results that depend on the probe spacing, old → new).
+		rep, err := compute.Run(abs, nil, compute.Options{Write: true})
 		if err != nil {
 			return err
 		}
-		if i > 0 {
-			stale := 0
-			for _, f := range rep.Files {
-				for _, c := range f.Stale {
-					if c.Old == "" {
-						continue // a new entry's first results
-					}
-					if stale == 0 {
-						fmt.Fprintln(out, "  cleave check finds stale results:")
-					}
-					stale++
-					fmt.Fprintf(out, "    %s\n", c)
-				}
-			}
+		if len(rep.Failures) > 0 {
+			return fmt.Errorf("demo step %d: %w", i+1, errors.Join(rep.Failures...))
 		}
-		if _, err := compute.Run(abs, nil, compute.Options{Write: true}); err != nil {
-			return err
+		stale := 0
+		for _, f := range rep.Files {
+			for _, c := range f.Stale {
+				if c.Old == "" {
+					continue // a new entry's first results
+				}
+				if stale == 0 {
+					fmt.Fprintln(out, "  cleave check finds stale results:")
+				}
+				stale++
+				fmt.Fprintf(out, "    %s\n", c)
+			}
 		}
 		when, _ := time.Parse(time.RFC3339, st.when)
 		if _, err := CommitAll(abs, st.message, Author{Name: demoPeople[st.who], Email: strings.ToLower(st.who) + "@lab.invalid", When: when}); err != nil {
