@@ -182,8 +182,12 @@ func demoSummary(dir string, out io.Writer) error {
 	fmt.Fprintln(out, "\nKey results (cleave eval --in FILE NAME):")
 	for _, row := range demoResults {
 		fmt.Fprintf(out, "  %-22s", row.file[strings.LastIndex(row.file, "/")+1:])
+		env, err := compute.EvalEnv(dir, filepath.Join(dir, filepath.FromSlash(row.file)))
+		if err != nil {
+			return err
+		}
 		for _, name := range row.names {
-			v, err := compute.Eval(dir, filepath.Join(dir, filepath.FromSlash(row.file)), name)
+			v, err := env.Eval(name)
 			text := "error: " + fmt.Sprint(err)
 			if err == nil {
 				text = compute.ResultOf(v).Display

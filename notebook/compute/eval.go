@@ -27,15 +27,20 @@ type Result struct {
 // notebook rooted at root), the expression sees that entry's fields and its ancestors', and
 // every name its calc blocks define; otherwise only constants, materials and functions.
 func Eval(root, inFile, expr string) (calc.Value, error) {
-	env := calc.NewEnv()
-	if inFile != "" {
-		var err error
-		env, err = fileEnv(root, inFile)
-		if err != nil {
-			return nil, err
-		}
+	env, err := EvalEnv(root, inFile)
+	if err != nil {
+		return nil, err
 	}
 	return env.Eval(expr)
+}
+
+// EvalEnv is the environment Eval evaluates in: with inFile, the notebook is loaded once and
+// the file's calc lines evaluated, so several expressions can be asked of one entry cheaply.
+func EvalEnv(root, inFile string) (*calc.Env, error) {
+	if inFile == "" {
+		return calc.NewEnv(), nil
+	}
+	return fileEnv(root, inFile)
 }
 
 // ResultOf turns a value into its JSON form.
