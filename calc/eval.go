@@ -42,6 +42,7 @@ var tradeNames = map[quantity.Dim]string{
 	quantity.MustUnit("J s").D:        "action",
 	quantity.MustUnit("S").D:          "S",
 	quantity.MustUnit("Hz").D:         "frequency",
+	quantity.Mass:                     "mass, m_e",
 }
 
 func (e *Env) eval(n Node) (Value, error) {
@@ -442,8 +443,17 @@ func (e *Env) evalCall(n *Call) (Value, error) {
 				return nil, posErr(argPos[i], ErrType, "%s: argument %s must be a quantity (%s), found a %s", n.Func, p.Name, dimName(*p.Dim), args[i].Type())
 			}
 			if q.Q.Dim() != *p.Dim {
+				hint := ""
+				if q.Q.Dim().IsDimensionless() {
+					// A bare number where a quantity belongs: most often a forgotten unit.
+					u := quantity.Customary(quantity.New(q.Q.Value(), *p.Dim))
+					hint = fmt.Sprintf("; write it with its unit, e.g. `%s %s`", strings.Replace(strconv.FormatFloat(q.Q.Value(), 'g', -1, 64), "e+", "e", 1), u.Symbol)
+					if p.FromRecord == "mstar" {
+						hint += " or a material such as GaAs"
+					}
+				}
 				return nil, posErr(argPos[i], &quantity.DimError{Op: n.Func, Left: q.Q.Dim(), Right: *p.Dim},
-					"%s: argument %s must be %s, found %s", n.Func, p.Name, dimName(*p.Dim), dimName(q.Q.Dim()))
+					"%s: argument %s must be %s, found %s%s", n.Func, p.Name, dimName(*p.Dim), dimName(q.Q.Dim()), hint)
 			}
 		}
 	}
