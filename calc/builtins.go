@@ -14,9 +14,10 @@ import (
 	"cleave/calc/quantity"
 )
 
-// DataLoader, when set, turns the bytes of a data file into a value (a data set). The
-// data-file reader registers itself here; while it is nil, data("path") returns a
-// *DataFile. name is the slash path inside the notebook.
+// DataLoader, when set, turns the bytes of a data file into a value (a data set); name is
+// the slash path inside the notebook. Its errors must name the file and the position in it
+// ("name:line:col: message"); they are shown as they are. The data-file reader registers
+// itself here; while it is nil, data("path") returns a *DataFile.
 var DataLoader func(name string, r io.Reader) (Value, error)
 
 var scalar = quantity.Dimensionless
@@ -182,10 +183,7 @@ func (e *Env) OpenData(p string) (Value, error) {
 	if DataLoader != nil {
 		v, err := DataLoader(name, strings.NewReader(string(b)))
 		if err != nil {
-			if strings.Contains(err.Error(), name) {
-				return nil, err // the reader's message already names the file and position
-			}
-			return nil, fmt.Errorf("data file %s: %w", name, err)
+			return nil, err // DataLoader's errors name the file and the position in it
 		}
 		return v, nil
 	}
