@@ -26,6 +26,7 @@ type scoreRow struct {
 	id          string
 	illuminated bool
 	T           calc.Value
+	Ttext       string // the temperature as the cooldown records it ("0.30 K")
 	n, mu       calc.Value
 	nH, nSdH    calc.Value // the Hall and SdH densities, when the cooldown defines n_H and n_SdH
 }
@@ -56,6 +57,7 @@ func (r *resolver) scorecard(env *calc.Env, densityName, mobilityName string) (c
 		row := scoreRow{id: d.ID, illuminated: illuminated(d)}
 		if q, err := d.Quantity("base_temperature"); err == nil {
 			row.T = calc.Q(q)
+			row.Ttext, _ = d.Text("base_temperature")
 		}
 		for _, name := range strings.Split(densityName, "|") {
 			if v, ok := cenv.Var(name); ok {
@@ -167,7 +169,7 @@ func scoreValue(rows []scoreRow) calc.Value {
 				nSdHs = append(nSdHs, q.Q)
 			}
 			if r.T != nil {
-				Ts = append(Ts, calc.Display(r.T))
+				Ts = append(Ts, strings.TrimSpace(r.Ttext))
 			}
 		}
 		if len(ids) == 0 {
