@@ -136,7 +136,7 @@ func TestCheckLineFormat(t *testing.T) {
 		}
 		// The line number points at the result's own line in the file.
 		n, _ := strconv.Atoi(strings.SplitN(l, ":", 3)[1])
-		if n < 1 || n > len(src) || !strings.Contains(src[n-1], "#=") {
+		if n < 1 || n > len(src) || !strings.Contains(src[n-1], "#~") {
 			t.Errorf("%q: line %d of the mask holds no result", l, n)
 		}
 	}

@@ -106,7 +106,7 @@ func TestDemoEndToEnd(t *testing.T) {
 	// The mask correction changed the mobility line of CD24-001 and nothing else in that file.
 	diff := gitOut(t, dir, "show", "--format=", "-U0", "HEAD~3", "--", "cooldowns/CD24-001.md")
 	for _, l := range strings.Split(diff, "\n") {
-		if (strings.HasPrefix(l, "+") || strings.HasPrefix(l, "-")) && !strings.HasPrefix(l, "+++") && !strings.HasPrefix(l, "---") && !strings.Contains(l, "#=") {
+		if (strings.HasPrefix(l, "+") || strings.HasPrefix(l, "-")) && !strings.HasPrefix(l, "+++") && !strings.HasPrefix(l, "---") && !strings.Contains(l, "#~") {
 			t.Errorf("the correction changed a line outside the result regions: %q", l)
 		}
 	}
@@ -155,11 +155,11 @@ func TestCheckAfterEdit(t *testing.T) {
 	}
 }
 
-// stripResults removes every result region (from #= to the end of the line).
+// stripResults removes every result region (from #~ to the end of the line).
 func stripResults(s string) string {
 	lines := strings.Split(s, "\n")
 	for i, l := range lines {
-		if j := strings.Index(l, "#="); j >= 0 {
+		if j := strings.Index(l, "#~"); j >= 0 {
 			lines[i] = l[:j]
 		}
 	}
@@ -289,7 +289,7 @@ func TestInitNewValidate(t *testing.T) {
 		t.Fatalf("check of a fresh notebook: exit %d\n%s%s", code, out, errs)
 	}
 	w, _ := os.ReadFile(filepath.Join(dir, "wafers", "W1.md"))
-	if !strings.Contains(string(w), "n_expected = sp.n  #= ") {
+	if !strings.Contains(string(w), "n_expected = sp.n  #~ ") {
 		t.Errorf("the wafer template's expected density was not computed:\n%s", w)
 	}
 	// Refusals: an existing id, a missing parent, a parent of the wrong kind.
@@ -315,7 +315,7 @@ func TestInitNewValidate(t *testing.T) {
 	// One failing line is one problem: it is stale and an error, listed once and counted once.
 	m := filepath.Join(dir, "masks", "M1.md")
 	mb, _ := os.ReadFile(m)
-	broken := strings.Replace(string(mb), "```calc\n", "```calc\nbad = 1 T + 1 K\n", 1)
+	broken := strings.Replace(string(mb), "```cleave\n", "```cleave\nbad = 1 T + 1 K\n", 1)
 	if broken == string(mb) {
 		t.Fatal("the mask template has no calc block to break")
 	}

@@ -6,7 +6,7 @@
 //
 // A calc block holds one statement per line: `name = expression`, a bare expression, a
 // `# comment`, or nothing. A trailing `# comment` may follow an expression. The two
-// characters `#=` start the tool-owned result region; the lexer treats them as the end
+// characters `#~` start the tool-owned result region; the lexer treats them as the end
 // of the line, so a stale result never becomes input. Names assigned in one block are
 // visible in later lines and blocks that share the same Env (one per Markdown file).
 //

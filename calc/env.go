@@ -192,7 +192,7 @@ type LineResult struct {
 }
 
 // EvalLine parses and evaluates one calc line (the result region already stripped; a
-// "#=" is treated as the end of the line anyway). An assignment defines the name for later
+// "#~" is treated as the end of the line anyway). An assignment defines the name for later
 // lines and later blocks sharing this Env, replacing an earlier definition; a failed
 // assignment leaves the name undefined, and later uses say which line failed.
 func (e *Env) EvalLine(line string, lineNo int) LineResult {

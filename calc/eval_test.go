@@ -168,7 +168,7 @@ func TestEvalLineKinds(t *testing.T) {
 		{"", Blank, "", ""},
 		{"# a comment", Comment, "", ""},
 		{"B = 2 T # the field", Assign, "B", "2.0000 T"},
-		{"B * 2 #= old result", Expr, "", "4.0000 T"},
+		{"B * 2 #~ old result", Expr, "", "4.0000 T"},
 		{"E = 1 meV", Assign, "E", "1.0000 meV"},
 		{"E -> ueV", Expr, "", "1000.0 ueV"},
 		{"e = 2", Assign, "e", "2.0000"},

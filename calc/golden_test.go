@@ -26,7 +26,7 @@ func TestErrorsGolden(t *testing.T) {
 		if r.Kind == Blank || r.Kind == Comment {
 			continue
 		}
-		fmt.Fprintf(&out, "%s\n\t#= %s\n", sc.Text(), r.Display)
+		fmt.Fprintf(&out, "%s\n\t#~ %s\n", sc.Text(), r.Display)
 	}
 	got := out.String()
 	const golden = "testdata/errors.golden"

@@ -15,7 +15,7 @@ const (
 	tIdent           // identifier, including alloy names such as Al0.33Ga0.67As
 	tString          // "..." with \" and \\ escapes
 	tOp              // one of + - * / ^ ( ) [ ] , . = .. ->
-	tComment         // # ... to the end of the line (not #=)
+	tComment         // # ... to the end of the line (not #~)
 	tUnit            // the unit text of a display request after ->
 )
 
@@ -58,10 +58,10 @@ func isIdentPart(r rune) bool {
 }
 func isDigit(r rune) bool { return r >= '0' && r <= '9' }
 
-// lex tokenizes src (one line; a newline is an error). It stops at "#=", the start of the
+// lex tokenizes src (one line; a newline is an error). It stops at "#~", the start of the
 // tool-owned result region, as if the line ended there.
 func lex(src string, line int) ([]token, error) {
-	if i := strings.Index(src, "#="); i >= 0 {
+	if i := strings.Index(src, "#~"); i >= 0 {
 		src = src[:i] // even inside a string: the result region is never input
 	}
 	lx := &lexer{src: []rune(src), line: line}

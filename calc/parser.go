@@ -38,7 +38,7 @@ type parser struct {
 }
 
 // ParseLine parses one calc line (line number lineNo, used in positions). Everything from
-// the first "#=" on is ignored.
+// the first "#~" on is ignored.
 func ParseLine(line string, lineNo int) (*Statement, error) {
 	toks, err := lex(line, lineNo)
 	if err != nil {

@@ -201,7 +201,7 @@ What to look at next:
   cd %s
   git log --stat                      the story, commit by commit
   git show HEAD~3                     the mask correction: each changed result is one changed line
-  cat cooldowns/CD24-001.md           calc blocks with their results after #=
+  cat cooldowns/CD24-001.md           calc blocks with their results after #~
   cleave tree W24-031                 one wafer's pieces, devices and cooldowns
   cleave eval --in cooldowns/CD24-001.md 'mu -> cm^2/(V s)'
   cleave check                        what CI runs: exits 1 on a stale result or an invalid entry

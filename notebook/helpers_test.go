@@ -43,7 +43,7 @@ func genNotebook(nWafers int, seed uint64) fstest.MapFS {
 				fsys["devices/"+did+".md"] = &fstest.MapFile{Data: fmt.Appendf(nil,
 					"---\nid: %s\nkind: device\nfrom: %s\nmask: HB-%d\naxis: \"[1-10]\"\nas_built: {width: %.1f um}\n---\n", did, pid, r.IntN(nMasks), 10+80*r.Float64())}
 				fsys["cooldowns/C-"+did+".md"] = &fstest.MapFile{Data: fmt.Appendf(nil,
-					"---\nid: C-%s\nkind: cooldown\ndevices: [%s]\nbase_temperature: %d mK\nmagnet: {max_field: 12 T, offset: 1 mT}\nexcitation: {current: 100 nA, frequency: 13 Hz}\ndata:\n  - {file: data/sweep.csv, note: up sweep, temperature: 20 mK}\n---\n\n```calc\nn = 3e11 cm^-2\n```\n", did, did, 10+r.IntN(300))}
+					"---\nid: C-%s\nkind: cooldown\ndevices: [%s]\nbase_temperature: %d mK\nmagnet: {max_field: 12 T, offset: 1 mT}\nexcitation: {current: 100 nA, frequency: 13 Hz}\ndata:\n  - {file: data/sweep.csv, note: up sweep, temperature: 20 mK}\n---\n\n```cleave\nn = 3e11 cm^-2\n```\n", did, did, 10+r.IntN(300))}
 			}
 		}
 	}

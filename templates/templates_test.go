@@ -628,7 +628,7 @@ func calcBlocks(doc []byte) [][]string {
 	var blocks [][]string
 	ast.Walk(root, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 		fc, ok := n.(*ast.FencedCodeBlock)
-		if !entering || !ok || string(fc.Language(doc)) != "calc" {
+		if !entering || !ok || string(fc.Language(doc)) != "cleave" {
 			return ast.WalkContinue, nil
 		}
 		var lines []string
@@ -665,7 +665,7 @@ func TestCalcBlocksInTemplates(t *testing.T) {
 		var code []string
 		for _, b := range blocks {
 			for _, line := range b {
-				if strings.Contains(line, "#=") {
+				if strings.Contains(line, "#~") {
 					t.Errorf("%s: calc line %q holds a result region", name, line)
 				}
 				if !strings.HasPrefix(line, "#") && strings.TrimSpace(line) != "" {

@@ -12,7 +12,7 @@ func benchNotebook(n int) [][]byte {
 	for i := range files {
 		files[i] = fmt.Appendf(nil, "---\nid: D-%05d\nkind: device\nwidth: %d um\n---\n# Device D-%05d\n\n"+
 			"Hall bar on piece W0311-C%d, measured by AK at 1.6 K.\n\n"+
-			"```calc\nw = @width\nl = %d\nsq = l + w\nr = sq + 7\nt = r + sq + w\n```\n\nNotes.\n",
+			"```cleave\nw = @width\nl = %d\nsq = l + w\nr = sq + 7\nt = r + sq + w\n```\n\nNotes.\n",
 			i, 10+i%50, i, i%9, 100+i%13)
 	}
 	return files

@@ -9,7 +9,7 @@ import (
 	"testing"
 )
 
-const cacheDoc = "---\nid: D-07\nwidth: 20 um\n---\n```calc\nw = @width\nl = 60\nsq = l + w\n```\n\n```calc\nr = sq + 1 #= 0\n```\n"
+const cacheDoc = "---\nid: D-07\nwidth: 20 um\n---\n```cleave\nw = @width\nl = 60\nsq = l + w\n```\n\n```cleave\nr = sq + 1 #~ 0\n```\n"
 
 func resolverFor(fields map[string]string) func(string) (string, error) {
 	return func(dep string) (string, error) {
@@ -64,7 +64,7 @@ func TestCacheRecompute(t *testing.T) {
 	// A changed dependency value is a miss and gives the new result.
 	fields["width"] = "30 um"
 	changed, ev4 := run()
-	if changed.CacheHit || ev4.calls != 4 || !bytes.Contains(changed.NewBytes, []byte("sq = l + w  #= 90")) {
+	if changed.CacheHit || ev4.calls != 4 || !bytes.Contains(changed.NewBytes, []byte("sq = l + w  #~ 90")) {
 		t.Fatalf("after changing a field: hit %v, %d evaluations:\n%s", changed.CacheHit, ev4.calls, changed.NewBytes)
 	}
 

@@ -182,35 +182,35 @@ func TestFind(t *testing.T) {
 		fences   []string
 	}{
 		{
-			name: "plain", raw: "```calc\na = 1 #= 1\n# note\n\n```\n",
+			name: "plain", raw: "```cleave\na = 1 #~ 1\n# note\n\n```\n",
 			blocks: 1, readOnly: []bool{false},
 			lines: [][]string{{"a = 1 ", "# note", ""}}, olds: [][]string{{"1", "", ""}}, fences: []string{"```"},
 		},
 		{
-			name: "info with attributes and tildes", raw: "~~~~ calc  x\nb\n~~~~\n",
+			name: "info with attributes and tildes", raw: "~~~~ cleave  x\nb\n~~~~\n",
 			blocks: 1, readOnly: []bool{false}, lines: [][]string{{"b"}}, olds: [][]string{{""}}, fences: []string{"~~~~"},
 		},
 		{
-			name: "other languages ignored", raw: "```calculator\na\n```\n```go\nb\n```\n", blocks: 0,
+			name: "other languages ignored (the old info string calc included)", raw: "```calculator\na\n```\n```go\nb\n```\n```calc\nx = 1  #~ 1\n```\n", blocks: 0,
 		},
 		{
-			name: "empty block", raw: "```calc\n```\n", blocks: 1, readOnly: []bool{false},
+			name: "empty block", raw: "```cleave\n```\n", blocks: 1, readOnly: []bool{false},
 			lines: [][]string{nil}, olds: [][]string{nil}, fences: []string{"```"},
 		},
 		{
-			name: "unclosed at EOF", raw: "```calc\na #= 2", blocks: 1, readOnly: []bool{true},
+			name: "unclosed at EOF", raw: "```cleave\na #~ 2", blocks: 1, readOnly: []bool{true},
 			lines: [][]string{{"a "}}, olds: [][]string{{"2"}}, fences: []string{"```"},
 		},
 		{
-			name: "closed by end of quote, next fence opens a block", raw: "> ```calc\n> a\n```\nb\n```\n",
+			name: "closed by end of quote, next fence opens a block", raw: "> ```cleave\n> a\n```\nb\n```\n",
 			blocks: 1, readOnly: []bool{true}, lines: [][]string{{"a"}}, olds: [][]string{{""}}, fences: []string{"```"},
 		},
 		{
-			name: "shorter fence does not close", raw: "````calc\n```\n````\n",
+			name: "shorter fence does not close", raw: "````cleave\n```\n````\n",
 			blocks: 1, readOnly: []bool{false}, lines: [][]string{{"```"}}, olds: [][]string{{""}}, fences: []string{"````"},
 		},
 		{
-			name: "tab after quote marker", raw: ">\t```calc\n>\tx = 1\n>\t```\n",
+			name: "tab after quote marker", raw: ">\t```cleave\n>\tx = 1\n>\t```\n",
 			blocks: 1, readOnly: []bool{false}, lines: [][]string{{"x = 1"}}, olds: [][]string{{""}}, fences: []string{"```"},
 		},
 	}
@@ -312,7 +312,7 @@ func TestChangeString(t *testing.T) {
 }
 
 func TestRecomputeUnclosedFrontMatter(t *testing.T) {
-	raw := []byte("---\nid: x\n```calc\na = 1\n```\n")
+	raw := []byte("---\nid: x\n```cleave\na = 1\n```\n")
 	rep, err := Recompute("x.md", raw, newSumEval(nil))
 	if err != nil {
 		t.Fatal(err)
@@ -320,7 +320,7 @@ func TestRecomputeUnclosedFrontMatter(t *testing.T) {
 	if len(rep.Errors) != 1 || rep.Errors[0].Line != 1 || !strings.Contains(rep.Errors[0].New, "never closed") {
 		t.Fatalf("errors = %v, want one front-matter error on line 1", rep.Errors)
 	}
-	if want := "---\nid: x\n```calc\na = 1  #= 1\n```\n"; string(rep.NewBytes) != want {
+	if want := "---\nid: x\n```cleave\na = 1  #~ 1\n```\n"; string(rep.NewBytes) != want {
 		t.Errorf("NewBytes = %q, want %q", rep.NewBytes, want)
 	}
 }
@@ -328,14 +328,14 @@ func TestRecomputeUnclosedFrontMatter(t *testing.T) {
 func TestWriteAtomic(t *testing.T) {
 	dir := t.TempDir()
 	p := filepath.Join(dir, "entry.md")
-	orig := []byte("```calc\na = 1\n```\n")
+	orig := []byte("```cleave\na = 1\n```\n")
 	if err := os.WriteFile(p, orig, 0o640); err != nil {
 		t.Fatal(err)
 	}
-	next := []byte("```calc\na = 1  #= 1\n```\n")
+	next := []byte("```cleave\na = 1  #~ 1\n```\n")
 
 	t.Run("refuses a file changed on disk", func(t *testing.T) {
-		edited := []byte("```calc\na = 2\n```\n")
+		edited := []byte("```cleave\na = 2\n```\n")
 		if err := os.WriteFile(p, edited, 0o640); err != nil {
 			t.Fatal(err)
 		}

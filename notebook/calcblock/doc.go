@@ -4,10 +4,10 @@
 // # Calc blocks and result regions
 //
 // A calc block is a fenced code block (backticks or tildes, any length of
-// three or more) whose info string's first word is `calc`. Every content line
+// three or more) whose info string's first word is `cleave`. Every content line
 // is either blank, a comment (its first non-blank character is `#`, and it is
 // not a result marker), or code. The tool owns one part of each code line, the
-// result region: from the first `#=` to the end of the line's content, not
+// result region: from the first `#~` to the end of the line's content, not
 // including the line ending. Everything before the region, and every byte of
 // the line's container prefix (`> `, list indentation, tabs), belongs to the
 // person and is never touched.
@@ -16,10 +16,10 @@
 // line by line, never through goldmark's Segment.Value (which adds padding
 // for tabs and a newline at end of file):
 //
-//   - a line with a region `#= old` becomes `#= new`, keeping whatever
-//     whitespace preceded `#=`; when new equals old nothing is written, so
+//   - a line with a region `#~ old` becomes `#~ new`, keeping whatever
+//     whitespace preceded `#~`; when new equals old nothing is written, so
 //     trailing spaces after an unchanged result survive;
-//   - a code line without a region gets two spaces and `#= new` appended
+//   - a code line without a region gets two spaces and `#~ new` appended
 //     before its line ending (LF or CRLF, whichever the line has);
 //   - blank and comment lines get nothing.
 //
@@ -34,8 +34,8 @@
 //
 // # Failed evaluations
 //
-// A line whose evaluation fails shows `#= error: <message>`. If the line held
-// a good value before, that value stays visible: `#= error: <message> (was:
+// A line whose evaluation fails shows `#~ error: <message>`. If the line held
+// a good value before, that value stays visible: `#~ error: <message> (was:
 // <old>)`. A later run that fails the same way writes the same text, so the
 // file does not churn; a run that succeeds replaces the whole region with the
 // value. Every failed line is listed in [FileReport.Errors], so a check fails

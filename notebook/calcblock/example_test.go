@@ -10,7 +10,7 @@ import (
 )
 
 func ExampleFind() {
-	raw := []byte("# Piece W0311-C2\n\n> ```calc\n> n = 3 #= 3\n> # comment\n> m = n + 1\n> ```\n")
+	raw := []byte("# Piece W0311-C2\n\n> ```cleave\n> n = 3 #~ 3\n> # comment\n> m = n + 1\n> ```\n")
 	s, _ := mdsrc.Parse(raw)
 	blocks, _ := calcblock.Find(s)
 	for _, b := range blocks {
@@ -40,7 +40,7 @@ func (doubler) EvalLine(code string, _ int) (string, error) {
 func (doubler) Deps() []string { return nil }
 
 func ExampleRecompute() {
-	raw := []byte("```calc\na = 2 #= 5\nb = 3\nc = x #= 8\n```\n")
+	raw := []byte("```cleave\na = 2 #~ 5\nb = 3\nc = x #~ 8\n```\n")
 	rep, err := calcblock.Recompute("demo.md", raw, doubler{})
 	if err != nil {
 		fmt.Println(err)
@@ -54,9 +54,9 @@ func ExampleRecompute() {
 	// stale: demo.md:2: 5 → 4
 	// stale: demo.md:3: (none) → 6
 	// stale: demo.md:4: 8 → error: not an integer: "x" (was: 8)
-	// ```calc
-	// a = 2 #= 4
-	// b = 3  #= 6
-	// c = x #= error: not an integer: "x" (was: 8)
+	// ```cleave
+	// a = 2 #~ 4
+	// b = 3  #~ 6
+	// c = x #~ error: not an integer: "x" (was: 8)
 	// ```
 }

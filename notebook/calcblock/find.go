@@ -23,8 +23,8 @@ type Block struct {
 type Line struct {
 	Span   mdsrc.Span // content of the line without container prefix and line ending
 	Code   string     // content with the result region removed
-	Result mdsrc.Span // the result region, from "#=" to the end of the content; Start==End==-1 if none
-	Old    string     // current result text: what follows "#=", with surrounding blanks trimmed
+	Result mdsrc.Span // the result region, from "#~" to the end of the content; Start==End==-1 if none
+	Old    string     // current result text: what follows "#~", with surrounding blanks trimmed
 	LineNo int        // 1-based line number in the file
 }
 
@@ -53,8 +53,11 @@ func (l Line) Kind() Kind {
 // HasResult reports whether the line has a result region.
 func (l Line) HasResult() bool { return l.Result.Start >= 0 }
 
+// InfoString is the first word of the info string of a calc block's fence.
+const InfoString = "cleave"
+
 // Marker is the text that opens a result region.
-const Marker = "#="
+const Marker = "#~"
 
 // Find returns the calc blocks of s in document order. It does not fail on
 // any input goldmark accepts; the error is reserved for an inconsistent
@@ -94,7 +97,7 @@ func Find(s *mdsrc.Source) ([]Block, error) {
 
 func isCalcInfo(info []byte) bool {
 	f := bytes.Fields(info)
-	return len(f) > 0 && string(f[0]) == "calc"
+	return len(f) > 0 && string(f[0]) == InfoString
 }
 
 // lineBounds returns the start of the line containing off and the end of

@@ -18,15 +18,15 @@ var containers = []container{
 
 var calcLines = []string{
 	"a = 1", "b = a + 2", "c = b + @width", "# a comment", "", "   ",
-	"s = \"text ``` with fence\"", "m = \"two\\nlines\"", "y = a + 1 #= 3", "  z = 1   ",
-	"\tt = 2\t#=\t5 ", "#= orphan", "bad = nope + 1", "e = a + 1 #= error: old (was: 9)",
-	"w = a #=", "~~~", "µ = 3 #= 3", "q = a + b + c",
+	"s = \"text ``` with fence\"", "m = \"two\\nlines\"", "y = a + 1 #~ 3", "  z = 1   ",
+	"\tt = 2\t#~\t5 ", "#~ orphan", "bad = nope + 1", "e = a + 1 #~ error: old (was: 9)",
+	"w = a #~", "~~~", "µ = 3 #~ 3", "q = a + b + c",
 }
 
 var prose = []string{
 	"Cooldown by AK; piece W0311-C2 mounted with GE varnish.", "# Heading", "", "- a list item",
 	"> a quote", "1. first", "Some *emphasis* and `code`.", "    indented code", "---",
-	"| a | b |", "|---|---|", "text with #= marker", "```python\nx = 1 #= 2\n```",
+	"| a | b |", "|---|---|", "text with #~ marker", "```python\nx = 1 #~ 2\n```",
 }
 
 // randomDoc builds a random Markdown file with calc blocks in assorted
@@ -43,7 +43,7 @@ func randomDoc(r *rand.Rand) string {
 	if r.IntN(3) == 0 {
 		b.WriteString("---" + eol + "id: D-" + fmt.Sprint(r.IntN(100)) + eol)
 		if r.IntN(2) == 0 {
-			b.WriteString("notes: |" + eol + "  ```calc" + eol + "  a = 5" + eol + "  ```" + eol)
+			b.WriteString("notes: |" + eol + "  ```cleave" + eol + "  a = 5" + eol + "  ```" + eol)
 		}
 		b.WriteString("---" + eol)
 	}
@@ -54,7 +54,7 @@ func randomDoc(r *rand.Rand) string {
 		b.WriteString(eol)
 		c := containers[r.IntN(len(containers))]
 		fence := []string{"```", "~~~", "````"}[r.IntN(3)]
-		b.WriteString(c.open + fence + "calc" + eol)
+		b.WriteString(c.open + fence + "cleave" + eol)
 		for range r.IntN(7) {
 			b.WriteString(c.cont + calcLines[r.IntN(len(calcLines))] + eol)
 		}
@@ -116,7 +116,7 @@ func FuzzRewrite(f *testing.F) {
 	for i := range 20 {
 		f.Add([]byte(randomDoc(r)), []string{"3.1e11 cm^-2", "a ``` b\nc", "", "(was: x)", "~~~~"}[i%5])
 	}
-	f.Add([]byte(">\t```calc\n>\tx!\n>\t```\n"), "e")
+	f.Add([]byte(">\t```cleave\n>\tx!\n>\t```\n"), "e")
 	f.Fuzz(func(t *testing.T, raw []byte, text string) {
 		ev := constEval{text}
 		rep, err := Recompute("f.md", raw, ev)

@@ -24,8 +24,8 @@ func genNotebook(tb testing.TB, n int) string {
 			tb.Fatal(err)
 		}
 	}
-	block := "```calc\nW = geometry.width\nsq = squares(\"2\", \"4\")\nlB = magnetic_length(1 T)\nn = 3e11 cm^-2\nnu = filling_factor(n, 5 T)\n```\n"
-	write("wafers/W1.md", "---\nid: W1\nkind: wafer\n---\n# W1\n\n```calc\nn = 3e11 cm^-2\nE_F = fermi_energy(n, GaAs.mstar)\nlB = magnetic_length(1 T)\nnu = filling_factor(n, 5 T)\nB1 = field_at_filling(n, 1)\n```\n")
+	block := "```cleave\nW = geometry.width\nsq = squares(\"2\", \"4\")\nlB = magnetic_length(1 T)\nn = 3e11 cm^-2\nnu = filling_factor(n, 5 T)\n```\n"
+	write("wafers/W1.md", "---\nid: W1\nkind: wafer\n---\n# W1\n\n```cleave\nn = 3e11 cm^-2\nE_F = fermi_energy(n, GaAs.mstar)\nlB = magnetic_length(1 T)\nnu = filling_factor(n, 5 T)\nB1 = field_at_filling(n, 1)\n```\n")
 	write("masks/M1.md", "---\nid: M1\nkind: mask\nwidth: 100 um\nprobes:\n  - {name: \"2\", position: 250 um, arm_width: 10 um, side: top}\n  - {name: \"4\", position: 750 um, arm_width: 10 um, side: top}\n---\n"+block)
 	pieces := (n - 2) / 100
 	if pieces < 1 {

@@ -78,7 +78,7 @@ func mdFiles(t *testing.T, root string) map[string]string {
 func stripResults(s string) string {
 	lines := strings.Split(s, "\n")
 	for i, l := range lines {
-		if j := strings.Index(l, "#="); j >= 0 {
+		if j := strings.Index(l, "#~"); j >= 0 {
 			l = l[:j]
 		}
 		lines[i] = strings.TrimRight(l, " \t")

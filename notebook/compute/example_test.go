@@ -9,12 +9,12 @@ import (
 )
 
 // A notebook is a folder (here with an empty .git so results can be cached); Run evaluates
-// its calc blocks and, with Write, puts each result after `#=` on its line.
+// its calc blocks and, with Write, puts each result after `#~` on its line.
 func ExampleRun() {
 	root, _ := os.MkdirTemp("", "nb")
 	defer os.RemoveAll(root)
 	os.Mkdir(filepath.Join(root, ".git"), 0o755)
-	os.WriteFile(filepath.Join(root, "note.md"), []byte("```calc\nlB = magnetic_length(2 T)\n```\n"), 0o644)
+	os.WriteFile(filepath.Join(root, "note.md"), []byte("```cleave\nlB = magnetic_length(2 T)\n```\n"), 0o644)
 	rep, err := compute.Run(root, nil, compute.Options{Write: true})
 	if err != nil {
 		fmt.Println(err)
@@ -24,8 +24,8 @@ func ExampleRun() {
 	fmt.Print(string(b))
 	fmt.Println(rep.Lines(), rep.Written)
 	// Output:
-	// ```calc
-	// lB = magnetic_length(2 T)  #= 18.141 nm
+	// ```cleave
+	// lB = magnetic_length(2 T)  #~ 18.141 nm
 	// ```
 	// [note.md:2: (none) → 18.141 nm] [note.md]
 }

@@ -170,7 +170,7 @@ func Run(root string, nb *notebook.Notebook, opt Options) (*Report, error) {
 }
 
 // hasCalcFence is a cheap test that skips files that cannot hold a calc block.
-func hasCalcFence(raw []byte) bool { return bytes.Contains(raw, []byte("calc")) }
+func hasCalcFence(raw []byte) bool { return bytes.Contains(raw, []byte(calcblock.InfoString)) }
 
 // NewEnv is the calc environment of one notebook file: its entry's fields as names, the
 // entry-bound functions, and the notebook's files for data("...").

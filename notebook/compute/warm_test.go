@@ -27,15 +27,15 @@ func TestWarmCheckAfterAncestorEdit(t *testing.T) {
 		}
 	}
 	piece := func(id, width string) string {
-		return "---\nid: " + id + "\nkind: piece\nfrom: W1\nwidth: " + width + "\n---\n```calc\nw = width\nA = w * w\n```\n"
+		return "---\nid: " + id + "\nkind: piece\nfrom: W1\nwidth: " + width + "\n---\n```cleave\nw = width\nA = w * w\n```\n"
 	}
-	write("wafers/W1.md", "---\nid: W1\nkind: wafer\ndensity: 3e11 cm^-2\n---\n```calc\nn = density\nnu = filling_factor(n, 5 T)\n```\n")
+	write("wafers/W1.md", "---\nid: W1\nkind: wafer\ndensity: 3e11 cm^-2\n---\n```cleave\nn = density\nnu = filling_factor(n, 5 T)\n```\n")
 	write("masks/M1.md", "---\nid: M1\nkind: mask\nwidth: 100 um\nprobes:\n  - {name: \"2\", position: 250 um, side: top}\n  - {name: \"4\", position: 750 um, side: top}\n---\n")
 	write("pieces/P0.md", piece("P0", "4 mm"))
 	write("pieces/P1.md", piece("P1", "5 mm"))
 	for i, p := range []string{"P0", "P1", "P0", "P1", "P1"} {
 		id := "D" + string(rune('0'+i))
-		write("devices/"+id+".md", "---\nid: "+id+"\nkind: device\nfrom: "+p+"\nmask: M1\n---\n```calc\npw = piece.width\nsq = squares(\"2\", \"4\")\nn = wafer.density\n```\n")
+		write("devices/"+id+".md", "---\nid: "+id+"\nkind: device\nfrom: "+p+"\nmask: M1\n---\n```cleave\npw = piece.width\nsq = squares(\"2\", \"4\")\nn = wafer.density\n```\n")
 	}
 	if _, err := Run(root, nil, Options{Write: true}); err != nil {
 		t.Fatal(err)

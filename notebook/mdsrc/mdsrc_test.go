@@ -42,8 +42,8 @@ func TestParse(t *testing.T) {
 		wantHeading bool // a level-1 heading must be found in the body
 	}{
 		{
-			name: "no front matter", raw: "# Title\n\n```calc\nx = 1\n```\n",
-			body: "# Title\n\n```calc\nx = 1\n```\n", wantFences: []string{"calc"}, wantHeading: true,
+			name: "no front matter", raw: "# Title\n\n```cleave\nx = 1\n```\n",
+			body: "# Title\n\n```cleave\nx = 1\n```\n", wantFences: []string{"cleave"}, wantHeading: true,
 		},
 		{
 			name: "front matter LF", raw: "---\nid: W1\nkind: wafer\n---\n# W1\n",
@@ -70,13 +70,13 @@ func TestParse(t *testing.T) {
 			bom: 3, hasFM: true, yaml: "id: W1\n", fmLine: 2, body: "# W1\n", wantHeading: true,
 		},
 		{
-			name: "BOM without front matter", raw: "\uFEFF# Title\n```calc\n```\n",
-			bom: 3, body: "# Title\n```calc\n```\n", wantFences: []string{"calc"}, wantHeading: true,
+			name: "BOM without front matter", raw: "\uFEFF# Title\n```cleave\n```\n",
+			bom: 3, body: "# Title\n```cleave\n```\n", wantFences: []string{"cleave"}, wantHeading: true,
 		},
 		{
 			name:  "fence inside YAML block string is not a code block",
-			raw:   "---\nnotes: |\n  ```calc\n  x = 1\n  ```\n---\n```text\nhello\n```\n",
-			hasFM: true, yaml: "notes: |\n  ```calc\n  x = 1\n  ```\n", fmLine: 2,
+			raw:   "---\nnotes: |\n  ```cleave\n  x = 1\n  ```\n---\n```text\nhello\n```\n",
+			hasFM: true, yaml: "notes: |\n  ```cleave\n  x = 1\n  ```\n", fmLine: 2,
 			body: "```text\nhello\n```\n", wantFences: []string{"text"},
 		},
 		{
@@ -88,8 +88,8 @@ func TestParse(t *testing.T) {
 			body: "----\ntext\n",
 		},
 		{
-			name: "unclosed front matter", raw: "---\nid: W1\n```calc\nx = 1\n```\n",
-			body: "---\nid: W1\n```calc\nx = 1\n```\n", wantErr: true, errLine: 1, wantFences: []string{"calc"},
+			name: "unclosed front matter", raw: "---\nid: W1\n```cleave\nx = 1\n```\n",
+			body: "---\nid: W1\n```cleave\nx = 1\n```\n", wantErr: true, errLine: 1, wantFences: []string{"cleave"},
 		},
 		{
 			name: "lone dashes at EOF", raw: "---", body: "---", wantErr: true, errLine: 1,
@@ -181,7 +181,7 @@ func equalStrings(a, b []string) bool {
 // TestFencePosition checks that goldmark's node position of a fence points at
 // the fence character in Raw, with BOM and front matter in front of it.
 func TestFencePosition(t *testing.T) {
-	raw := []byte("\uFEFF---\r\ntitle: \"n ≈ 3e11\"\r\n---\r\n\r\n~~~calc\r\nx = 1\r\n~~~\r\n")
+	raw := []byte("\uFEFF---\r\ntitle: \"n ≈ 3e11\"\r\n---\r\n\r\n~~~cleave\r\nx = 1\r\n~~~\r\n")
 	s, err := Parse(raw)
 	if err != nil {
 		t.Fatal(err)
@@ -197,7 +197,7 @@ func TestFencePosition(t *testing.T) {
 		}
 		return ast.WalkContinue, nil
 	})
-	want := bytes.Index(raw, []byte("~~~calc"))
+	want := bytes.Index(raw, []byte("~~~cleave"))
 	if pos != want {
 		t.Fatalf("fence Pos() = %d, want %d", pos, want)
 	}
@@ -260,8 +260,8 @@ func TestPosErrorMessage(t *testing.T) {
 
 func FuzzParse(f *testing.F) {
 	for _, seed := range []string{
-		"", "---", "---\n---\n", "\uFEFF---\r\nid: a\r\n...\r\n```calc\r\nx\r\n```\r\n",
-		"> ```calc\n> x = 1 #= 1\n> ```\n", "- a\n\t```calc\n\tx\n\t```\n", "\uFEFF ```\n",
+		"", "---", "---\n---\n", "\uFEFF---\r\nid: a\r\n...\r\n```cleave\r\nx\r\n```\r\n",
+		"> ```cleave\n> x = 1 #~ 1\n> ```\n", "- a\n\t```cleave\n\tx\n\t```\n", "\uFEFF ```\n",
 		"---\nnotes: |\n  ```\n---\n", "\t>\t```\n", "µ≈\n\r\n\r",
 	} {
 		f.Add([]byte(seed))
