@@ -317,7 +317,7 @@ func (c *cli) recompute(name string, args []string, write bool) int {
 	if err != nil {
 		return c.usageErr(name, flagMsg(err, ""))
 	}
-	root, err := c.root()
+	wt, err := c.workTree()
 	if err != nil {
 		return c.fail(name, err)
 	}
@@ -325,65 +325,62 @@ func (c *cli) recompute(name string, args []string, write bool) int {
 	for i, p := range pos {
 		paths[i] = c.path(p)
 	}
-	if !*noCache && len(paths) == 0 && compute.UnchangedSinceGoodCheck(root) {
+	rel, err := wt.Rel(paths)
+	if err != nil {
+		return c.fail(name, err)
+	}
+	res, err := wt.Check(compute.CheckOptions{Write: write, NoCache: *noCache, Paths: rel})
+	if err != nil {
+		return c.fail(name, err)
+	}
+	if res.Unchanged {
 		fmt.Fprintf(c.err, "cleave %s: nothing changed since the last check that found no problem\n", name)
 		return 0
 	}
-	nb, err := notebook.LoadDir(root)
-	if err != nil {
-		return c.fail(name, err)
-	}
-	rep, err := compute.Run(root, nb, compute.Options{Write: write, NoCache: *noCache, Paths: paths})
-	if err != nil {
-		return c.fail(name, err)
-	}
-	// One problem per line printed: a failed line is both stale and an error, and is
-	// listed (and counted) once.
-	bad := 0
 	if write {
-		for _, f := range rep.Files {
-			bad += len(f.Errors)
-		}
-	} else {
-		bad = len(rep.Lines()) - len(rep.Failures)
-	}
-	if write {
-		for _, p := range rep.Written {
+		for _, p := range res.Written {
 			fmt.Fprintf(c.out, "updated %s\n", p)
 		}
-		for _, f := range rep.Files {
+		for _, f := range res.Files {
 			for _, ch := range f.Errors {
-				fmt.Fprintln(c.out, compute.ErrorLine(ch))
+				fmt.Fprintln(c.out, ch.ErrorString())
 			}
 		}
+		for _, p := range res.Problems {
+			fmt.Fprintln(c.out, p.Error())
+		}
+		for _, e := range res.Failures {
+			fmt.Fprintln(c.out, e.Error())
+		}
+		for _, e := range res.WriteFailures {
+			fmt.Fprintln(c.out, e.Error())
+		}
 	} else {
-		for _, l := range rep.Lines() {
+		for _, l := range res.Lines() {
 			fmt.Fprintln(c.out, l)
 		}
 	}
-	for _, e := range rep.Failures {
-		if !write {
-			continue // already in rep.Lines
-		}
-		fmt.Fprintln(c.out, e.Error())
-	}
-	bad += len(rep.Failures)
-	// Invalid entries fail a check too: it is the CI gate.
-	probs := nb.Validate()
-	for _, p := range probs {
-		fmt.Fprintln(c.out, p.Error())
-	}
-	bad += len(probs)
+	bad := res.Bad(write)
 	fmt.Fprintf(c.err, "cleave %s: %d file(s) with calc blocks, %d line(s) evaluated, %d from cache, %d problem(s)\n",
-		name, len(rep.Files), rep.Evaluated, rep.CacheHits, bad)
+		name, len(res.Files), res.Evaluated, res.CacheHits, bad)
 	if bad > 0 {
-		compute.ForgetGoodCheck(root)
 		return 1
 	}
-	if len(paths) == 0 {
-		_ = compute.RememberGoodCheck(root) // only a speed-up: a failure costs a full check next time
-	}
 	return 0
+}
+
+// workTree is the notebook the command runs in, with the tool's state folder under its git
+// directory.
+func (c *cli) workTree() (compute.WorkTree, error) {
+	root, err := c.root()
+	if err != nil {
+		return compute.WorkTree{}, err
+	}
+	state, err := hooks.StateDir(root)
+	if err != nil {
+		state = "" // no git directory: no cache, nothing remembered
+	}
+	return compute.WorkTree{Root: root, StateDir: state}, nil
 }
 
 func runEval(c *cli, args []string) int {

@@ -121,12 +121,16 @@ func Demo(scenario fs.FS, dir string, out io.Writer) error {
 		// A colleague brings the results up to date before committing; what the run found
 		// stale is what `cleave check` would have listed (after the mask correction: the
 		// results that depend on the probe spacing, old → new).
-		rep, err := compute.Run(abs, nil, compute.Options{Write: true})
+		wt := compute.WorkTree{Root: abs}
+		if state, err := StateDir(abs); err == nil {
+			wt.StateDir = state
+		}
+		rep, err := wt.Check(compute.CheckOptions{Write: true})
 		if err != nil {
 			return err
 		}
-		if len(rep.Failures) > 0 {
-			return fmt.Errorf("demo step %d: %w", i+1, errors.Join(rep.Failures...))
+		if fails := append(rep.Failures, rep.WriteFailures...); len(fails) > 0 {
+			return fmt.Errorf("demo step %d: %w", i+1, errors.Join(fails...))
 		}
 		stale := 0
 		for _, f := range rep.Files {
@@ -169,7 +173,7 @@ func demoSummary(dir string, out io.Writer) error {
 		return err
 	}
 	fmt.Fprintln(out, "\n$ cleave check")
-	rep, err := compute.Run(dir, nb, compute.Options{})
+	rep, err := compute.Run(compute.WorkTree{Root: dir}.FS(), nb, compute.Options{})
 	if err != nil {
 		return err
 	}

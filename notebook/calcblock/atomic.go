@@ -115,3 +115,25 @@ func syncDir(dir string) error {
 	}
 	return nil
 }
+
+// ReplaceFile writes data to a temporary file beside path and renames it over path, so a
+// reader sees the old content or the new, never a part. It is for the tool's own files
+// under the git directory (cache entries, the pack, the last good check's digest), where a
+// lost write only costs time; notebook files go through WriteAtomic, which also fsyncs and
+// refuses a file changed on disk.
+func ReplaceFile(path string, data []byte) error {
+	f, err := os.CreateTemp(filepath.Dir(path), ".tmp-*")
+	if err != nil {
+		return err
+	}
+	_, werr := f.Write(data)
+	if err := errors.Join(werr, f.Close()); err != nil {
+		os.Remove(f.Name())
+		return err
+	}
+	if err := os.Rename(f.Name(), path); err != nil {
+		os.Remove(f.Name())
+		return err
+	}
+	return nil
+}

@@ -21,28 +21,11 @@ func benchNotebook(n int) [][]byte {
 func BenchmarkRecomputeNotebook(b *testing.B) {
 	files := benchNotebook(10000)
 	fields := map[string]string{"width": "20 um"}
-	run := func(b *testing.B, opt Options) {
-		for b.Loop() {
-			for i, raw := range files {
-				if _, err := RecomputeWith(fmt.Sprint("e", i, ".md"), raw, newSumEval(fields), opt); err != nil {
-					b.Fatal(err)
-				}
-			}
-		}
-	}
-	b.Run("cold", func(b *testing.B) { run(b, Options{}) })
-	b.Run("warm", func(b *testing.B) {
-		c, err := OpenCache(b.TempDir())
-		if err != nil {
-			b.Fatal(err)
-		}
-		opt := Options{Cache: c, Resolve: resolverFor(fields), Salt: "bench"}
-		for i, raw := range files { // fill the cache
-			if _, err := RecomputeWith(fmt.Sprint("e", i, ".md"), raw, newSumEval(fields), opt); err != nil {
+	for b.Loop() {
+		for i, raw := range files {
+			if _, err := Recompute(fmt.Sprint("e", i, ".md"), raw, newSumEval(fields).ev()); err != nil {
 				b.Fatal(err)
 			}
 		}
-		b.ResetTimer()
-		run(b, opt)
-	})
+	}
 }

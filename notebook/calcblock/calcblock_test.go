@@ -19,7 +19,7 @@ var demoFields = map[string]string{"width": "20 um"}
 
 func reportText(r *FileReport) string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "changed: %v\nevaluated: %d\n", r.Changed, r.Evaluated)
+	fmt.Fprintf(&b, "changed: %v\nevaluated: %d\n", r.Changed, r.Code)
 	for _, c := range r.Stale {
 		fmt.Fprintf(&b, "stale %s\n", c)
 	}
@@ -41,7 +41,7 @@ func TestGolden(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			rep, err := Recompute(name+".md", raw, newSumEval(demoFields))
+			rep, err := Recompute(name+".md", raw, newSumEval(demoFields).ev())
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -49,7 +49,7 @@ func TestGolden(t *testing.T) {
 			checkGolden(t, "testdata/"+name+".report.golden", []byte(reportText(rep)))
 
 			// A second pass over the output changes nothing.
-			rep2, err := Recompute(name+".md", rep.NewBytes, newSumEval(demoFields))
+			rep2, err := Recompute(name+".md", rep.NewBytes, newSumEval(demoFields).ev())
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -313,7 +313,7 @@ func TestChangeString(t *testing.T) {
 
 func TestRecomputeUnclosedFrontMatter(t *testing.T) {
 	raw := []byte("---\nid: x\n```cleave\na = 1\n```\n")
-	rep, err := Recompute("x.md", raw, newSumEval(nil))
+	rep, err := Recompute("x.md", raw, newSumEval(nil).ev())
 	if err != nil {
 		t.Fatal(err)
 	}

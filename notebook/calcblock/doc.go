@@ -43,45 +43,14 @@
 // keep this round trip unambiguous, the text `(was:` inside an error message is
 // written as `(was :`.
 //
-// # Cache
+// # What a person owns
 //
-// [RecomputeWith] can skip evaluation entirely when nothing a file's results
-// depend on has changed. Entries live under `<gitdir>/cleave/cache/` (see
-// [GitDir] and [OpenCache]) and are keyed by SHA-256 hashes:
-//
-//   - the text key hashes the cache format version [CacheVersion], the
-//     caller's salt (the calc engine's version), and every code line of every
-//     calc block in the file, each with its line number (error messages may
-//     mention line numbers);
-//   - the entry stored under the text key is the list of dependencies the
-//     evaluator reported ([Evaluator.Deps]) the last time this text was
-//     evaluated;
-//   - the full key hashes the text key and each of those dependencies
-//     together with its current value, as given by the caller's resolver
-//     (front-matter field values, content hashes of data files);
-//   - the entry stored under the full key is the list of results, one per
-//     code line.
-//
-// So a lookup first re-hashes the dependencies of the previous evaluation and
-// only then looks for results. This is sound because evaluation is
-// deterministic: with the same text and the same values for every dependency
-// it read, the evaluator would read the same dependencies again and produce
-// the same results. A dependency that cannot be resolved, a missing entry, an
-// entry that fails its checksum or has the wrong number of results all count
-// as a miss, and the file is evaluated in full; deleting the cache therefore
-// changes no result, only the time taken.
-//
-// The cache is file-level, not block-level: the [Evaluator] carries names from
-// earlier blocks into later ones and offers no way to restore that state from
-// cached display strings, so a change anywhere in a file's calc blocks
-// re-evaluates the whole file.
-//
-// Each entry is a file of its own; in addition [Cache.Flush] writes the
-// entries one session used into a single pack file in the same directory,
-// which the next session reads at its first lookup instead of one file per
-// entry. The pack holds only what the last session used; entry files are
-// never evicted, so delete the directory to reclaim space (results stay the
-// same, only the next run is slower).
+// [InputDigest] hashes every byte of a file except the result regions and the
+// blanks at the end of code lines: the bytes that can change a result. The
+// engine (notebook/compute) keys its cache by it, so writing results never
+// invalidates anything, and [Line.Input] is the code the evaluator is given
+// (without those trailing blanks), so nothing the digest leaves out can reach
+// an evaluation.
 //
 // # Writing files
 //

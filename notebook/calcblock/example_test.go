@@ -24,11 +24,9 @@ func ExampleFind() {
 	// line 6: code "m = n + 1", result ""
 }
 
-// doubler is a toy evaluator: every line is "name = integer" and shows
+// double is a toy evaluator: every line is "name = integer" and shows
 // twice the integer.
-type doubler struct{}
-
-func (doubler) EvalLine(code string, _ int) (string, error) {
+func double(code string, _ int) (string, error) {
 	_, v, _ := strings.Cut(code, "=")
 	n, err := strconv.Atoi(strings.TrimSpace(v))
 	if err != nil {
@@ -37,11 +35,9 @@ func (doubler) EvalLine(code string, _ int) (string, error) {
 	return strconv.Itoa(2 * n), nil
 }
 
-func (doubler) Deps() []string { return nil }
-
 func ExampleRecompute() {
 	raw := []byte("```cleave\na = 2 #~ 5\nb = 3\nc = x #~ 8\n```\n")
-	rep, err := calcblock.Recompute("demo.md", raw, doubler{})
+	rep, err := calcblock.Recompute("demo.md", raw, calcblock.EvalFunc(double))
 	if err != nil {
 		fmt.Println(err)
 		return

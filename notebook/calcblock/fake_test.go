@@ -2,7 +2,6 @@ package calcblock
 
 import (
 	"fmt"
-	"sort"
 	"strconv"
 	"strings"
 )
@@ -23,7 +22,7 @@ func newSumEval(fields map[string]string) *sumEval {
 	return &sumEval{fields: fields, env: map[string]int{}, deps: map[string]bool{}}
 }
 
-func (e *sumEval) EvalLine(code string, lineNo int) (string, error) {
+func (e *sumEval) eval(code string, lineNo int) (string, error) {
 	e.calls++
 	name, expr, ok := strings.Cut(code, "=")
 	if !ok {
@@ -68,11 +67,5 @@ func (e *sumEval) EvalLine(code string, lineNo int) (string, error) {
 	return strconv.Itoa(total), nil
 }
 
-func (e *sumEval) Deps() []string {
-	var out []string
-	for d := range e.deps {
-		out = append(out, d)
-	}
-	sort.Strings(out)
-	return out
-}
+// ev is e as a calcblock.Evaluator.
+func (e *sumEval) ev() Evaluator { return EvalFunc(e.eval) }

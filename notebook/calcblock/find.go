@@ -50,6 +50,10 @@ func (l Line) Kind() Kind {
 	return Code
 }
 
+// Input is the code the line gives the evaluator: its code without the
+// blanks at its end.
+func (l Line) Input() string { return strings.TrimRight(l.Code, " \t") }
+
 // HasResult reports whether the line has a result region.
 func (l Line) HasResult() bool { return l.Result.Start >= 0 }
 

@@ -81,13 +81,13 @@ func TestRecomputeProperty(t *testing.T) {
 	}
 	for i := range n {
 		raw := []byte(randomDoc(r))
-		rep, err := Recompute("random.md", raw, newSumEval(demoFields))
+		rep, err := Recompute("random.md", raw, newSumEval(demoFields).ev())
 		if err != nil {
 			t.Fatalf("doc %d: %v\n%q", i, err, raw)
 		}
 		t.Run(fmt.Sprint(i), func(t *testing.T) {
 			assertOnlyRegionsChanged(t, raw, rep.NewBytes)
-			rep2, err := Recompute("random.md", rep.NewBytes, newSumEval(demoFields))
+			rep2, err := Recompute("random.md", rep.NewBytes, newSumEval(demoFields).ev())
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -103,13 +103,12 @@ func TestRecomputeProperty(t *testing.T) {
 // message on lines containing '!'.
 type constEval struct{ text string }
 
-func (e constEval) EvalLine(code string, _ int) (string, error) {
+func (e constEval) eval(code string, _ int) (string, error) {
 	if strings.Contains(code, "!") {
 		return "", fmt.Errorf("%s", e.text)
 	}
 	return e.text, nil
 }
-func (constEval) Deps() []string { return nil }
 
 func FuzzRewrite(f *testing.F) {
 	r := rand.New(rand.NewPCG(1, 2))
@@ -118,7 +117,7 @@ func FuzzRewrite(f *testing.F) {
 	}
 	f.Add([]byte(">\t```cleave\n>\tx!\n>\t```\n"), "e")
 	f.Fuzz(func(t *testing.T, raw []byte, text string) {
-		ev := constEval{text}
+		ev := EvalFunc(constEval{text}.eval)
 		rep, err := Recompute("f.md", raw, ev)
 		if err != nil {
 			t.Skipf("parse inconsistency reported: %v", err)

@@ -92,7 +92,7 @@ func stripResults(s string) string {
 func TestCalcGolden(t *testing.T) {
 	root := testNotebook(t)
 	before := mdFiles(t, root)
-	rep, err := Run(root, nil, Options{Write: true, NoCache: true})
+	rep, err := runTree(root, CheckOptions{Write: true, NoCache: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -130,7 +130,7 @@ func TestCalcGolden(t *testing.T) {
 	if !strings.Contains(after["cooldowns/C1.md"], "leaves the notebook") && !strings.Contains(after["cooldowns/C1.md"], "outside") {
 		t.Errorf("the escaping data path is not refused:\n%s", after["cooldowns/C1.md"])
 	}
-	rep2, err := Run(root, nil, Options{Write: true, NoCache: true})
+	rep2, err := runTree(root, CheckOptions{Write: true, NoCache: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -169,10 +169,10 @@ func TestRecoversSynthetic(t *testing.T) {
 // position makes exactly the files that read the geometry stale.
 func TestCacheMissOnAncestorEdit(t *testing.T) {
 	root := testNotebook(t)
-	if _, err := Run(root, nil, Options{Write: true}); err != nil {
+	if _, err := runTree(root, CheckOptions{Write: true}); err != nil {
 		t.Fatal(err)
 	}
-	rep, err := Run(root, nil, Options{})
+	rep, err := runTree(root, CheckOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -184,7 +184,7 @@ func TestCacheMissOnAncestorEdit(t *testing.T) {
 	if err := os.WriteFile(mask, bytes.Replace(b, []byte("position: 350 um"), []byte("position: 400 um"), 1), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	rep, err = Run(root, nil, Options{})
+	rep, err = runTree(root, CheckOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -204,10 +204,10 @@ func TestCacheMissOnAncestorEdit(t *testing.T) {
 // to nothing) and gets it back must not keep the errors cached in between.
 func TestCacheFollowsIdentity(t *testing.T) {
 	root := testNotebook(t)
-	if _, err := Run(root, nil, Options{Write: true}); err != nil {
+	if _, err := runTree(root, CheckOptions{Write: true}); err != nil {
 		t.Fatal(err)
 	}
-	first, err := Run(root, nil, Options{NoCache: true})
+	first, err := runTree(root, CheckOptions{NoCache: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -216,13 +216,13 @@ func TestCacheFollowsIdentity(t *testing.T) {
 	if err := os.WriteFile(mask, bytes.Replace(good, []byte("id: M1"), []byte("idx: M1"), 1), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	if rep, err := Run(root, nil, Options{}); err != nil || rep.OK() {
+	if rep, err := runTree(root, CheckOptions{}); err != nil || rep.OK() {
 		t.Fatalf("check without the mask's id: err %v, ok %v; want failures", err, rep != nil && rep.OK())
 	}
 	if err := os.WriteFile(mask, good, 0o644); err != nil {
 		t.Fatal(err)
 	}
-	rep, err := Run(root, nil, Options{})
+	rep, err := runTree(root, CheckOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}

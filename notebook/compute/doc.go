@@ -3,11 +3,25 @@
 // names (`device.width`, `mask.probes`, `wafer.layers`, `geometry.width`), data files read
 // through the notebook's file system, and results cached under the git directory.
 //
-// It is what `cleave calc`, `cleave check` and `cleave eval` call. It writes notebook files only
-// through [calcblock.WriteAtomic], which refuses a file that changed on disk since it was read.
-// Its own state lives under the git directory: the calc cache ([calcblock.OpenCache]) and the
-// digest of the notebook as the last check without problems saw it ([RememberGoodCheck]), which
-// lets `cleave check` skip a notebook that has not changed since ([UnchangedSinceGoodCheck]).
+// It is what `cleave calc`, `cleave check` and `cleave eval` call, and what runs over the git
+// index or a commit: [Run] takes any fs.FS and returns typed results (each stale or failed line
+// with its position, old and new text; the file with its result regions brought up to date;
+// the invalid entries) and writes nothing. [WorkTree] is the one layer that knows about a
+// folder on disk: it writes results back through [calcblock.WriteAtomic] (which refuses a file
+// changed since it was read) and keeps the tool's own state under the git directory: the
+// [Cache] (one file) and the digest of the notebook as the last check without problems saw it,
+// which lets a check of an unchanged notebook return at once.
+//
+// # The cache never changes an answer
+//
+// A file's cached results are keyed by the engine's salt, its path and its person-owned bytes
+// ([calcblock.InputDigest]), and stored with every question its evaluation asked of the
+// notebook and the answer it got: the files of other entries it read (their person-owned
+// bytes), which file holds an id, which entry is the nearest of a kind, which cooldowns a
+// scorecard gathers, the bytes of each data file as read, the symbolic links on the way. The
+// results are reused only when every answer is still the same (see view.go). The differential
+// test (TestCacheDifferential) checks on random edit sequences that a run with the cache prints
+// exactly what a run without it prints.
 //
 // # Names a calc block can read
 //

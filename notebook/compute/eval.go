@@ -87,7 +87,7 @@ func fileEnv(root, inFile string) (*calc.Env, error) {
 	}
 	for _, b := range blocks {
 		for _, l := range b.Lines {
-			env.EvalLine(l.Code, l.LineNo) // a failing line leaves its name undefined
+			env.EvalLine(l.Input(), l.LineNo) // a failing line leaves its name undefined
 		}
 	}
 	return env, nil

@@ -4,25 +4,48 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"testing/fstest"
 
 	"cleave/notebook/compute"
 )
 
-// A notebook is a folder (here with an empty .git so results can be cached); Run evaluates
-// its calc blocks and, with Write, puts each result after `#~` on its line.
+// Run evaluates the calc blocks of any fs.FS (here a tree in memory: it could as well be the
+// git index or a commit) and reports, as typed values, each stale result and the file with
+// its result regions brought up to date.
 func ExampleRun() {
+	tree := fstest.MapFS{"note.md": {Data: []byte("```cleave\nlB = magnetic_length(2 T)\n```\n")}}
+	rep, err := compute.Run(tree, nil, compute.Options{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	for _, f := range rep.Files {
+		for _, c := range f.Stale {
+			fmt.Printf("%s line %d: %q → %q\n", c.Path, c.Line, c.Old, c.New)
+		}
+		fmt.Print(string(f.NewBytes))
+	}
+	// Output:
+	// note.md line 2: "" → "18.141 nm"
+	// ```cleave
+	// lB = magnetic_length(2 T)  #~ 18.141 nm
+	// ```
+}
+
+// A WorkTree is a notebook folder on disk: Check runs the engine over it and, with Write,
+// puts each result after `#~` on its line (atomically, file by file).
+func ExampleWorkTree_Check() {
 	root, _ := os.MkdirTemp("", "nb")
 	defer os.RemoveAll(root)
-	os.Mkdir(filepath.Join(root, ".git"), 0o755)
 	os.WriteFile(filepath.Join(root, "note.md"), []byte("```cleave\nlB = magnetic_length(2 T)\n```\n"), 0o644)
-	rep, err := compute.Run(root, nil, compute.Options{Write: true})
+	res, err := compute.WorkTree{Root: root}.Check(compute.CheckOptions{Write: true})
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
 	b, _ := os.ReadFile(filepath.Join(root, "note.md"))
 	fmt.Print(string(b))
-	fmt.Println(rep.Lines(), rep.Written)
+	fmt.Println(res.Lines(), res.Written)
 	// Output:
 	// ```cleave
 	// lB = magnetic_length(2 T)  #~ 18.141 nm

@@ -3,7 +3,6 @@ package compute
 import (
 	"errors"
 	"fmt"
-	"io/fs"
 
 	"cleave/calc"
 	"cleave/calc/physics"
@@ -15,15 +14,14 @@ import (
 
 // resolver answers the names of DESIGN's field access for one entry (see the package doc).
 type resolver struct {
-	nb    *notebook.Notebook
+	v     *view
 	e     *notebook.Entry
-	fsys  fs.FS
 	depth int // how many scorecards this evaluation is nested in
 	memo  map[string]calc.Value
 }
 
-func newResolver(fsys fs.FS, nb *notebook.Notebook, e *notebook.Entry, depth int) *resolver {
-	return &resolver{nb: nb, e: e, fsys: fsys, depth: depth, memo: map[string]calc.Value{}}
+func newResolver(v *view, e *notebook.Entry, depth int) *resolver {
+	return &resolver{v: v, e: e, depth: depth, memo: map[string]calc.Value{}}
 }
 
 // Lookup implements calc.Resolver.
@@ -49,7 +47,7 @@ func (r *resolver) lookup(name string) calc.Value {
 	}
 	for _, k := range notebook.Kinds() {
 		if string(k) == name {
-			if a, ok := r.nb.Nearest(r.e, k); ok {
+			if a, ok := r.v.nearest(r.e, k); ok {
 				return entryRecord(a, name)
 			}
 			return nil
@@ -65,7 +63,7 @@ func (r *resolver) lookup(name string) calc.Value {
 // geometry is the Hall-bar geometry calculations use: the device's as-built width and
 // probes where given, otherwise the mask's drawn ones.
 func (r *resolver) geometry() (*calc.Record, error) {
-	src := geometrySources(r.nb, r.e)
+	src := geometrySources(r.v, r.e)
 	dev, hasDev, mask := src.dev, src.hasDev, src.mask
 	if mask == nil && !hasDev {
 		return nil, errors.New("geometry: no device or mask in this entry's lineage")
@@ -99,17 +97,17 @@ type geomSources struct {
 	mask    *notebook.Entry
 }
 
-func geometrySources(nb *notebook.Notebook, e *notebook.Entry) geomSources {
+func geometrySources(v *view, e *notebook.Entry) geomSources {
 	var g geomSources
-	g.dev, g.hasDev = nb.Nearest(e, notebook.KindDevice)
+	g.dev, g.hasDev = v.nearest(e, notebook.KindDevice)
 	if g.hasDev {
 		if id, ok := g.dev.Text("mask"); ok && id != "" {
-			g.mask, _ = nb.Entry(id)
+			g.mask, _ = v.entry(id)
 		}
 		g.asBuilt, _ = g.dev.Field("as_built")
 	}
 	if g.mask == nil {
-		g.mask, _ = nb.Nearest(e, notebook.KindMask)
+		g.mask, _ = v.nearest(e, notebook.KindMask)
 	}
 	return g
 }

@@ -2,18 +2,13 @@ package compute
 
 import (
 	"bytes"
-	"crypto/sha256"
 	"encoding/hex"
 	"errors"
 	"fmt"
 	"io/fs"
-	"os"
 	"path"
-	"path/filepath"
-	"regexp"
 	"runtime"
 	"sort"
-	"strconv"
 	"strings"
 	"sync"
 	"sync/atomic"
@@ -24,35 +19,44 @@ import (
 	"cleave/notebook/mdsrc"
 )
 
-// Version is mixed into every cache key (with a hash of the executable, see engineSalt), so
+// Version is mixed into every cache key (with a hash of the executable, see EngineSalt), so
 // a new engine never reuses old results.
 // Bump it whenever a formula, a display rule or a function changes.
-const Version = "cleave-engine 1"
+const Version = "cleave-engine 2"
 
 // Options tunes Run.
 type Options struct {
-	// Write brings result regions up to date on disk (`cleave calc`); without it Run only
-	// reports (`cleave check`).
-	Write bool
-	// NoCache evaluates everything even when a cached result would do.
-	NoCache bool
-	// Paths limits the run to these files or folders (slash or OS paths relative to the
-	// notebook root); empty means every Markdown file.
+	// Cache, when not nil, answers files whose inputs have not changed since it stored their
+	// results, and stores what this run evaluates (written by [Cache.Save]).
+	Cache *Cache
+	// Paths limits the report to these files or folders (clean slash paths relative to the
+	// root of the tree; "." for all); empty means every Markdown file. Other files are still
+	// read where a reported file depends on them.
 	Paths []string
+	// Salt is mixed into every cache key; empty means [EngineSalt]. Two engines that may
+	// compute different results must use different salts.
+	Salt string
 }
 
-// Report is the outcome of a run over a notebook.
+// Report is the outcome of a run over a notebook: typed results, nothing to parse.
 type Report struct {
-	Files     []*calcblock.FileReport // files with at least one calc block
-	Written   []string                // files rewritten on disk
-	Failures  []error                 // files that could not be read, evaluated or written
-	Evaluated int                     // lines handed to the evaluator
-	CacheHits int                     // files answered from the cache
+	Files     []*FileResult      // files with at least one calc block, in path order
+	Problems  []notebook.Problem // invalid entries (Notebook.Validate), in path order
+	Failures  []error            // files that could not be read or evaluated
+	Evaluated int                // lines handed to the evaluator
+	CacheHits int                // files answered from the cache
 }
 
-// OK reports whether every result is current and no line failed.
+// FileResult is one file's outcome: which results are stale or failed, and the file with its
+// result regions brought up to date.
+type FileResult struct {
+	*calcblock.FileReport
+	FromCache bool // the results came from the cache, nothing was evaluated
+}
+
+// OK reports whether every result is current, no line failed and every entry is valid.
 func (r *Report) OK() bool {
-	if len(r.Failures) > 0 {
+	if len(r.Failures) > 0 || len(r.Problems) > 0 {
 		return false
 	}
 	for _, f := range r.Files {
@@ -63,7 +67,20 @@ func (r *Report) OK() bool {
 	return true
 }
 
-// Lines lists every stale result and every error as `path:line: old → new`, in file order.
+// Changed lists the files whose result regions a write would change.
+func (r *Report) Changed() []*FileResult {
+	var out []*FileResult
+	for _, f := range r.Files {
+		if f.Changed {
+			out = append(out, f)
+		}
+	}
+	return out
+}
+
+// Lines lists every stale result as `path:line: old → new` and every failed line as
+// `path:line:col: error: …`, file by file in path order, then the invalid entries as
+// `path:line:col: message` and the files that could not be evaluated.
 func (r *Report) Lines() []string {
 	var out []string
 	for _, f := range r.Files {
@@ -74,8 +91,11 @@ func (r *Report) Lines() []string {
 			out = append(out, c.String())
 		}
 		for _, c := range f.Errors {
-			out = append(out, ErrorLine(c))
+			out = append(out, c.ErrorString())
 		}
+	}
+	for _, p := range r.Problems {
+		out = append(out, p.Error())
 	}
 	for _, err := range r.Failures {
 		out = append(out, err.Error())
@@ -83,29 +103,20 @@ func (r *Report) Lines() []string {
 	return out
 }
 
-// Run evaluates the calc blocks of the notebook rooted at root (see Options). The notebook
-// is loaded once; every file is evaluated even when others fail. Files are evaluated in
-// parallel, each with its own environment (the notebook is only read); the report lists them
-// in path order, and with Write they are rewritten in that order once all are evaluated.
-func Run(root string, nb *notebook.Notebook, opt Options) (*Report, error) {
-	fsys := newDirFS(root)
+// Run evaluates the calc blocks of the notebook in fsys (a working tree, the git index, a
+// commit: any fs.FS) and validates its entries. It reads; it writes nothing but the cache (see
+// [WriteFiles] for bringing files on disk up to date). nb, when not nil, must be what
+// notebook.Load returned for fsys; every file is evaluated even when others fail. Files are
+// evaluated in parallel, each in its own environment (the notebook is only read).
+func Run(fsys fs.FS, nb *notebook.Notebook, opt Options) (*Report, error) {
 	if nb == nil {
 		var err error
-		nb, err = notebook.Load(fsys)
-		if err != nil {
+		if nb, err = notebook.Load(fsys); err != nil {
 			return nil, err
 		}
 	}
-	var cache *calcblock.Cache
-	if !opt.NoCache {
-		if gd, err := calcblock.GitDir(root); err == nil {
-			cache, _ = calcblock.OpenCache(gd) // no cache is only slower
-		}
-	}
-	sel, err := selector(root, opt.Paths)
-	if err != nil {
-		return nil, err
-	}
+	rs := newRunState(fsys, nb, opt.Salt)
+	sel := selector(opt.Paths)
 	var todo []*notebook.File
 	for _, f := range nb.Files {
 		if sel(f.Path) && hasCalcFence(f.Src.Raw) {
@@ -114,6 +125,7 @@ func Run(root string, nb *notebook.Notebook, opt Options) (*Report, error) {
 	}
 	type outcome struct {
 		fr  *calcblock.FileReport
+		hit bool
 		err error
 	}
 	out := make([]outcome, len(todo))
@@ -123,47 +135,37 @@ func Run(root string, nb *notebook.Notebook, opt Options) (*Report, error) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
-			var deps *depResolver
-			if cache != nil {
-				deps = newDepResolver(fsys, nb)
-			}
 			for {
 				i := int(next.Add(1)) - 1
 				if i >= len(todo) {
 					return
 				}
-				fr, err := runFile(fsys, nb, todo[i], cache, deps)
-				out[i] = outcome{fr, err}
+				fr, hit, err := rs.runFile(todo[i], opt.Cache)
+				out[i] = outcome{fr, hit, err}
 			}
 		}()
 	}
 	wg.Wait()
-	if cache != nil {
-		_ = cache.Flush() // the pack only saves reads next time
-	}
 
 	rep := &Report{}
-	for i, f := range todo {
-		fr, err := out[i].fr, out[i].err
-		if err != nil {
-			rep.Failures = append(rep.Failures, err)
+	for _, o := range out {
+		if o.err != nil {
+			rep.Failures = append(rep.Failures, o.err)
 			continue
 		}
-		if len(fr.Stale)+len(fr.Errors) == 0 && !fr.Changed && fr.Evaluated == 0 && !fr.CacheHit {
+		if o.fr.Code == 0 && len(o.fr.Errors) == 0 {
 			continue // no calc block after all
 		}
-		rep.Files = append(rep.Files, fr)
-		rep.Evaluated += fr.Evaluated
-		if fr.CacheHit {
+		rep.Files = append(rep.Files, &FileResult{FileReport: o.fr, FromCache: o.hit})
+		if o.hit {
 			rep.CacheHits++
+		} else {
+			rep.Evaluated += o.fr.Code
 		}
-		if opt.Write && fr.Changed {
-			full := filepath.Join(root, filepath.FromSlash(f.Path))
-			if err := calcblock.WriteAtomic(full, fr.NewBytes, f.Src.Raw); err != nil {
-				rep.Failures = append(rep.Failures, fmt.Errorf("%s: %w", f.Path, err))
-				continue
-			}
-			rep.Written = append(rep.Written, f.Path)
+	}
+	for _, p := range nb.Validate() {
+		if sel(p.Path) {
+			rep.Problems = append(rep.Problems, p)
 		}
 	}
 	return rep, nil
@@ -172,93 +174,156 @@ func Run(root string, nb *notebook.Notebook, opt Options) (*Report, error) {
 // hasCalcFence is a cheap test that skips files that cannot hold a calc block.
 func hasCalcFence(raw []byte) bool { return bytes.Contains(raw, []byte(calcblock.InfoString)) }
 
+// runState is what the files of one run share: the tree, the loaded notebook, and each
+// Markdown file's blocks and input digest, found once.
+type runState struct {
+	fsys fs.FS
+	nb   *notebook.Notebook
+	salt string
+
+	mu     sync.Mutex
+	parsed map[string]*parsedFile
+	values map[string]string // current values of dependencies (see current)
+}
+
+type parsedFile struct {
+	once   sync.Once
+	blocks []calcblock.Block
+	err    error
+	digest string
+}
+
+func newRunState(fsys fs.FS, nb *notebook.Notebook, salt string) *runState {
+	if salt == "" {
+		salt = EngineSalt()
+	}
+	return &runState{fsys: fsys, nb: nb, salt: salt, parsed: map[string]*parsedFile{}, values: map[string]string{}}
+}
+
+func (rs *runState) parse(f *notebook.File) *parsedFile {
+	rs.mu.Lock()
+	p, ok := rs.parsed[f.Path]
+	if !ok {
+		p = &parsedFile{}
+		rs.parsed[f.Path] = p
+	}
+	rs.mu.Unlock()
+	p.once.Do(func() {
+		p.blocks, p.err = calcblock.Find(f.Src)
+		if p.err != nil {
+			p.blocks = nil
+		}
+		sum := calcblock.InputDigest(f.Src, p.blocks)
+		p.digest = hex.EncodeToString(sum[:16])
+	})
+	return p
+}
+
+// blocks returns the calc blocks of f.
+func (rs *runState) blocks(f *notebook.File) ([]calcblock.Block, error) {
+	p := rs.parse(f)
+	return p.blocks, p.err
+}
+
+// mdDigest is the input digest of the Markdown file at path p, "-" when there is none.
+func (rs *runState) mdDigest(p string) string {
+	f, ok := rs.nb.File(p)
+	if !ok {
+		return "-"
+	}
+	return rs.parse(f).digest
+}
+
+// runFile recomputes one file, from the cache when its inputs have not changed.
+func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileReport, bool, error) {
+	blocks, err := rs.blocks(f)
+	if err != nil {
+		return nil, false, fmt.Errorf("%s: %w", f.Path, err)
+	}
+	perr := parseError(f)
+	n := len(calcblock.CodeLines(blocks))
+	key := rs.key(f)
+	if cache != nil {
+		if outs, ok := cache.lookup(rs, f.Path, key, n); ok {
+			fr, err := calcblock.Build(f.Path, f.Src, perr, blocks, outs)
+			return fr, true, err
+		}
+	}
+	rec := deps{}
+	v := &view{nb: rs.nb, run: rs, rec: rec}
+	var env *calc.Env // made on the first line, so a file without code never builds one
+	outs := calcblock.Evaluate(blocks, evalFunc(func(code string, lineNo int) calcblock.Outcome {
+		if env == nil {
+			env = newEnv(v, f, 0)
+		}
+		return outcomeOf(env.EvalLine(code, lineNo))
+	}))
+	if cache != nil {
+		cache.store(f.Path, key, rec, outs)
+	}
+	fr, err := calcblock.Build(f.Path, f.Src, perr, blocks, outs)
+	return fr, false, err
+}
+
+// key names a file's own inputs: the engine, its path (error messages may name it) and its
+// person-owned bytes.
+func (rs *runState) key(f *notebook.File) string {
+	return rs.salt + "\x00" + f.Path + "\x00" + rs.parse(f).digest
+}
+
+type evalFunc func(code string, lineNo int) calcblock.Outcome
+
+func (f evalFunc) EvalLine(code string, lineNo int) calcblock.Outcome { return f(code, lineNo) }
+
+// outcomeOf turns a calc line result into what a result region shows.
+func outcomeOf(r calc.LineResult) calcblock.Outcome {
+	if r.Err == nil {
+		return calcblock.Outcome{Text: r.Display}
+	}
+	o := calcblock.Outcome{Failed: true, Text: r.Err.Error()}
+	var ce *calc.Error
+	if errors.As(r.Err, &ce) {
+		o.Col = ce.Col
+	}
+	return o
+}
+
+// parseError is the error mdsrc.Parse gave for the file: nil when its front matter closed or
+// it has none; otherwise parsed again to get the positioned error the report shows.
+func parseError(f *notebook.File) error {
+	src := f.Src
+	if src.HasFrontMatter || !bytes.HasPrefix(src.Raw[src.BOM:], []byte("---")) {
+		return nil
+	}
+	_, err := mdsrc.Parse(src.Raw)
+	var pe *mdsrc.PosError
+	if errors.As(err, &pe) {
+		return err
+	}
+	return nil
+}
+
 // NewEnv is the calc environment of one notebook file: its entry's fields as names, the
 // entry-bound functions, and the notebook's files for data("...").
 func NewEnv(fsys fs.FS, nb *notebook.Notebook, f *notebook.File) *calc.Env {
-	return newEnvDepth(fsys, nb, f, 0)
+	rs := newRunState(fsys, nb, "")
+	return newEnv(&view{nb: nb, run: rs, rec: deps{}}, f, 0)
 }
 
-func newEnvDepth(fsys fs.FS, nb *notebook.Notebook, f *notebook.File, depth int) *calc.Env {
-	r := newResolver(fsys, nb, f.Entry, depth)
-	env := calc.NewEnv(calc.WithFS(fsys, path.Dir(f.Path)), calc.WithResolver(r))
+// newEnv makes the environment of f for an evaluation whose reads v records.
+func newEnv(v *view, f *notebook.File, depth int) *calc.Env {
+	r := newResolver(v, f.Entry, depth)
+	env := calc.NewEnv(calc.WithFS(recFS{fsys: v.run.fsys, rec: v.rec}, path.Dir(f.Path)), calc.WithResolver(r))
 	r.register(env)
 	return env
 }
 
-// evaluator evaluates a file's lines in an environment made on the first line, so that a
-// file answered from the cache never builds one.
-type evaluator struct {
-	make func() *calc.Env
-	env  *calc.Env
-}
-
-func (ev *evaluator) EvalLine(code string, lineNo int) (string, error) {
-	if ev.env == nil {
-		ev.env = ev.make()
-	}
-	res := ev.env.EvalLine(code, lineNo)
-	if res.Err != nil {
-		return "", res.Err
-	}
-	return res.Display, nil
-}
-
-func (ev *evaluator) Deps() []string {
-	if ev.env == nil {
-		return nil
-	}
-	return ev.env.Deps()
-}
-
-// runFile recomputes one file; deps (nil without a cache) is the calling worker's.
-func runFile(fsys fs.FS, nb *notebook.Notebook, f *notebook.File, cache *calcblock.Cache, deps *depResolver) (*calcblock.FileReport, error) {
-	ev := &evaluator{make: func() *calc.Env { return NewEnv(fsys, nb, f) }}
-	// The file's own front matter decides what its names mean (its kind, id and links), even
-	// where no line reads a field: it salts the file's cache keys.
-	salt := engineSalt()
-	if f.Src.HasFrontMatter {
-		sum := sha256.Sum256(f.Src.Raw[f.Src.FrontMatter.Start:f.Src.FrontMatter.End])
-		salt += " " + hex.EncodeToString(sum[:8])
-	}
-	opt := calcblock.Options{Cache: cache, Salt: salt}
-	if cache != nil {
-		opt.Resolve = func(dep string) (string, error) { return deps.value(f.Entry, dep) }
-	}
-	if perr, ok := parseError(f.Src); ok {
-		return calcblock.RecomputeParsed(f.Path, f.Src, perr, ev, opt)
-	}
-	// Front matter that did not close: parse again to get the error the report shows.
-	return calcblock.RecomputeWith(f.Path, f.Src.Raw, ev, opt)
-}
-
-// parseError returns the error mdsrc.Parse gave for src when it is known to be nil: the
-// front matter closed, or the file does not open with a `---` line. ok is false otherwise.
-func parseError(src *mdsrc.Source) (error, bool) {
-	if src.HasFrontMatter {
-		return nil, true
-	}
-	return nil, !bytes.HasPrefix(src.Raw[src.BOM:], []byte("---"))
-}
-
-// selector returns a predicate over slash paths for the paths given on the command line.
-func selector(root string, paths []string) (func(string) bool, error) {
+// selector returns a predicate over slash paths for clean slash paths relative to the root.
+func selector(paths []string) func(string) bool {
 	if len(paths) == 0 {
-		return func(string) bool { return true }, nil
+		return func(string) bool { return true }
 	}
-	var prefixes []string
-	for _, p := range paths {
-		rel, inside, err := relToRoot(root, p)
-		if err != nil {
-			return nil, err
-		}
-		if !inside {
-			return nil, fmt.Errorf("%s: outside the notebook at %s", p, root)
-		}
-		if _, err := os.Stat(p); err != nil {
-			return nil, fmt.Errorf("%s: %w", p, errors.Unwrap(err))
-		}
-		prefixes = append(prefixes, rel)
-	}
+	prefixes := append([]string(nil), paths...)
 	sort.Strings(prefixes)
 	return func(p string) bool {
 		for _, pre := range prefixes {
@@ -267,32 +332,5 @@ func selector(root string, paths []string) (func(string) bool, error) {
 			}
 		}
 		return false
-	}, nil
-}
-
-// relToRoot returns p, an OS path (absolute or relative to the working directory), as a
-// slash path relative to the notebook root, and whether it lies inside the notebook (the
-// root itself included).
-func relToRoot(root, p string) (rel string, inside bool, err error) {
-	abs, err := filepath.Abs(p)
-	if err != nil {
-		return "", false, err
 	}
-	rel, err = filepath.Rel(root, abs)
-	if err != nil || !filepath.IsLocal(rel) {
-		return "", false, nil
-	}
-	return filepath.ToSlash(rel), true, nil
-}
-
-// errPos matches the start of an error result: "error: 13:11: message".
-var errPos = regexp.MustCompile(`^error: (\d+):(\d+): `)
-
-// ErrorLine formats a failed line as `path:line:col: error: message`, taking the column
-// from the evaluator's message when it has one.
-func ErrorLine(c calcblock.Change) string {
-	if m := errPos.FindStringSubmatch(c.New); m != nil && m[1] == strconv.Itoa(c.Line) {
-		return fmt.Sprintf("%s:%d:%s: error: %s", c.Path, c.Line, m[2], c.New[len(m[0]):])
-	}
-	return fmt.Sprintf("%s:%d: %s", c.Path, c.Line, c.New)
 }

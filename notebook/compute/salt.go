@@ -8,11 +8,11 @@ import (
 	"sync"
 )
 
-// engineSalt is Version plus a hash of the running executable, so that results cached or
+// EngineSalt is Version plus a hash of the running executable, so that results cached or
 // digested by one build of cleave are never reused by another (a changed formula or display
 // rule changes the binary even when nobody remembered to bump Version). When the executable
 // cannot be read, Version alone is used.
-var engineSalt = sync.OnceValue(func() string {
+var EngineSalt = sync.OnceValue(func() string {
 	p, err := os.Executable()
 	if err != nil {
 		return Version

@@ -38,22 +38,19 @@ func (r *resolver) scorecard(env *calc.Env, densityName, mobilityName string) (c
 	if r.depth >= maxNesting {
 		return nil, errors.New("nested too deep (a scorecard inside a cooldown that a scorecard reads)")
 	}
-	// Which cooldowns count is itself a dependency: a new cooldown makes the result stale.
-	env.AddDep("lineage:"+r.e.ID, "")
+	// Which cooldowns count is itself a dependency (a new cooldown makes the result stale),
+	// and so is everything each one reads, its own text first.
 	var rows []scoreRow
-	for _, d := range r.measuredBy() {
-		f, ok := r.nb.File(d.Path)
+	for _, d := range r.v.measuredBy(r.e) {
+		f, ok := r.v.nb.File(d.Path)
 		if !ok {
 			continue
 		}
-		cenv, deps, err := r.evalFile(f)
+		r.v.readEntry(d)
+		cenv, err := r.evalFile(f)
 		if err != nil {
 			return nil, fmt.Errorf("%s: %w", d.ID, err)
 		}
-		for _, dep := range deps {
-			env.AddDep("entry:"+d.ID+":"+dep, "")
-		}
-		env.AddDep("field:"+"@"+d.ID+".illumination", "")
 		row := scoreRow{id: d.ID, illuminated: illuminated(d)}
 		if q, err := d.Quantity("base_temperature"); err == nil {
 			row.T = calc.Q(q)
@@ -79,40 +76,6 @@ func (r *resolver) scorecard(env *calc.Env, densityName, mobilityName string) (c
 	return scoreValue(rows), nil
 }
 
-// measuredBy lists the cooldowns that measured a device cut from this entry.
-func (r *resolver) measuredBy() []*notebook.Entry {
-	var out []*notebook.Entry
-	for _, d := range r.nb.Descendants(r.e.ID) {
-		if d.Kind == notebook.KindCooldown && r.measures(d) {
-			out = append(out, d)
-		}
-	}
-	return out
-}
-
-// measures reports whether cooldown c measured a device cut from this entry: following
-// `from` links up from each of its devices (device → piece → piece … → wafer) reaches it.
-// Other links (a process run that treated pieces of several wafers) do not count.
-func (r *resolver) measures(c *notebook.Entry) bool {
-	for _, l := range c.Links() {
-		if l.Field != "devices" {
-			continue
-		}
-		e, ok := r.nb.Entry(l.ID)
-		for hops := 0; ok && hops < 64; hops++ {
-			if e.ID == r.e.ID {
-				return true
-			}
-			id, has := e.Text("from")
-			if !has {
-				break
-			}
-			e, ok = r.nb.Entry(id)
-		}
-	}
-	return false
-}
-
 // illuminated reads a cooldown's illumination field: absent, empty or "none" means dark.
 func illuminated(e *notebook.Entry) bool {
 	n, ok := e.Field("illumination")
@@ -125,19 +88,18 @@ func illuminated(e *notebook.Entry) bool {
 	return n.Value != "" || len(n.Content) > 0
 }
 
-// evalFile evaluates every calc line of another file in a fresh environment.
-func (r *resolver) evalFile(f *notebook.File) (*calc.Env, []string, error) {
-	env := newEnvDepth(r.fsys, r.nb, f, r.depth+1)
-	blocks, err := calcblock.Find(f.Src)
+// evalFile evaluates every calc line of another file in a fresh environment whose reads are
+// recorded with this evaluation's.
+func (r *resolver) evalFile(f *notebook.File) (*calc.Env, error) {
+	blocks, err := r.v.run.blocks(f)
 	if err != nil {
-		return nil, nil, err
+		return nil, err
 	}
-	for _, b := range blocks {
-		for _, l := range b.Lines {
-			env.EvalLine(l.Code, l.LineNo)
-		}
+	env := newEnv(r.v, f, r.depth+1)
+	for _, l := range calcblock.CodeLines(blocks) {
+		env.EvalLine(l.Input(), l.LineNo)
 	}
-	return env, env.Deps(), nil
+	return env, nil
 }
 
 // scoreValue summarises the rows by condition.

@@ -1,0 +1,295 @@
+package compute
+
+import (
+	"bytes"
+	"crypto/sha256"
+	"encoding/binary"
+	"errors"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+	"sync"
+
+	"cleave/notebook"
+	"cleave/notebook/calcblock"
+)
+
+// Cache keeps, for each Markdown file, the results of its last evaluation with the key of its
+// own inputs and every dependency it recorded (see the `deps` type). It lives in one file, read
+// whole when a run opens it and rewritten whole (atomically) by Save, so a check of ten
+// thousand files reads one file. A damaged or foreign file reads as an empty cache; deleting it
+// changes no result, only the time a run takes. Several processes may use one cache: the last
+// Save wins, and what it loses only costs time.
+type Cache struct {
+	file string
+
+	mu    sync.Mutex
+	old   map[string]*cacheRec // as read
+	cur   map[string]*cacheRec // answered or stored by this run
+	dirty bool
+}
+
+type cacheRec struct {
+	key  string
+	deps []depValue // sorted by name
+	outs []calcblock.Outcome
+}
+
+type depValue struct{ name, value string }
+
+const cacheHeader = "cleave-engine-cache 1\n"
+
+// OpenCache opens the cache kept in dir (created by Save when missing).
+func OpenCache(dir string) *Cache {
+	c := &Cache{file: filepath.Join(dir, "results"), cur: map[string]*cacheRec{}}
+	c.old = readCache(c.file)
+	return c
+}
+
+// readCache decodes the cache file; any problem gives an empty cache.
+func readCache(file string) map[string]*cacheRec {
+	data, err := os.ReadFile(file)
+	if err != nil {
+		return map[string]*cacheRec{}
+	}
+	m, err := decodeCache(data)
+	if err != nil {
+		return map[string]*cacheRec{}
+	}
+	return m
+}
+
+// lookup returns the stored outcomes of the file at path when its key matches and every
+// recorded dependency still has its recorded value.
+func (c *Cache) lookup(rs *runState, path, key string, n int) ([]calcblock.Outcome, bool) {
+	c.mu.Lock()
+	r, ok := c.old[path]
+	c.mu.Unlock()
+	if !ok || r.key != key || len(r.outs) != n {
+		return nil, false
+	}
+	for _, d := range r.deps {
+		if rs.current(d.name) != d.value {
+			return nil, false
+		}
+	}
+	c.mu.Lock()
+	c.cur[path] = r
+	c.mu.Unlock()
+	return r.outs, true
+}
+
+// store keeps what an evaluation of the file at path computed and read.
+func (c *Cache) store(path, key string, rec deps, outs []calcblock.Outcome) {
+	r := &cacheRec{key: key, outs: outs}
+	for k, v := range rec {
+		r.deps = append(r.deps, depValue{k, v})
+	}
+	sort.Slice(r.deps, func(i, j int) bool { return r.deps[i].name < r.deps[j].name })
+	c.mu.Lock()
+	c.cur[path] = r
+	c.dirty = true
+	c.mu.Unlock()
+}
+
+// Save writes the cache: the files this run answered or evaluated, and those it did not look
+// at that are still Markdown files of nb. Like every write of the tool's own files, it may fail
+// without harm.
+func (c *Cache) Save(nb *notebook.Notebook) error {
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	all := make(map[string]*cacheRec, len(c.old)+len(c.cur))
+	for p, r := range c.old {
+		if _, ok := nb.File(p); ok {
+			all[p] = r
+		}
+	}
+	for p, r := range c.cur {
+		all[p] = r
+	}
+	if !c.dirty && len(all) == len(c.old) {
+		return nil
+	}
+	if err := os.MkdirAll(filepath.Dir(c.file), 0o755); err != nil {
+		return err
+	}
+	if err := calcblock.ReplaceFile(c.file, encodeCache(all)); err != nil {
+		return err
+	}
+	c.old, c.cur, c.dirty = all, map[string]*cacheRec{}, false
+	return nil
+}
+
+// The file: the header line, the SHA-256 of the rest, then for each file (in path order) its
+// path, key, dependency count, each name and value, outcome count, and each outcome (flag,
+// column, text). Strings are length-prefixed (uvarint), numbers uvarints.
+
+func encodeCache(m map[string]*cacheRec) []byte {
+	paths := make([]string, 0, len(m))
+	for p := range m {
+		paths = append(paths, p)
+	}
+	sort.Strings(paths)
+	var b []byte
+	for _, p := range paths {
+		r := m[p]
+		b = appendStr(b, p)
+		b = appendStr(b, r.key)
+		b = binary.AppendUvarint(b, uint64(len(r.deps)))
+		for _, d := range r.deps {
+			b = appendStr(b, d.name)
+			b = appendStr(b, d.value)
+		}
+		b = binary.AppendUvarint(b, uint64(len(r.outs)))
+		for _, o := range r.outs {
+			flag := uint64(0)
+			if o.Failed {
+				flag = 1
+			}
+			b = binary.AppendUvarint(b, flag)
+			b = binary.AppendUvarint(b, uint64(max(o.Col, 0)))
+			b = appendStr(b, o.Text)
+		}
+	}
+	sum := sha256.Sum256(b)
+	out := make([]byte, 0, len(cacheHeader)+len(sum)+len(b))
+	out = append(out, cacheHeader...)
+	out = append(out, sum[:]...)
+	return append(out, b...)
+}
+
+var errBadCache = errors.New("damaged cache")
+
+func decodeCache(data []byte) (map[string]*cacheRec, error) {
+	rest, ok := bytes.CutPrefix(data, []byte(cacheHeader))
+	if !ok || len(rest) < sha256.Size {
+		return nil, errBadCache
+	}
+	sum, b := rest[:sha256.Size], rest[sha256.Size:]
+	if s := sha256.Sum256(b); !bytes.Equal(s[:], sum) {
+		return nil, errBadCache
+	}
+	d := decoder{b: b}
+	m := map[string]*cacheRec{}
+	for len(d.b) > 0 && d.err == nil {
+		p := d.str()
+		r := &cacheRec{key: d.str()}
+		nd := d.count()
+		r.deps = make([]depValue, 0, nd)
+		for range nd {
+			r.deps = append(r.deps, depValue{d.str(), d.str()})
+		}
+		no := d.count()
+		r.outs = make([]calcblock.Outcome, 0, no)
+		for range no {
+			flag := d.uvarint()
+			col := d.uvarint()
+			r.outs = append(r.outs, calcblock.Outcome{Failed: flag == 1, Col: int(col), Text: d.str()})
+		}
+		m[p] = r
+	}
+	if d.err != nil {
+		return nil, d.err
+	}
+	return m, nil
+}
+
+func appendStr(b []byte, s string) []byte {
+	b = binary.AppendUvarint(b, uint64(len(s)))
+	return append(b, s...)
+}
+
+type decoder struct {
+	b   []byte
+	err error
+}
+
+func (d *decoder) uvarint() uint64 {
+	if d.err != nil {
+		return 0
+	}
+	v, n := binary.Uvarint(d.b)
+	if n <= 0 {
+		d.err = errBadCache
+		return 0
+	}
+	d.b = d.b[n:]
+	return v
+}
+
+// count reads a length that must fit in what is left.
+func (d *decoder) count() int {
+	v := d.uvarint()
+	if v > uint64(len(d.b)) {
+		d.err = errBadCache
+		return 0
+	}
+	return int(v)
+}
+
+func (d *decoder) str() string {
+	n := d.count()
+	if d.err != nil {
+		return ""
+	}
+	s := string(d.b[:n])
+	d.b = d.b[n:]
+	return s
+}
+
+// current is the value dependency name has now (memoised for the run; see the `deps` type).
+func (rs *runState) current(name string) string {
+	rs.mu.Lock()
+	v, ok := rs.values[name]
+	rs.mu.Unlock()
+	if ok {
+		return v
+	}
+	v = rs.compute(name)
+	rs.mu.Lock()
+	rs.values[name] = v
+	rs.mu.Unlock()
+	return v
+}
+
+func (rs *runState) compute(name string) string {
+	kind, arg, _ := strings.Cut(name, ":")
+	switch kind {
+	case "md":
+		return rs.mdDigest(arg)
+	case "id":
+		e, ok := rs.nb.Entry(arg)
+		return pathOf(e, ok)
+	case "near":
+		p, k, _ := strings.Cut(arg, "|")
+		e := rs.entryAt(p)
+		if e == nil {
+			return ""
+		}
+		a, ok := rs.nb.Nearest(e, notebook.Kind(k))
+		return pathOf(a, ok)
+	case "measured":
+		e := rs.entryAt(arg)
+		if e == nil {
+			return "no entry"
+		}
+		return pathList(measuredBy(rs.nb, e))
+	case "read":
+		return readValue(readRegular(rs.fsys, arg))
+	case "lstat":
+		return lstatValue(fs.Lstat(rs.fsys, arg))
+	case "link":
+		return linkValue(fs.ReadLink(rs.fsys, arg))
+	}
+	return "unknown dependency " + name // never equals a recorded value: a miss
+}
+
+// entryAt is the entry of the file at slash path p, or nil.
+func (rs *runState) entryAt(p string) *notebook.Entry {
+	if f, ok := rs.nb.File(p); ok {
+		return f.Entry
+	}
+	return nil
+}

@@ -1,0 +1,252 @@
+package compute
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+	"time"
+
+	"cleave/notebook"
+	"cleave/notebook/calcblock"
+)
+
+// WorkTree is a notebook checked out in a folder on disk: the one place where the engine's
+// results meet files on disk. Run reads any fs.FS; a WorkTree gives it the folder, writes the
+// results back (atomically, refusing a file changed since it was read) and keeps the record of
+// the last check that found nothing wrong.
+type WorkTree struct {
+	Root     string // the notebook's top folder
+	StateDir string // where the tool keeps its own files (under the git directory); "" for none
+}
+
+// FS is the notebook as a file system.
+func (w WorkTree) FS() fs.FS { return newDirFS(w.Root) }
+
+// Cache opens the cache in the state folder (nil when there is none).
+func (w WorkTree) Cache() *Cache {
+	if w.StateDir == "" {
+		return nil
+	}
+	return OpenCache(filepath.Join(w.StateDir, "cache"))
+}
+
+// Write brings the files the report found changed up to date on disk. A file that changed
+// since it was read is left alone and reported.
+func (w WorkTree) Write(rep *Report) (written []string, failures []error) {
+	for _, f := range rep.Changed() {
+		full := filepath.Join(w.Root, filepath.FromSlash(f.Path))
+		if err := calcblock.WriteAtomic(full, f.NewBytes, f.Original); err != nil {
+			failures = append(failures, fmt.Errorf("%s: %w", f.Path, err))
+			continue
+		}
+		written = append(written, f.Path)
+	}
+	return written, failures
+}
+
+// The digest of a work tree lets a check of an unchanged notebook finish without loading it:
+// it hashes every file's path, mode, size and modification time in nanoseconds (the stat data
+// git's index relies on), with the engine's salt. It is taken before a check reads anything,
+// and kept only when that check found nothing wrong: a file changed while the check ran has
+// another modification time afterwards, so the next check does the full work. What it
+// promises: a file whose content changed with its size and modification time kept (a tool
+// that restores the time stamp) is not seen by this fast path — git's index has the same
+// blind spot; `check --no-cache` or any other change to the notebook brings it back.
+
+const digestFile = "last-good-check"
+
+// Digest hashes the stat data of every file of the work tree (everything but .git).
+// It returns "" (no digest) when a file was modified less than a second before the walk began:
+// a later change within the same time stamp could then go unseen (git's racy-timestamp rule).
+func (w WorkTree) Digest() (string, error) {
+	type item struct{ path, sum string }
+	var items []item
+	start := time.Now()
+	racy := false
+	err := filepath.WalkDir(w.Root, func(p string, d fs.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		if d.IsDir() && d.Name() == ".git" {
+			return filepath.SkipDir
+		}
+		if d.IsDir() {
+			return nil
+		}
+		rel, _ := filepath.Rel(w.Root, p)
+		info, err := d.Info()
+		if err != nil {
+			return err
+		}
+		if !info.ModTime().Before(start.Add(-time.Second)) {
+			racy = true
+		}
+		items = append(items, item{filepath.ToSlash(rel), fmt.Sprintf("%s %d %d", info.Mode(), info.Size(), info.ModTime().UnixNano())})
+		return nil
+	})
+	if err != nil || racy {
+		return "", err
+	}
+	sort.Slice(items, func(i, j int) bool { return items[i].path < items[j].path })
+	h := sha256.New()
+	fmt.Fprintf(h, "%s\n", EngineSalt())
+	for _, it := range items {
+		fmt.Fprintf(h, "%s\x00%s\n", it.path, it.sum)
+	}
+	return hex.EncodeToString(h.Sum(nil)), nil
+}
+
+// GoodCheck reports whether the digest equals the one kept after the last check that found
+// no problem.
+func (w WorkTree) GoodCheck(digest string) bool {
+	if w.StateDir == "" || digest == "" {
+		return false
+	}
+	b, err := os.ReadFile(filepath.Join(w.StateDir, digestFile))
+	return err == nil && strings.TrimSpace(string(b)) == digest
+}
+
+// RememberGoodCheck keeps the digest taken before a check that found nothing wrong.
+func (w WorkTree) RememberGoodCheck(digest string) error {
+	if w.StateDir == "" || digest == "" {
+		return nil
+	}
+	if err := os.MkdirAll(w.StateDir, 0o755); err != nil {
+		return err
+	}
+	return calcblock.ReplaceFile(filepath.Join(w.StateDir, digestFile), []byte(digest+"\n"))
+}
+
+// ForgetGoodCheck removes the kept digest (after a check that found problems).
+func (w WorkTree) ForgetGoodCheck() {
+	if w.StateDir != "" {
+		os.Remove(filepath.Join(w.StateDir, digestFile))
+	}
+}
+
+// Rel turns command-line paths (absolute, or relative to the working directory) into the slash
+// paths Options.Paths takes, refusing a path outside the notebook or one that does not exist.
+func (w WorkTree) Rel(paths []string) ([]string, error) {
+	var out []string
+	for _, p := range paths {
+		rel, inside, err := relToRoot(w.Root, p)
+		if err != nil {
+			return nil, err
+		}
+		if !inside {
+			return nil, fmt.Errorf("%s: outside the notebook at %s", p, w.Root)
+		}
+		if _, err := os.Stat(p); err != nil {
+			return nil, fmt.Errorf("%s: %w", p, errors.Unwrap(err))
+		}
+		out = append(out, rel)
+	}
+	return out, nil
+}
+
+// relToRoot returns p, an OS path (absolute or relative to the working directory), as a
+// slash path relative to the notebook root, and whether it lies inside the notebook (the
+// root itself included).
+func relToRoot(root, p string) (rel string, inside bool, err error) {
+	abs, err := filepath.Abs(p)
+	if err != nil {
+		return "", false, err
+	}
+	rel, err = filepath.Rel(root, abs)
+	if err != nil || !filepath.IsLocal(rel) && rel != "." {
+		return "", false, nil
+	}
+	return filepath.ToSlash(rel), true, nil
+}
+
+// CheckOptions tunes [WorkTree.Check].
+type CheckOptions struct {
+	Write   bool     // bring result regions on disk up to date (`cleave calc`)
+	NoCache bool     // evaluate everything, ignoring (and not updating) the cache
+	Paths   []string // slash paths to limit the run to (see [WorkTree.Rel])
+}
+
+// CheckResult is what a check or calc of a work tree did.
+type CheckResult struct {
+	*Report
+	Unchanged     bool     // nothing changed since the last good check: nothing was run
+	Written       []string // files rewritten on disk
+	WriteFailures []error  // files that could not be written
+}
+
+// Bad counts the problems: stale results (for a check), failed lines, invalid entries, files
+// that could not be evaluated or written. A failed line that is also stale counts once.
+func (r *CheckResult) Bad(write bool) int {
+	if r.Report == nil {
+		return 0
+	}
+	n := len(r.Problems) + len(r.Failures) + len(r.WriteFailures)
+	for _, f := range r.Files {
+		n += len(f.Errors)
+		if write {
+			continue
+		}
+		for _, c := range f.Stale {
+			if !calcblock.IsError(c.New) {
+				n++
+			}
+		}
+	}
+	return n
+}
+
+// Check runs the engine over the work tree (see CheckOptions). A check of the whole notebook
+// that finds nothing wrong keeps the digest taken before it read anything, so that the next
+// check of an unchanged notebook returns at once.
+func (w WorkTree) Check(opt CheckOptions) (*CheckResult, error) {
+	var digest string
+	whole := len(opt.Paths) == 0
+	if !opt.NoCache && whole {
+		digest, _ = w.Digest() // no digest only costs time
+		if w.GoodCheck(digest) {
+			return &CheckResult{Unchanged: true}, nil
+		}
+	}
+	res, err := w.run(opt)
+	if err != nil {
+		return nil, err
+	}
+	switch {
+	case res.Bad(opt.Write) > 0:
+		w.ForgetGoodCheck()
+	case whole && !opt.Write:
+		_ = w.RememberGoodCheck(digest) // only a speed-up
+	}
+	return res, nil
+}
+
+// run is Check without the shortcut for an unchanged notebook.
+func (w WorkTree) run(opt CheckOptions) (*CheckResult, error) {
+	fsys := w.FS()
+	nb, err := notebook.Load(fsys)
+	if err != nil {
+		return nil, err
+	}
+	var cache *Cache
+	if !opt.NoCache {
+		cache = w.Cache()
+	}
+	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths})
+	if err != nil {
+		return nil, err
+	}
+	if cache != nil {
+		_ = cache.Save(nb) // the cache only saves time
+	}
+	res := &CheckResult{Report: rep}
+	if opt.Write {
+		res.Written, res.WriteFailures = w.Write(rep)
+	}
+	return res, nil
+}
