@@ -65,7 +65,10 @@ func readCache(file string) map[string]*cacheRec {
 // recorded dependency still has its recorded value.
 func (c *Cache) lookup(rs *runState, path, key string, n int) ([]calcblock.Outcome, bool) {
 	c.mu.Lock()
-	r, ok := c.old[path]
+	r, ok := c.cur[path]
+	if !ok {
+		r, ok = c.old[path]
+	}
 	c.mu.Unlock()
 	if !ok || r.key != key || len(r.outs) != n {
 		return nil, false
