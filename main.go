@@ -19,6 +19,7 @@ import (
 	"time"
 	"unicode/utf8"
 
+	"cleave/demo"
 	"cleave/hooks"
 	"cleave/notebook"
 	"cleave/notebook/compute"
@@ -439,7 +440,7 @@ func runDemo(c *cli, args []string) int {
 	if len(pos) == 1 {
 		dir = c.path(pos[0])
 	}
-	if err := hooks.Demo(demoScenario(), dir, c.out); err != nil {
+	if err := demo.Run(demo.Scenario(), dir, c.out); err != nil {
 		return c.fail("demo", err)
 	}
 	return 0

@@ -1,4 +1,6 @@
-package hooks
+// Package demo writes the demo notebook: an invented lab's wafers, mask, pieces, process run,
+// devices and cooldowns with synthetic data, committed as a short story, then runs the tool on it.
+package demo
 
 import (
 	"errors"
@@ -11,6 +13,7 @@ import (
 	"strings"
 	"time"
 
+	"cleave/hooks"
 	"cleave/notebook"
 	"cleave/notebook/compute"
 )
@@ -72,12 +75,12 @@ const scorecardHeading = "\n## Scorecard\n"
 
 var demoPeople = map[string]string{"AK": "A. K.", "JM": "J. M.", "RS": "R. S."}
 
-// Demo writes the demo notebook (an invented lab's wafers, mask, pieces, process, devices and
+// Run writes the demo notebook (an invented lab's wafers, mask, pieces, process, devices and
 // cooldowns, with synthetic data files) into dir — a new temporary folder when dir is "" —
 // as a git repository whose commits tell the story of demoStory, recomputing the calc
 // blocks at every step as a colleague would before committing. Then it validates the
 // notebook, prints its lineage and the key results, and tells the user what to try next.
-func Demo(scenario fs.FS, dir string, out io.Writer) error {
+func Run(scenario fs.FS, dir string, out io.Writer) error {
 	if dir == "" {
 		d, err := os.MkdirTemp("", "cleave-demo-")
 		if err != nil {
@@ -91,7 +94,7 @@ func Demo(scenario fs.FS, dir string, out io.Writer) error {
 	if err != nil {
 		return err
 	}
-	if _, err := InitNotebook(abs, nil); err != nil {
+	if _, err := hooks.InitNotebook(abs, nil); err != nil {
 		return err
 	}
 	fmt.Fprintf(out, "cleave demo: writing an invented lab's notebook to %s\n\n", abs)
@@ -122,7 +125,7 @@ func Demo(scenario fs.FS, dir string, out io.Writer) error {
 		// stale is what `cleave check` would have listed (after the mask correction: the
 		// results that depend on the probe spacing, old → new).
 		wt := compute.WorkTree{Root: abs}
-		if state, err := StateDir(abs); err == nil {
+		if state, err := hooks.StateDir(abs); err == nil {
 			wt.StateDir = state
 		}
 		rep, err := wt.Check(compute.CheckOptions{Write: true})
@@ -146,7 +149,7 @@ func Demo(scenario fs.FS, dir string, out io.Writer) error {
 			}
 		}
 		when, _ := time.Parse(time.RFC3339, st.when)
-		if _, err := CommitAll(abs, st.message, Author{Name: demoPeople[st.who], Email: strings.ToLower(st.who) + "@lab.invalid", When: when}); err != nil {
+		if _, err := hooks.CommitAll(abs, st.message, hooks.Author{Name: demoPeople[st.who], Email: strings.ToLower(st.who) + "@lab.invalid", When: when}); err != nil {
 			return err
 		}
 	}
