@@ -171,6 +171,37 @@ func Run(fsys fs.FS, nb *notebook.Notebook, opt Options) (*Report, error) {
 	return rep, nil
 }
 
+// conflictMarker finds an unresolved merge conflict: a line that opens one (seven '<' at the
+// start of the line, then a blank or the end of the line) followed later by a line that
+// closes it (seven '>'). It reports the opening line's 1-based number. A line of '=' alone is
+// not enough: it may be a Markdown heading's underline.
+func conflictMarker(raw []byte) (int, bool) {
+	open := 0
+	line := 1
+	for off := 0; off <= len(raw); line++ {
+		end := bytes.IndexByte(raw[off:], '\n')
+		if end < 0 {
+			end = len(raw) - off
+		}
+		l := bytes.TrimSuffix(raw[off:off+end], []byte("\r"))
+		switch {
+		case open == 0 && isMarker(l, '<'):
+			open = line
+		case open > 0 && isMarker(l, '>'):
+			return open, true
+		}
+		off += end + 1
+	}
+	return 0, false
+}
+
+func isMarker(l []byte, c byte) bool {
+	if len(l) < 7 || !bytes.Equal(l[:7], bytes.Repeat([]byte{c}, 7)) {
+		return false
+	}
+	return len(l) == 7 || l[7] == ' ' || l[7] == '\t'
+}
+
 // hasCalcFence is a cheap test that skips files that cannot hold a calc block.
 func hasCalcFence(raw []byte) bool { return bytes.Contains(raw, []byte(calcblock.InfoString)) }
 
@@ -236,6 +267,9 @@ func (rs *runState) mdDigest(p string) string {
 
 // runFile recomputes one file, from the cache when its inputs have not changed.
 func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileReport, bool, error) {
+	if line, ok := conflictMarker(f.Src.Raw); ok {
+		return nil, false, fmt.Errorf("%s:%d:1: unresolved merge conflict (<<<<<<< … >>>>>>>): resolve it, then recompute; nothing in this file was evaluated or changed", f.Path, line)
+	}
 	blocks, err := rs.blocks(f)
 	if err != nil {
 		return nil, false, fmt.Errorf("%s: %w", f.Path, err)
