@@ -6,12 +6,21 @@ import (
 	"os"
 	"path/filepath"
 
+	"cleave/notebook"
+
 	"github.com/go-git/go-git/v5"
 )
 
-// Folders are the conventional folders of a notebook, one per entry kind, plus data and
-// the notebook's own template overrides. They are a convention, never a requirement.
-var Folders = []string{"wafers", "pieces", "masks", "processes", "devices", "cooldowns", "data", "templates"}
+// Folders are the conventional folders of a notebook, one per entry kind (from the kind
+// table), plus data and the notebook's own template overrides. They are a convention, never
+// a requirement.
+func Folders() []string {
+	var fs []string
+	for _, ki := range notebook.KindTable() {
+		fs = append(fs, ki.Folder)
+	}
+	return append(fs, "data", "templates")
+}
 
 // InitNotebook makes dir a notebook: a git repository (created with go-git when dir is not
 // inside one yet), the conventional folders (each kept in git by a .gitkeep file), and a
@@ -35,7 +44,7 @@ func InitNotebook(dir string, readme []byte) ([]string, error) {
 		}
 		created = append(created, ".git/")
 	}
-	for _, f := range Folders {
+	for _, f := range Folders() {
 		p := filepath.Join(abs, f)
 		if _, err := os.Stat(p); err == nil {
 			continue

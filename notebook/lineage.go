@@ -27,7 +27,7 @@ func (nb *Notebook) index() {
 		if nb.byID[e.ID] != e {
 			continue // a duplicate: its links would make the graph ambiguous
 		}
-		fields := map[string]Field{}
+		fields := map[string]FieldSpec{}
 		for _, f := range linkFields(e.Kind) {
 			fields[f.Name] = f
 		}

@@ -15,17 +15,12 @@ var (
 	ErrNoParent  = errors.New("no parent given")
 )
 
-var folders = map[Kind]string{
-	KindWafer: "wafers", KindPiece: "pieces", KindMask: "masks",
-	KindProcess: "processes", KindDevice: "devices", KindCooldown: "cooldowns",
-}
-
 // DefaultPath is the conventional slash path of a new entry:
 // wafers/, pieces/, masks/, processes/, devices/ or cooldowns/, then id.md.
 // An unknown kind goes to the top level.
 func DefaultPath(kind Kind, id string) string {
-	if dir, ok := folders[kind]; ok {
-		return dir + "/" + id + ".md"
+	if ki, ok := LookupKind(kind); ok {
+		return ki.Folder + "/" + id + ".md"
 	}
 	return id + ".md"
 }

@@ -414,8 +414,8 @@ func TestSchema(t *testing.T) {
 		t.Error("Schema of an unknown kind")
 	}
 	// Every example value parses to the field's first dimension.
-	var check func(k Kind, fs []Field)
-	check = func(k Kind, fs []Field) {
+	var check func(k Kind, fs []FieldSpec)
+	check = func(k Kind, fs []FieldSpec) {
 		for _, f := range fs {
 			if f.Type == TypeQuantity {
 				if ps := checkQuantity(&Entry{Path: "x"}, scalarNode(f.Example), f, f.Name); len(ps) != 0 {
@@ -491,5 +491,27 @@ func TestSharedProcessRun(t *testing.T) {
 	}
 	if strings.Contains(b.String(), "W1") {
 		t.Errorf("Tree(D2) lists wafer W1's entries:\n%s", b.String())
+	}
+}
+
+// TestKindTable: every kind has a folder of its own and a description; Parents follows the
+// first link field (what `cleave new --from` fills).
+func TestKindTable(t *testing.T) {
+	want := map[Kind]int{KindWafer: 0, KindMask: 0, KindPiece: 1, KindDevice: 1, KindProcess: -1, KindCooldown: -1}
+	folders := map[string]bool{}
+	for _, ki := range KindTable() {
+		if ki.Folder == "" || ki.Doc == "" || folders[ki.Folder] {
+			t.Errorf("%s: folder %q, doc %q (folders must be distinct)", ki.Kind, ki.Folder, ki.Doc)
+		}
+		folders[ki.Folder] = true
+		if got := ki.Parents(); got != want[ki.Kind] {
+			t.Errorf("%s.Parents() = %d, want %d", ki.Kind, got, want[ki.Kind])
+		}
+		if DefaultPath(ki.Kind, "X1") != ki.Folder+"/X1.md" {
+			t.Errorf("DefaultPath(%s) = %s", ki.Kind, DefaultPath(ki.Kind, "X1"))
+		}
+	}
+	if len(folders) != len(want) {
+		t.Errorf("%d kinds in the table, want %d", len(folders), len(want))
 	}
 }

@@ -19,13 +19,20 @@ const (
 	KindCooldown Kind = "cooldown"
 )
 
-// Kinds returns the known kinds in lineage order.
+// Kinds returns the known kinds in lineage order (the order of the kind table).
 func Kinds() []Kind {
-	return []Kind{KindWafer, KindPiece, KindMask, KindProcess, KindDevice, KindCooldown}
+	ks := make([]Kind, len(kindTable))
+	for i, ki := range kindTable {
+		ks[i] = ki.Kind
+	}
+	return ks
 }
 
 // Known reports whether k is one of [Kinds].
-func (k Kind) Known() bool { return slices.Contains(Kinds(), k) }
+func (k Kind) Known() bool {
+	_, ok := LookupKind(k)
+	return ok
+}
 
 // FieldType says what a front-matter field holds.
 type FieldType int
@@ -55,14 +62,14 @@ func (t FieldType) String() string {
 }
 
 // Field describes one front-matter field of a kind.
-type Field struct {
+type FieldSpec struct {
 	Name     string
 	Type     FieldType
 	Dims     []quantity.Dim // TypeQuantity: accepted dimensions, the first is the usual one
 	Example  string         // TypeQuantity: an example value used in messages, e.g. "20 um"
 	Kinds    []Kind         // TypeLink, TypeLinks: kinds the link may name
 	Values   []string       // TypeEnum: allowed values
-	Fields   []Field        // TypeMap, TypeList: members (other members are allowed)
+	Fields   []FieldSpec    // TypeMap, TypeList: members (other members are allowed)
 	TextOK   bool           // TypeMap: a plain text is accepted instead (position: centre; illumination: none)
 	Required bool
 	Doc      string
@@ -104,24 +111,24 @@ func dimName(d quantity.Dim) string {
 	return "a quantity of dimension " + d.String()
 }
 
-func q(name string, d quantity.Dim, example, doc string) Field {
-	return Field{Name: name, Type: TypeQuantity, Dims: []quantity.Dim{d}, Example: example, Doc: doc}
+func q(name string, d quantity.Dim, example, doc string) FieldSpec {
+	return FieldSpec{Name: name, Type: TypeQuantity, Dims: []quantity.Dim{d}, Example: example, Doc: doc}
 }
 
-func text(name, doc string) Field { return Field{Name: name, Type: TypeText, Doc: doc} }
+func text(name, doc string) FieldSpec { return FieldSpec{Name: name, Type: TypeText, Doc: doc} }
 
-func link(name string, required bool, doc string, kinds ...Kind) Field {
-	return Field{Name: name, Type: TypeLink, Kinds: kinds, Required: required, Doc: doc}
+func link(name string, required bool, doc string, kinds ...Kind) FieldSpec {
+	return FieldSpec{Name: name, Type: TypeLink, Kinds: kinds, Required: required, Doc: doc}
 }
 
-func links(name string, doc string, kinds ...Kind) Field {
-	return Field{Name: name, Type: TypeLinks, Kinds: kinds, Doc: doc}
+func links(name string, doc string, kinds ...Kind) FieldSpec {
+	return FieldSpec{Name: name, Type: TypeLinks, Kinds: kinds, Doc: doc}
 }
 
 // common fields every entry may carry.
-var common = []Field{
+var common = []FieldSpec{
 	{Name: "id", Type: TypeText, Required: true, Doc: "unique id: letters, digits, '-', '_', '.'"},
-	{Name: "kind", Type: TypeEnum, Required: true, Doc: "the entry kind", Values: []string{"wafer", "piece", "mask", "process", "device", "cooldown"}},
+	{Name: "kind", Type: TypeEnum, Required: true, Doc: "the entry kind", Values: kindNames()},
 	text("title", "free title"),
 	{Name: "date", Type: TypeDate, Doc: "date of the record"},
 	text("by", "initials of who did it"),
@@ -129,15 +136,40 @@ var common = []Field{
 	text("notes", "free notes"),
 }
 
-var probeFields = []Field{
+var probeFields = []FieldSpec{
 	text("name", "probe name"),
 	q("position", dimLength, "250 um", "position along the bar from the source end"),
 	q("arm_width", dimLength, "10 um", "width of the probe arm"),
 	{Name: "side", Type: TypeEnum, Values: []string{"top", "bottom"}, Doc: "side of the bar"},
 }
 
-var schemas = map[Kind][]Field{
-	KindWafer: {
+// KindInfo describes one entry kind: everything `validate`, `new`, `init`, the templates and
+// the tests read about it. Adding a kind is one row of kindTable plus its template
+// (templates/defaults/KIND.md).
+type KindInfo struct {
+	Kind   Kind
+	Folder string      // the conventional folder: `init` creates it, `new` writes there
+	Doc    string      // what an entry of this kind records
+	Fields []FieldSpec // its own fields (the common ones come first, see [Schema]); link fields name the kinds they may point at
+}
+
+// Parents is how many parent ids `cleave new KIND ID --from PARENT` takes: the first link
+// field decides (one for a single link, any number for a list, none without links).
+func (ki KindInfo) Parents() int {
+	for _, f := range ki.Fields {
+		switch f.Type {
+		case TypeLink:
+			return 1
+		case TypeLinks:
+			return -1
+		}
+	}
+	return 0
+}
+
+// kindTable is the one table of entry kinds, in lineage order.
+var kindTable = []KindInfo{
+	{Kind: KindWafer, Folder: "wafers", Doc: "a growth run: substrate, material system, layer stack, growth notes", Fields: []FieldSpec{
 		{Name: "grown", Type: TypeDate, Doc: "growth date"},
 		text("system", "growth chamber"),
 		text("substrate", `substrate, e.g. "GaAs (001), semi-insulating, 3 inch"`),
@@ -147,77 +179,99 @@ var schemas = map[Kind][]Field{
 		{Name: "doping_scheme", Type: TypeEnum, Values: []string{"uniform", "delta", "none"}, Doc: "doping scheme"},
 		{Name: "rotation", Type: TypeBool, Doc: "substrate rotation during growth"},
 		q("design_density", dimDensity2D, "3e11 cm^-2", "designed sheet density"),
-	},
-	KindPiece: {
+	}},
+	{Kind: KindPiece, Folder: "pieces", Doc: "a part cleaved from a wafer or another piece: size, position on the wafer", Fields: []FieldSpec{
 		link("from", true, "the wafer or piece it was cleaved from", KindWafer, KindPiece),
 		q("width", dimLength, "4 mm", "piece width"),
 		q("length", dimLength, "5 mm", "piece length"),
 		{Name: "position", Type: TypeMap, TextOK: true, Doc: `position on the wafer: x, y from the centre, or a text such as "centre"`,
-			Fields: []Field{q("x", dimLength, "5 mm", "x from the wafer centre"), q("y", dimLength, "-3 mm", "y from the wafer centre")}},
+			Fields: []FieldSpec{q("x", dimLength, "5 mm", "x from the wafer centre"), q("y", dimLength, "-3 mm", "y from the wafer centre")}},
 		text("orientation", "long edge relative to the major flat and crystal direction"),
 		{Name: "cleaved", Type: TypeDate, Doc: "cleave date"},
-	},
-	KindMask: {
+	}},
+	{Kind: KindMask, Folder: "masks", Doc: "a photomask or e-beam pattern: Hall-bar geometry, probes, contact numbering", Fields: []FieldSpec{
 		text("version", "mask version"),
 		q("width", dimLength, "20 um", "channel width"),
 		q("length", dimLength, "500 um", "source-drain length"),
 		{Name: "probes", Type: TypeList, Fields: probeFields, Doc: "voltage probes"},
 		{Name: "contacts", Type: TypeMapOrList, Doc: "contact numbering"},
-	},
-	KindProcess: {
+	}},
+	{Kind: KindProcess, Folder: "processes", Doc: "a fabrication run: ordered steps with parameters and cautions", Fields: []FieldSpec{
 		links("pieces", "the pieces it treated", KindPiece),
-	},
-	KindDevice: {
+	}},
+	{Kind: KindDevice, Folder: "devices", Doc: "one patterned device on a piece", Fields: []FieldSpec{
 		link("from", true, "the piece it was patterned on", KindPiece),
 		link("mask", false, "the mask used", KindMask),
 		links("process", "fabrication runs", KindProcess),
 		text("axis", "Hall-bar axis relative to the crystal, e.g. [1-10]"),
 		{Name: "as_built", Type: TypeMap, Doc: "measured geometry overriding the mask's",
-			Fields: []Field{q("width", dimLength, "19.6 um", "as-built channel width"), q("length", dimLength, "500 um", "as-built length"),
+			Fields: []FieldSpec{q("width", dimLength, "19.6 um", "as-built channel width"), q("length", dimLength, "500 um", "as-built length"),
 				{Name: "probes", Type: TypeList, Fields: probeFields, Doc: "as-built probes"}}},
 		{Name: "good_contacts", Type: TypeTextList, Doc: "contacts that work"},
 		{Name: "bonding", Type: TypeMap, Doc: "pin to contact"},
-	},
-	KindCooldown: {
+	}},
+	{Kind: KindCooldown, Folder: "cooldowns", Doc: "one measurement session: system, temperatures, illumination, wiring, data files", Fields: []FieldSpec{
 		links("devices", "devices measured", KindDevice),
 		text("system", "cryostat"),
 		text("thermometer", "which thermometer a temperature means"),
 		q("base_temperature", dimTemp, "20 mK", "base temperature"),
-		{Name: "magnet", Type: TypeMap, Doc: "magnet", Fields: []Field{
+		{Name: "magnet", Type: TypeMap, Doc: "magnet", Fields: []FieldSpec{
 			q("max_field", dimField, "12 T", "maximum field"), q("offset", dimField, "2 mT", "field offset near zero")}},
-		{Name: "illumination", Type: TypeMap, TextOK: true, Doc: "illumination, or none", Fields: []Field{
+		{Name: "illumination", Type: TypeMap, TextOK: true, Doc: "illumination, or none", Fields: []FieldSpec{
 			text("source", "light source"), q("current", dimCurrent, "1 mA", "LED current"),
 			q("duration", dimTime, "60 s", "duration"), q("temperature", dimTemp, "4.2 K", "temperature during illumination"),
 			q("gate_bias", dimVoltage, "0 V", "gate bias during illumination")}},
-		{Name: "excitation", Type: TypeMap, Doc: "excitation", Fields: []Field{
+		{Name: "excitation", Type: TypeMap, Doc: "excitation", Fields: []FieldSpec{
 			q("bias_resistor", dimResistance, "10 MOhm", "bias resistor"), q("source_voltage", dimVoltage, "1 V", "source voltage"),
 			q("current", dimCurrent, "100 nA", "measured current"), q("frequency", dimFrequency, "13 Hz", "lock-in frequency")}},
-		{Name: "lockins", Type: TypeList, Doc: "lock-in settings", Fields: []Field{
+		{Name: "lockins", Type: TypeList, Doc: "lock-in settings", Fields: []FieldSpec{
 			text("channel", "instrument channel"), q("time_constant", dimTime, "300 ms", "time constant"),
 			text("phase", "phase setting"),
 			{Name: "sensitivity", Type: TypeQuantity, Dims: []quantity.Dim{dimVoltage, dimCurrent}, Example: "10 mV", Doc: "sensitivity (voltage or current input)"}}},
 		{Name: "wiring", Type: TypeMap, Doc: "instrument channel to contact pair"},
 		{Name: "gate_history", Type: TypeTextList, Doc: "gate biases in order"},
-		{Name: "data", Type: TypeList, Doc: "data files", Fields: []Field{
+		{Name: "data", Type: TypeList, Doc: "data files", Fields: []FieldSpec{
 			text("file", "path relative to the entry"), text("note", "what it is"),
 			q("temperature", dimTemp, "20 mK", "temperature"), q("gate", dimVoltage, "-0.2 V", "gate voltage")}},
-	},
+	}},
+}
+
+// KindTable returns the kind table (a copy), in lineage order.
+func KindTable() []KindInfo { return slices.Clone(kindTable) }
+
+// LookupKind returns the row of the kind table for k.
+func LookupKind(k Kind) (KindInfo, bool) {
+	for _, ki := range kindTable {
+		if ki.Kind == k {
+			return ki, true
+		}
+	}
+	return KindInfo{}, false
+}
+
+func kindNames() []string {
+	var ns []string
+	for _, ki := range kindTable {
+		ns = append(ns, string(ki.Kind))
+	}
+	return ns
 }
 
 // Schema returns the fields of kind k: the fields common to all kinds first
 // (id, kind, title, date, by, tags, notes), then the kind's own. It returns
 // false for an unknown kind. The returned slice is a copy.
-func Schema(k Kind) ([]Field, bool) {
+func Schema(k Kind) ([]FieldSpec, bool) {
 	fs, ok := fullSchemas[k]
 	return slices.Clone(fs), ok
 }
 
 // fullSchemas and linkFieldsOf are built once from schemas; never modified.
-var fullSchemas, linkFieldsOf = func() (map[Kind][]Field, map[Kind][]Field) {
-	full, lf := map[Kind][]Field{}, map[Kind][]Field{}
-	for k, own := range schemas {
-		full[k] = append(slices.Clone(common), own...)
-		for _, f := range own {
+var fullSchemas, linkFieldsOf = func() (map[Kind][]FieldSpec, map[Kind][]FieldSpec) {
+	full, lf := map[Kind][]FieldSpec{}, map[Kind][]FieldSpec{}
+	for _, ki := range kindTable {
+		k := ki.Kind
+		full[k] = append(slices.Clone(common), ki.Fields...)
+		for _, f := range ki.Fields {
 			if f.Type == TypeLink || f.Type == TypeLinks {
 				lf[k] = append(lf[k], f)
 			}
@@ -227,14 +281,14 @@ var fullSchemas, linkFieldsOf = func() (map[Kind][]Field, map[Kind][]Field) {
 }()
 
 // lookupField finds a field in a field list by name.
-func lookupField(fields []Field, name string) (Field, bool) {
+func lookupField(fields []FieldSpec, name string) (FieldSpec, bool) {
 	for _, f := range fields {
 		if f.Name == name {
 			return f, true
 		}
 	}
-	return Field{}, false
+	return FieldSpec{}, false
 }
 
 // linkFields returns the link fields of kind k in schema order.
-func linkFields(k Kind) []Field { return linkFieldsOf[k] }
+func linkFields(k Kind) []FieldSpec { return linkFieldsOf[k] }

@@ -141,7 +141,7 @@ func orKinds(ks []Kind) string {
 
 // checkFields checks the members of mapping m against fields. prefix is the
 // dotted path of m ("" at the top).
-func checkFields(e *Entry, m *yaml.Node, fields []Field, prefix string) []Problem {
+func checkFields(e *Entry, m *yaml.Node, fields []FieldSpec, prefix string) []Problem {
 	var ps []Problem
 	for i := 0; i+1 < len(m.Content); i += 2 {
 		k, v := m.Content[i], deref(m.Content[i+1])
@@ -154,7 +154,7 @@ func checkFields(e *Entry, m *yaml.Node, fields []Field, prefix string) []Proble
 	return ps
 }
 
-func checkValue(e *Entry, v *yaml.Node, f Field, name string) []Problem {
+func checkValue(e *Entry, v *yaml.Node, f FieldSpec, name string) []Problem {
 	line, col := e.Pos(v)
 	bad := func(format string, args ...any) []Problem {
 		return []Problem{{Path: e.Path, Line: line, Col: col, Msg: name + ": " + fmt.Sprintf(format, args...)}}
@@ -237,7 +237,7 @@ func checkValue(e *Entry, v *yaml.Node, f Field, name string) []Problem {
 	return nil
 }
 
-func memberNames(f Field) string {
+func memberNames(f FieldSpec) string {
 	if len(f.Fields) == 0 {
 		return "fields"
 	}
@@ -257,7 +257,7 @@ func isDate(s string) bool {
 	return false
 }
 
-func checkQuantity(e *Entry, v *yaml.Node, f Field, name string) []Problem {
+func checkQuantity(e *Entry, v *yaml.Node, f FieldSpec, name string) []Problem {
 	line, col := e.Pos(v)
 	want := dimName(f.Dims[0])
 	if len(f.Dims) > 1 {

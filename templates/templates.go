@@ -17,6 +17,7 @@ import (
 
 	"go.yaml.in/yaml/v3"
 
+	"cleave/notebook"
 	"cleave/notebook/mdsrc"
 )
 
@@ -77,21 +78,9 @@ var (
 	ErrBadDate         = errors.New("invalid date, want YYYY-MM-DD")
 )
 
-// maxParents is how many --from ids each kind takes (-1: any number).
-var maxParents = map[string]int{
-	"wafer":    0,
-	"mask":     0,
-	"piece":    1,
-	"device":   1,
-	"process":  -1,
-	"cooldown": -1,
-}
-
-// IsKind reports whether name is an entry kind that has a template.
-func IsKind(name string) bool {
-	_, ok := maxParents[name]
-	return ok
-}
+// IsKind reports whether name is an entry kind (every kind of the notebook's kind table has a
+// template).
+func IsKind(name string) bool { return notebook.Kind(name).Known() }
 
 var funcs = template.FuncMap{"yq": yamlScalar, "date": yamlDate}
 
@@ -245,7 +234,8 @@ func checkData(name string, d Data) error {
 			return fmt.Errorf("template %s: date %q: %w", name, d.Date, ErrBadDate)
 		}
 	}
-	max, isKind := maxParents[name]
+	ki, isKind := notebook.LookupKind(notebook.Kind(name))
+	max := ki.Parents()
 	if !isKind {
 		return nil
 	}
