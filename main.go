@@ -413,12 +413,12 @@ func runEval(c *cli, args []string) int {
 	}
 	if *asJSON {
 		enc := json.NewEncoder(c.out)
-		if err := enc.Encode(compute.ResultOf(v)); err != nil {
+		if err := enc.Encode(compute.JSONOf(v)); err != nil {
 			return c.fail("eval", err)
 		}
 		return 0
 	}
-	fmt.Fprintln(c.out, compute.ResultOf(v).Display)
+	fmt.Fprintln(c.out, compute.JSONOf(v).Display)
 	return 0
 }
 

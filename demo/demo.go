@@ -197,7 +197,7 @@ func demoSummary(dir string, out io.Writer) error {
 			v, err := env.Eval(name)
 			text := "error: " + fmt.Sprint(err)
 			if err == nil {
-				text = compute.ResultOf(v).Display
+				text = compute.JSONOf(v).Display
 			}
 			fmt.Fprintf(out, "  %s = %s", name, text)
 		}

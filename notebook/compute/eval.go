@@ -12,10 +12,10 @@ import (
 	"cleave/notebook/calcblock"
 )
 
-// Result is the JSON form of `cleave eval --json`: a number in SI base units, the SI unit,
+// JSONValue is the JSON form of `cleave eval --json`: a number in SI base units, the SI unit,
 // the text a calc block would show, and the standard uncertainty in SI (omitted when the
 // value carries none).
-type Result struct {
+type JSONValue struct {
 	Value       *float64 `json:"value,omitempty"`
 	Unit        string   `json:"unit"`
 	Display     string   `json:"display"`
@@ -43,9 +43,9 @@ func EvalEnv(root, inFile string) (*calc.Env, error) {
 	return fileEnv(root, inFile)
 }
 
-// ResultOf turns a value into its JSON form.
-func ResultOf(v calc.Value) Result {
-	r := Result{Display: calc.Display(v), Type: v.Type()}
+// JSONOf turns a value into its JSON form.
+func JSONOf(v calc.Value) JSONValue {
+	r := JSONValue{Display: calc.Display(v), Type: v.Type()}
 	if q, ok := v.(calc.Quantity); ok {
 		x := q.Q.Value()
 		r.Value = &x

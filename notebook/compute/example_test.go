@@ -53,14 +53,14 @@ func ExampleWorkTree_Check() {
 	// [note.md:2: (none) → 18.141 nm] [note.md]
 }
 
-// Eval evaluates one expression; ResultOf gives the JSON form of `cleave eval --json`.
+// Eval evaluates one expression; JSONOf gives the JSON form of `cleave eval --json`.
 func ExampleEval() {
 	v, err := compute.Eval("", "", "cyclotron_energy(1 T, GaAs)")
 	if err != nil {
 		fmt.Println(err)
 		return
 	}
-	r := compute.ResultOf(v)
+	r := compute.JSONOf(v)
 	fmt.Println(r.Display, r.Unit)
 	// Output: 1.7279 meV kg m^2 s^-2
 }
