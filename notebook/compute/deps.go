@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"cleave/calc"
+	"cleave/calc/library"
 	"cleave/notebook"
 )
 
@@ -46,7 +47,7 @@ func newDepResolver(fsys fs.FS, nb *notebook.Notebook) *depResolver {
 	return &depResolver{
 		fsys: fsys,
 		nb:   nb,
-		env:  calc.NewEnv(calc.WithResolver(cur)),
+		env:  library.NewEnv(calc.WithResolver(cur)),
 		cur:  cur,
 		memo: map[depKey]depResult{},
 	}

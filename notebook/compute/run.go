@@ -19,6 +19,7 @@ import (
 	"sync/atomic"
 
 	"cleave/calc"
+	"cleave/calc/library"
 	"cleave/notebook"
 	"cleave/notebook/calcblock"
 	"cleave/notebook/mdsrc"
@@ -180,7 +181,7 @@ func NewEnv(fsys fs.FS, nb *notebook.Notebook, f *notebook.File) *calc.Env {
 
 func newEnvDepth(fsys fs.FS, nb *notebook.Notebook, f *notebook.File, depth int) *calc.Env {
 	r := newResolver(fsys, nb, f.Entry, depth)
-	env := calc.NewEnv(calc.WithFS(fsys, path.Dir(f.Path)), calc.WithResolver(r))
+	env := library.NewEnv(calc.WithFS(fsys, path.Dir(f.Path)), calc.WithResolver(r))
 	r.register(env)
 	return env
 }
