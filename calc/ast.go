@@ -69,8 +69,8 @@ type ListExpr struct {
 	Elems []Node
 }
 
-// Field is x.name.
-type Field struct {
+// FieldAccess is x.name: reading a field of a record or another value with fields.
+type FieldAccess struct {
 	Pos  Pos // the name after the dot
 	X    Node
 	Name string
@@ -98,27 +98,27 @@ type Convert struct {
 	ArrowAt Pos
 }
 
-func (n *NumberLit) Position() Pos { return n.Pos }
-func (n *Ident) Position() Pos     { return n.Pos }
-func (n *StringLit) Position() Pos { return n.Pos }
-func (n *Unary) Position() Pos     { return n.Pos }
-func (n *Binary) Position() Pos    { return n.Pos }
-func (n *RangeExpr) Position() Pos { return n.Pos }
-func (n *ListExpr) Position() Pos  { return n.Pos }
-func (n *Field) Position() Pos     { return n.Pos }
-func (n *Call) Position() Pos      { return n.Pos }
-func (n *Convert) Position() Pos   { return n.Pos }
+func (n *NumberLit) Position() Pos   { return n.Pos }
+func (n *Ident) Position() Pos       { return n.Pos }
+func (n *StringLit) Position() Pos   { return n.Pos }
+func (n *Unary) Position() Pos       { return n.Pos }
+func (n *Binary) Position() Pos      { return n.Pos }
+func (n *RangeExpr) Position() Pos   { return n.Pos }
+func (n *ListExpr) Position() Pos    { return n.Pos }
+func (n *FieldAccess) Position() Pos { return n.Pos }
+func (n *Call) Position() Pos        { return n.Pos }
+func (n *Convert) Position() Pos     { return n.Pos }
 
-func (*NumberLit) node() {}
-func (*Ident) node()     {}
-func (*StringLit) node() {}
-func (*Unary) node()     {}
-func (*Binary) node()    {}
-func (*RangeExpr) node() {}
-func (*ListExpr) node()  {}
-func (*Field) node()     {}
-func (*Call) node()      {}
-func (*Convert) node()   {}
+func (*NumberLit) node()   {}
+func (*Ident) node()       {}
+func (*StringLit) node()   {}
+func (*Unary) node()       {}
+func (*Binary) node()      {}
+func (*RangeExpr) node()   {}
+func (*ListExpr) node()    {}
+func (*FieldAccess) node() {}
+func (*Call) node()        {}
+func (*Convert) node()     {}
 
 // Statement is one parsed calc line.
 type Statement struct {
@@ -194,7 +194,7 @@ func formatNode(b *strings.Builder, n Node) {
 			formatNode(b, e)
 		}
 		b.WriteString("]")
-	case *Field:
+	case *FieldAccess:
 		formatNode(b, n.X)
 		b.WriteString(".")
 		b.WriteString(n.Name)

@@ -1,6 +1,12 @@
 // Package calc is the expression language of calc blocks: a lexer and parser with
-// positions, an evaluator over quantities with units and correlated uncertainties, and the
-// environment ([Env]) that the block runner and `cleave eval` call.
+// positions, an evaluator over quantities with units and correlated uncertainties, the
+// values and their display, and the environment ([Env]) that the block runner and
+// `cleave eval` call.
+//
+// The language has no functions of its own. An Env gets them with [WithFuncs] or
+// [Env.Register] as [Func] values whose [Param]s say what each argument must be; package
+// calc/library holds the tool's functions (physics, analyses, the band solver, data files)
+// and its NewEnv installs them all.
 //
 // # Lines
 //
@@ -32,7 +38,7 @@
 // # Values
 //
 // Expressions produce a [Value]: [Quantity], [String], [List], [Range], [Record],
-// [DataFile], or a value defined by another package. [Display] gives the result-region
+// [AnalysisResult], [DataFile], or a value defined by another package. [Display] gives the result-region
 // text; quantities use quantity.Format in the trade's customary units, or the unit asked
 // for with `expr -> unit`, which is dimension-checked.
 //
@@ -44,6 +50,12 @@
 // [ErrUnknownFunction], [ErrArgument], [ErrType] or [ErrPath] where they apply. Nothing a
 // user types makes the package panic.
 //
-// The package leaves out reading data files' contents (see [DataLoader]), plotting, and
-// anything about Markdown: the block runner finds the lines and writes the results.
+// # Data files
+//
+// [Env.OpenData] resolves a data path inside the notebook folder given with [WithFS],
+// records the file and its content hash as a dependency, and hands the bytes to the Env's
+// [DataLoader] (set with [WithDataLoader]); without one it returns a [DataFile].
+//
+// The package leaves out the formats of data files, plotting, and anything about Markdown:
+// the block runner finds the lines and writes the results.
 package calc

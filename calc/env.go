@@ -8,8 +8,6 @@ import (
 	"strconv"
 	"strings"
 
-	"cleave/calc/constants"
-	"cleave/calc/materials"
 	"cleave/calc/quantity"
 )
 
@@ -78,8 +76,8 @@ func displayDefault(v Value) string {
 
 // Env is the evaluation environment of one Markdown file: its variables in definition
 // order (shared by all calc blocks of the file), the functions, the notebook resolver, the
-// file system for data files, and the dependencies read so far. An Env is not safe for
-// concurrent use.
+// file system and loader for data files, and the dependencies read so far. An Env is not
+// safe for concurrent use.
 type Env struct {
 	vars     map[string]Value
 	order    []string
@@ -88,6 +86,7 @@ type Env struct {
 	resolver Resolver
 	fsys     fs.FS
 	dir      string
+	loader   DataLoader
 	deps     map[string]string // dependency -> content hash ("" for fields)
 }
 
@@ -109,7 +108,23 @@ func WithFS(fsys fs.FS, dir string) Option {
 	}
 }
 
-// NewEnv returns an environment with the built-in functions registered.
+// WithFuncs registers functions, as [Env.Register] does for each; a later one replaces an
+// earlier one of the same name.
+func WithFuncs(fs ...Func) Option {
+	return func(e *Env) {
+		for _, f := range fs {
+			e.Register(f)
+		}
+	}
+}
+
+// WithDataLoader sets what [Env.OpenData] turns a data file's bytes into (the library's
+// reader gives a data set); without it OpenData returns a *DataFile.
+func WithDataLoader(l DataLoader) Option { return func(e *Env) { e.loader = l } }
+
+// NewEnv returns an environment with the options applied. It knows the language's names
+// (variables, pi, constants, materials) but no functions: those come with [WithFuncs] or
+// [Env.Register] (package calc/library has the tool's).
 func NewEnv(opts ...Option) *Env {
 	e := &Env{
 		vars:   map[string]Value{},
@@ -118,11 +133,6 @@ func NewEnv(opts ...Option) *Env {
 		deps:   map[string]string{},
 		dir:    ".",
 	}
-	registerBuiltins(e)
-	registerAnalysis(e)
-	registerAnalysis2(e)
-	registerStack(e)
-	registerMaterial(e)
 	for _, o := range opts {
 		o(e)
 	}
@@ -181,6 +191,11 @@ func (e *Env) DepHash(dep string) (string, bool) {
 }
 
 func (e *Env) addDep(d, hash string) { e.deps[d] = hash }
+
+// AddDep records that what is being evaluated depends on something outside the file (for
+// functions registered by the notebook, which read other entries). hash may be empty; the
+// caller's dependency resolver gives current values when a cache checks them.
+func (e *Env) AddDep(dep, hash string) { e.addDep(dep, hash) }
 
 // LineResult is the outcome of one calc line.
 type LineResult struct {
@@ -287,132 +302,4 @@ func (e *Env) Eval(expr string) (Value, error) {
 		e.addDep("field:"+r.Path, "")
 	}
 	return v, nil
-}
-
-// lookupName resolves an identifier: variables first, then pi, then constants (CODATA 2018, from
-// calc/constants), then materials (calc/materials), then the notebook resolver. A
-// variable may therefore shadow a constant (`e = 2` hides the elementary charge for the
-// rest of the file), and a notebook field named like a constant is reached through its
-// entry (`device.h`).
-func (e *Env) lookupName(id *Ident) (Value, error) {
-	if v, ok := e.vars[id.Name]; ok {
-		return v, nil
-	}
-	if id.Name == "pi" || id.Name == "π" {
-		return num(math.Pi), nil
-	}
-	if c, ok := constants.Lookup(id.Name); ok {
-		return Q(c.Quantity()), nil
-	}
-	if m, err := materials.Lookup(id.Name); err == nil {
-		return materialRecord(m), nil
-	}
-	if e.resolver != nil {
-		if v, ok := e.resolver.Lookup(id.Name); ok {
-			if r, ok := v.(*Record); ok && r.Path == "" {
-				cp := *r
-				cp.Path = id.Name
-				v = &cp
-			}
-			if _, ok := v.(*Record); !ok {
-				e.addDep("field:"+id.Name, "")
-			}
-			return v, nil
-		}
-		// The notebook does not have it now; it may later (a new ancestor, a fixed link),
-		// so the result depends on its absence too.
-		e.addDep("field:"+id.Name, "")
-	}
-	if ln, ok := e.failed[id.Name]; ok {
-		return nil, &Error{Line: id.Pos.Line, Col: id.Pos.Col, Err: ErrUnknownName,
-			Msg: "\"" + id.Name + "\" has no value: its definition on line " + strconv.Itoa(ln) + " failed"}
-	}
-	msg := "unknown name \"" + id.Name + "\""
-	if s := nearest(id.Name, e.knownNames()); s != "" {
-		msg += " (did you mean " + s + "?)"
-	}
-	return nil, &Error{Line: id.Pos.Line, Col: id.Pos.Col, Msg: msg, Err: ErrUnknownName}
-}
-
-func (e *Env) knownNames() []string {
-	names := append([]string(nil), e.order...)
-	names = append(names, "pi")
-	names = append(names, constants.Symbols()...)
-	names = append(names, "GaAs", "AlAs", "InAs", "InSb", "In0.53Ga0.47As", "Si", "Ge", "graphene")
-	if n, ok := e.resolver.(Namer); ok && e.resolver != nil {
-		names = append(names, n.Names()...)
-	}
-	return names
-}
-
-// materialRecord turns a material into a record: name, mstar (a mass, mstar·m_e),
-// eps_r, g, gs, gv, vF (m/s), carrier, x. Fields that do not apply (NaN or zero in the
-// table, such as graphene's mass) are left out.
-func materialRecord(m materials.Material) *Record {
-	r := &Record{}
-	add := func(n string, v Value) { r.Fields = append(r.Fields, RecordField{n, v}) }
-	add("name", String(m.Name))
-	if m.Mstar > 0 {
-		// an exact multiple of the unit m_e: the table gives no uncertainty for m*/m_e
-		add("mstar", Q(quantity.New(m.Mstar*quantity.ElectronMass, quantity.Mass)))
-	}
-	if !math.IsNaN(m.EpsR) && m.EpsR > 0 {
-		add("eps_r", num(m.EpsR))
-	}
-	if !math.IsNaN(m.G) {
-		add("g", num(m.G))
-	}
-	add("gs", num(float64(m.Gs)))
-	add("gv", num(float64(m.Gv)))
-	if m.VF > 0 {
-		add("vF", Q(quantity.New(m.VF, quantity.Length.Div(quantity.Time))))
-	}
-	if m.Carrier != "" {
-		add("carrier", String(m.Carrier))
-	}
-	if !math.IsNaN(m.X) {
-		add("x", num(m.X))
-	}
-	return r
-}
-
-// nearest returns the candidate closest to name by edit distance, if it is close enough
-// to be a plausible typo.
-func nearest(name string, cands []string) string {
-	best, bestD := "", -1
-	for _, c := range cands {
-		if c == name {
-			continue
-		}
-		d := editDistance(strings.ToLower(name), strings.ToLower(c))
-		if bestD < 0 || d < bestD || d == bestD && c < best {
-			best, bestD = c, d
-		}
-	}
-	limit := 1 + len([]rune(name))/3
-	if bestD < 0 || bestD > limit {
-		return ""
-	}
-	return best
-}
-
-func editDistance(a, b string) int {
-	ra, rb := []rune(a), []rune(b)
-	prev := make([]int, len(rb)+1)
-	cur := make([]int, len(rb)+1)
-	for j := range prev {
-		prev[j] = j
-	}
-	for i := 1; i <= len(ra); i++ {
-		cur[0] = i
-		for j := 1; j <= len(rb); j++ {
-			cost := 1
-			if ra[i-1] == rb[j-1] {
-				cost = 0
-			}
-			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
-		}
-		prev, cur = cur, prev
-	}
-	return prev[len(rb)]
 }

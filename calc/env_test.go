@@ -4,6 +4,7 @@ import (
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
+	"fmt"
 	"io"
 	"io/fs"
 	"os"
@@ -77,22 +78,14 @@ func TestDeps(t *testing.T) {
 	}
 }
 
-// withoutLoader unsets DataLoader for the test, so data() returns a *DataFile.
-func withoutLoader(t *testing.T) {
-	old := DataLoader
-	DataLoader = nil
-	t.Cleanup(func() { DataLoader = old })
-}
-
 func sha(b string) string {
 	s := sha256.Sum256([]byte(b))
 	return "sha256:" + hex.EncodeToString(s[:])
 }
 
-// TestData checks data() path resolution, refusal of paths that leave the notebook, the
-// dependency with its content hash, and the loader hook.
-func TestData(t *testing.T) {
-	withoutLoader(t)
+// TestOpenData checks data path resolution, refusal of paths that leave the notebook, the
+// dependency with its content hash, and the data loader option.
+func TestOpenData(t *testing.T) {
 	csv := "B_T,Rxy_Ohm\n0,0\n1,2080.5\n"
 	fsys := fstest.MapFS{
 		"cooldowns/cd-01/raw/hall.csv": {Data: []byte(csv)},
@@ -120,28 +113,24 @@ func TestData(t *testing.T) {
 	}
 	for _, tc := range tests {
 		e := NewEnv(WithFS(fsys, "cooldowns/cd-01"))
-		v, err := e.Eval("data(" + quoteString(tc.arg) + ")")
+		v, err := e.OpenData(tc.arg)
 		if tc.want == "" {
 			if err == nil {
-				t.Errorf("data(%q) = %v, want an error", tc.arg, Display(v))
+				t.Errorf("OpenData(%q) = %v, want an error", tc.arg, Display(v))
 				continue
 			}
 			if tc.wantErr != nil && !errors.Is(err, tc.wantErr) {
-				t.Errorf("data(%q): %v, want %v", tc.arg, err, tc.wantErr)
-			}
-			var ce *Error
-			if !errors.As(err, &ce) || ce.Col != 6 {
-				t.Errorf("data(%q): %v, want an *Error at column 6", tc.arg, err)
+				t.Errorf("OpenData(%q): %v, want %v", tc.arg, err, tc.wantErr)
 			}
 			continue
 		}
 		if err != nil {
-			t.Errorf("data(%q): %v", tc.arg, err)
+			t.Errorf("OpenData(%q): %v", tc.arg, err)
 			continue
 		}
 		df, ok := v.(*DataFile)
 		if !ok || df.Path != tc.want {
-			t.Errorf("data(%q) = %#v, want path %s", tc.arg, v, tc.want)
+			t.Errorf("OpenData(%q) = %#v, want path %s", tc.arg, v, tc.want)
 			continue
 		}
 		b, _ := fs.ReadFile(fsys, "cooldowns/cd-01/raw/hall.csv")
@@ -156,27 +145,36 @@ func TestData(t *testing.T) {
 		}
 	}
 
-	// The loader hook receives the bytes.
-	DataLoader = func(name string, r io.Reader) (Value, error) {
+	// A data loader receives the notebook path and the bytes; its value is OpenData's.
+	countLines := func(name string, r io.Reader) (Value, error) {
 		b, err := io.ReadAll(r)
 		if err != nil {
 			return nil, err
 		}
 		return NewRecord("", "name", String(name), "lines", Q(quantity.Scalar(float64(strings.Count(string(b), "\n"))))), nil
 	}
-	e := NewEnv(WithFS(fsys, "cooldowns/cd-01"))
-	v, err := e.Eval(`data("raw/hall.csv").lines`)
+	e := NewEnv(WithFS(fsys, "cooldowns/cd-01"), WithDataLoader(countLines))
+	v, err := e.OpenData("raw/hall.csv")
 	if err != nil {
 		t.Fatal(err)
 	}
-	if q := v.(Quantity).Q.Value(); q != 3 {
-		t.Errorf("loader saw %g lines, want 3", q)
+	if got := Display(v); got != `name="cooldowns/cd-01/raw/hall.csv", lines=3.0000` {
+		t.Errorf("loader gave %s, want the path and 3 lines", got)
+	}
+	if _, ok := e.DepHash("file:cooldowns/cd-01/raw/hall.csv"); !ok {
+		t.Error("a loaded file is not recorded as a dependency")
+	}
+	// Without a notebook folder, nothing can be read, and a bad path is said first.
+	if _, err := NewEnv().OpenData("raw/hall.csv"); err == nil || !strings.Contains(err.Error(), "no notebook folder is open") {
+		t.Errorf("no folder: %v", err)
+	}
+	if _, err := NewEnv().OpenData("/etc/passwd"); !errors.Is(err, ErrPath) {
+		t.Errorf("no folder, absolute path: %v, want ErrPath", err)
 	}
 }
 
 // TestDataSymlinkOnDisk checks the link rule on a real directory through os.DirFS.
 func TestDataSymlinkOnDisk(t *testing.T) {
-	withoutLoader(t)
 	outside := t.TempDir()
 	root := t.TempDir()
 	if err := os.WriteFile(filepath.Join(outside, "secret.csv"), []byte("s\n"), 0o600); err != nil {
@@ -195,10 +193,10 @@ func TestDataSymlinkOnDisk(t *testing.T) {
 		t.Fatal(err)
 	}
 	e := NewEnv(WithFS(os.DirFS(root), "e"))
-	if _, err := e.Eval(`data("out.csv")`); !errors.Is(err, ErrPath) {
+	if _, err := e.OpenData("out.csv"); !errors.Is(err, ErrPath) {
 		t.Errorf("link to outside: err = %v, want ErrPath", err)
 	}
-	v, err := e.Eval(`data("in.csv")`)
+	v, err := e.OpenData("in.csv")
 	if err != nil {
 		t.Fatalf("link inside: %v", err)
 	}
@@ -213,15 +211,15 @@ func TestRegister(t *testing.T) {
 	e := NewEnv()
 	e.Register(Func{Name: "lin", Params: []Param{{Name: "a"}, {Name: "b", Default: Q(quantity.Scalar(10))}},
 		Call: func(_ *Env, args []Value) (Value, error) {
-			a, err := argQuantity(args, 0)
-			if err != nil {
-				return nil, err
+			a, ok := args[0].(Quantity)
+			if !ok {
+				return nil, &ArgError{Arg: 0, Err: fmt.Errorf("%w: needs a quantity, found a %s", ErrType, args[0].Type())}
 			}
-			b, err := argQuantity(args, 1)
-			if err != nil {
-				return nil, err
+			b, ok := args[1].(Quantity)
+			if !ok {
+				return nil, &ArgError{Arg: 1, Err: fmt.Errorf("%w: needs a quantity, found a %s", ErrType, args[1].Type())}
 			}
-			return Q(quantity.Mul(a, b)), nil
+			return Q(quantity.Mul(a.Q, b.Q)), nil
 		}})
 	for _, tc := range []struct {
 		expr string

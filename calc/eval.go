@@ -8,7 +8,6 @@ import (
 	"strings"
 	"unicode/utf8"
 
-	"cleave/calc/materials"
 	"cleave/calc/quantity"
 )
 
@@ -16,9 +15,10 @@ func posErr(p Pos, err error, format string, args ...any) *Error {
 	return &Error{Line: p.Line, Col: p.Col, Msg: fmt.Sprintf(format, args...), Err: err}
 }
 
-// dimName describes a dimension for messages: its SI base-unit string, with the trade's
-// display unit in parentheses when that reads differently, or "dimensionless".
-func dimName(d quantity.Dim) string {
+// DimName describes a dimension for messages: its SI base-unit string, with the trade's
+// display unit in parentheses when that reads differently, or "dimensionless". Functions
+// use it so that their messages name dimensions as the evaluator's do.
+func DimName(d quantity.Dim) string {
 	if d.IsDimensionless() {
 		return "dimensionless"
 	}
@@ -75,7 +75,7 @@ func (e *Env) eval(n Node) (Value, error) {
 		}
 		if lo.Dim() != hi.Dim() {
 			return nil, posErr(n.Pos, &quantity.DimError{Op: "..", Left: lo.Dim(), Right: hi.Dim()},
-				"the ends of a range must have the same dimension: %s .. %s", dimName(lo.Dim()), dimName(hi.Dim()))
+				"the ends of a range must have the same dimension: %s .. %s", DimName(lo.Dim()), DimName(hi.Dim()))
 		}
 		return Range{Lo: lo, Hi: hi}, nil
 	case *ListExpr:
@@ -88,7 +88,7 @@ func (e *Env) eval(n Node) (Value, error) {
 			out = append(out, v)
 		}
 		return out, nil
-	case *Field:
+	case *FieldAccess:
 		return e.evalField(n)
 	case *Call:
 		return e.evalCall(n)
@@ -177,7 +177,7 @@ func (e *Env) evalNumber(n *NumberLit) (Value, error) {
 			}
 			if uu.D != unit.D {
 				return nil, posErr(n.UncUPos, &quantity.DimError{Op: "±", Left: unit.D, Right: uu.D},
-					"the uncertainty is in %s but the value is in %s: their dimensions differ (%s vs %s)", n.UncUnit, n.Unit, dimName(uu.D), dimName(unit.D))
+					"the uncertainty is in %s but the value is in %s: their dimensions differ (%s vs %s)", n.UncUnit, n.Unit, DimName(uu.D), DimName(unit.D))
 			}
 			uScale = uu.Scale
 		}
@@ -222,7 +222,7 @@ func (e *Env) evalBinary(n *Binary) (Value, error) {
 		}
 		if err != nil {
 			verb := map[string]string{"+": "add", "-": "subtract"}[n.Op]
-			return nil, posErr(n.Pos, err, "cannot %s %s and %s: the dimensions differ", verb, dimName(x.Dim()), dimName(y.Dim()))
+			return nil, posErr(n.Pos, err, "cannot %s %s and %s: the dimensions differ", verb, DimName(x.Dim()), DimName(y.Dim()))
 		}
 		return Q(r), nil
 	case "*":
@@ -235,14 +235,14 @@ func (e *Env) evalBinary(n *Binary) (Value, error) {
 	case "^":
 		if !y.Dim().IsDimensionless() {
 			return nil, posErr(n.Y.Position(), &quantity.DimError{Op: "^", Left: x.Dim(), Right: y.Dim()},
-				"an exponent must be dimensionless, found %s", dimName(y.Dim()))
+				"an exponent must be dimensionless, found %s", DimName(y.Dim()))
 		}
 		if y.HasUncertainty() && y.Uncertainty() > 0 {
 			return nil, posErr(n.Y.Position(), nil, "an exponent must be exact (it has an uncertainty)")
 		}
 		r, err := quantity.Pow(x, y.Value())
 		if err != nil {
-			return nil, posErr(n.Pos, err, "cannot raise %s to the power %g: %v", dimName(x.Dim()), y.Value(), err)
+			return nil, posErr(n.Pos, err, "cannot raise %s to the power %g: %v", DimName(x.Dim()), y.Value(), err)
 		}
 		if math.IsNaN(r.Value()) || math.IsInf(r.Value(), 0) {
 			return nil, posErr(n.Pos, nil, "%g ^ %g is not a finite real number", x.Value(), y.Value())
@@ -268,7 +268,7 @@ func convertValue(v Value, u quantity.Unit, n *Convert) (Value, error) {
 	check := func(d quantity.Dim) error {
 		if d != u.D {
 			return posErr(n.Pos, &quantity.DimError{Op: "->", Left: d, Right: u.D},
-				"cannot show %s in %s (%s)", dimName(d), n.Unit, u.D.String())
+				"cannot show %s in %s (%s)", DimName(d), n.Unit, u.D.String())
 		}
 		return nil
 	}
@@ -297,7 +297,7 @@ func convertValue(v Value, u quantity.Unit, n *Convert) (Value, error) {
 	return nil, posErr(n.ArrowAt, ErrType, "-> needs a quantity, range or list, found a %s", v.Type())
 }
 
-func (e *Env) evalField(n *Field) (Value, error) {
+func (e *Env) evalField(n *FieldAccess) (Value, error) {
 	x, err := e.eval(n.X)
 	if err != nil {
 		return nil, err
@@ -330,30 +330,6 @@ func (e *Env) evalField(n *Field) (Value, error) {
 		e.addDep("field:"+path, "")
 	}
 	return v, nil
-}
-
-// materialCall reads Si(100) and Ge(holes), material names that look like calls.
-func materialCall(n *Call) (Value, bool) {
-	if len(n.Args) != 1 || n.Args[0].Name != "" {
-		return nil, false
-	}
-	var inner string
-	switch a := n.Args[0].Value.(type) {
-	case *NumberLit:
-		if a.Unc != "" || a.Unit != "" {
-			return nil, false
-		}
-		inner = a.Text
-	case *Ident:
-		inner = a.Name
-	default:
-		return nil, false
-	}
-	m, err := materials.Lookup(n.Func + "(" + inner + ")")
-	if err != nil {
-		return nil, false
-	}
-	return materialRecord(m), true
 }
 
 func (e *Env) evalCall(n *Call) (Value, error) {
@@ -440,7 +416,7 @@ func (e *Env) evalCall(n *Call) (Value, error) {
 		if p.Dim != nil {
 			q, ok := args[i].(Quantity)
 			if !ok {
-				return nil, posErr(argPos[i], ErrType, "%s: argument %s must be a quantity (%s), found a %s", n.Func, p.Name, dimName(*p.Dim), args[i].Type())
+				return nil, posErr(argPos[i], ErrType, "%s: argument %s must be a quantity (%s), found a %s", n.Func, p.Name, DimName(*p.Dim), args[i].Type())
 			}
 			if q.Q.Dim() != *p.Dim {
 				hint := ""
@@ -453,7 +429,7 @@ func (e *Env) evalCall(n *Call) (Value, error) {
 					}
 				}
 				return nil, posErr(argPos[i], &quantity.DimError{Op: n.Func, Left: q.Q.Dim(), Right: *p.Dim},
-					"%s: argument %s must be %s, found %s%s", n.Func, p.Name, dimName(*p.Dim), dimName(q.Q.Dim()), hint)
+					"%s: argument %s must be %s, found %s%s", n.Func, p.Name, DimName(*p.Dim), DimName(q.Q.Dim()), hint)
 			}
 		}
 	}

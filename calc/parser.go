@@ -276,7 +276,7 @@ func (p *parser) postfix() (Node, error) {
 			return nil, p.errExpected("a field name after .")
 		}
 		p.next()
-		x = &Field{Pos: t.pos, X: x, Name: t.text}
+		x = &FieldAccess{Pos: t.pos, X: x, Name: t.text}
 	}
 	return x, nil
 }

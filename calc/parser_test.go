@@ -103,7 +103,7 @@ func TestParsePositions(t *testing.T) {
 	if want := (Pos{7, 9}); num.UnitPos != want {
 		t.Errorf("unit at %v, want %v", num.UnitPos, want)
 	}
-	f := b.Y.(*Field)
+	f := b.Y.(*FieldAccess)
 	if want := (Pos{7, 24}); f.Pos != want {
 		t.Errorf("field at %v, want %v", f.Pos, want)
 	}
@@ -190,7 +190,7 @@ func clearPos(n Node) {
 		for _, e := range n.Elems {
 			clearPos(e)
 		}
-	case *Field:
+	case *FieldAccess:
 		n.Pos = Pos{}
 		clearPos(n.X)
 	case *Call:

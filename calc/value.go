@@ -8,9 +8,9 @@ import (
 )
 
 // Value is the result of evaluating an expression. The kinds built in are [Quantity],
-// [String], [List], [Range], [Record] and [DataFile]; other packages add their own
-// (data sets, fit results) by implementing Value. Such an opaque value may also implement
-// [Fielder] (for x.name access) and [Displayer] (for its text in a result region).
+// [String], [List], [Range], [Record], [AnalysisResult] and [DataFile]; other packages add
+// their own (data sets, band profiles) by implementing Value. Such an opaque value may also
+// implement [Fielder] (for x.name access) and [Displayer] (for its text in a result region).
 type Value interface {
 	// Type names the kind of value in error messages, e.g. "quantity", "list".
 	Type() string
@@ -111,8 +111,8 @@ func NewRecord(path string, kv ...any) *Record {
 	return r
 }
 
-// DataFile is what data("path") returns until a reader for the file's format is hooked
-// in with [DataLoader]: the file's slash path inside the notebook and its content hash.
+// DataFile is what [Env.OpenData] returns when the Env has no [DataLoader]: the file's slash
+// path inside the notebook, its content hash and size.
 type DataFile struct {
 	Path string // slash path relative to the notebook root
 	Hash string // "sha256:<hex>"
@@ -145,6 +145,66 @@ func (d *DataFile) Field(name string) (Value, bool) {
 
 // FieldNames lists path, hash and size.
 func (d *DataFile) FieldNames() []string { return []string{"path", "hash", "size"} }
+
+// AnalysisResult is the outcome of an analysis or another rich function: named fields
+// (values with uncertainties, the parameters and points used), the sanity checks that
+// failed, and which fields its result region shows. A later line reads its fields
+// (`hall.n`, `lk.mass`, `fit.warnings`).
+type AnalysisResult struct {
+	Kind     string   // the function that made it, e.g. "hall_density"
+	Main     string   // the field displayed first
+	Extra    []string // further fields displayed after it
+	Rec      *Record
+	Warnings []string
+	// Detail, when set, is the Go value the function computed, for another function that
+	// combines results (compare_densities reads the Hall and SdH fits). The language never
+	// looks at it.
+	Detail any
+}
+
+// Type implements Value: "<kind> result".
+func (r *AnalysisResult) Type() string { return r.Kind + " result" }
+
+// Field implements Fielder; `warnings` lists the sanity checks that failed.
+func (r *AnalysisResult) Field(name string) (Value, bool) {
+	if name == "warnings" {
+		l := List{}
+		for _, w := range r.Warnings {
+			l = append(l, String(w))
+		}
+		return l, true
+	}
+	return r.Rec.Field(name)
+}
+
+// FieldNames implements Fielder.
+func (r *AnalysisResult) FieldNames() []string { return append(r.Rec.FieldNames(), "warnings") }
+
+// Display shows the main value (`n = ...`, or a text field as it is), the extra fields
+// (`frequency ...`) and every warning (`; warning: ...`).
+func (r *AnalysisResult) Display() string {
+	var parts []string
+	for i, name := range append([]string{r.Main}, r.Extra...) {
+		v, ok := r.Rec.Field(name)
+		if !ok {
+			continue
+		}
+		if s, ok := v.(String); ok && i == 0 {
+			parts = append(parts, string(s))
+		} else if i == 0 {
+			parts = append(parts, name+" = "+Display(v))
+		} else if s, ok := v.(String); ok {
+			parts = append(parts, string(s))
+		} else {
+			parts = append(parts, name+" "+Display(v))
+		}
+	}
+	s := strings.Join(parts, ", ")
+	for _, w := range r.Warnings {
+		s += "; warning: " + w
+	}
+	return s
+}
 
 // Display renders a value as it appears in a result region:
 //   - quantities with quantity.Format (the trade's customary unit, significant figures

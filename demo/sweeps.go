@@ -63,7 +63,7 @@ func demoSweeps(cooldown string) []demoSweep {
 		p := base(2.9e11, 8e5, 1.2, 0.30, 301)
 		p.Squares = sqB
 		p.BStart, p.BEnd, p.Points = -1.5, 1.5, 6001
-		p.Parallel = &transport.Layer{Density: 5e11 * cm2, Mobility: 3000 * cm2Vs}
+		p.Parallel = &transport.ParallelChannel{Density: 5e11 * cm2, Mobility: 3000 * cm2Vs}
 		return []demoSweep{{"cooldowns/data/CD24-003/hb1_pm1.5T_0.30K.csv", p, meta("W24-031-B-HB1", "0.30 K")}}
 	case "CD24-004":
 		p := base(2.2e11, 2.5e6, 3.0, 0.03, 401)

@@ -105,7 +105,7 @@ type Subband struct {
 	N2D   float64   // occupation, m^-2 (spin degeneracy 2, valley 1)
 	Mstar float64   // in-plane mass ⟨m*(z)⟩ over |ψ|², in m_e
 	MeanZ float64   // ⟨z⟩, metres from the surface
-	Psi   []float64 // ψ(z) on Result.Z, normalised so that ∫|ψ|² dz = 1 (m^-1/2)
+	Psi   []float64 // ψ(z) on Solution.Z, normalised so that ∫|ψ|² dz = 1 (m^-1/2)
 }
 
 // Well is a connected region holding electrons.
@@ -114,8 +114,8 @@ type Well struct {
 	N2D          float64 // electrons in it, m^-2
 }
 
-// Result is a converged solution. Energies are in eV with the Fermi level at zero.
-type Result struct {
+// Solution is a converged solution. Energies are in eV with the Fermi level at zero.
+type Solution struct {
 	Z         []float64 // node depths from the surface, metres
 	Ec        []float64 // conduction-band edge, eV
 	N3D       []float64 // electron density, m^-3
@@ -500,7 +500,7 @@ func (g *grid) poisson(phi, phiRef []float64, st *states, wk *work) error {
 // stops when max|Δφ| < TolV and the relative change of n2D < TolN. When the iteration cap is
 // reached Solve returns the last iterate together with a *ConvergenceError (wrapping
 // [ErrNotConverged]). Invalid stacks give the errors of [Stack.Validate].
-func Solve(stack Stack, opt Options) (*Result, error) {
+func Solve(stack Stack, opt Options) (*Solution, error) {
 	ps, err := stack.params()
 	if err != nil {
 		return nil, err
@@ -567,7 +567,7 @@ func Solve(stack Stack, opt Options) (*Result, error) {
 }
 
 // result evaluates the corrector (plain) electron density on the final potential.
-func (g *grid) result(phi []float64, it int, o Options, hint []float64, spread float64) *Result {
+func (g *grid) result(phi []float64, it int, o Options, hint []float64, spread float64) *Solution {
 	n := g.n
 	st := g.schrodinger(phi, hint, spread)
 	q := make([]float64, n+1)
@@ -576,7 +576,7 @@ func (g *grid) result(phi []float64, it int, o Options, hint []float64, spread f
 	r := make([]float64, n+1)
 	g.charge(phi, nil, st, q, dq, nel)
 	g.residual(phi, q, r)
-	res := &Result{Iterations: it, TemperatureK: o.TemperatureK, GridM: g.h}
+	res := &Solution{Iterations: it, TemperatureK: o.TemperatureK, GridM: g.h}
 	res.Z = make([]float64, n+1)
 	res.Ec = make([]float64, n+1)
 	res.N3D = nel

@@ -25,7 +25,7 @@ func deltaStack(spacer, sheet float64) Stack {
 const bufferAcceptors = 5e20
 
 // interfaceNode returns the first node of the GaAs channel below the spacer.
-func interfaceNode(r *Result, depth float64) int {
+func interfaceNode(r *Solution, depth float64) int {
 	return int(math.Round(depth/r.GridM)) + 1
 }
 

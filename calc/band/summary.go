@@ -9,7 +9,7 @@ import (
 // Summary renders the result in the trade's units as a small text table: total and per-well
 // density (cm^-2), and for each subband up to 10 meV above E_F its energy relative to E_F
 // (meV), occupation (cm^-2, "<1" below one electron per cm²), mean depth (nm) and in-plane mass (m_e).
-func (r *Result) Summary() string {
+func (r *Solution) Summary() string {
 	var b strings.Builder
 	fmt.Fprintf(&b, "T = %g K, grid %.3g nm, %d iterations\n", r.TemperatureK, r.GridM*1e9, r.Iterations)
 	fmt.Fprintf(&b, "total electrons: %.4g cm^-2\n", r.TotalN2D/1e4)
@@ -33,7 +33,7 @@ func (r *Result) Summary() string {
 // WriteProfile writes the band profile as CSV with a header: depth (nm), conduction-band
 // edge relative to E_F (meV) and electron density (cm^-3), every step-th grid node
 // (step < 1 means every node).
-func (r *Result) WriteProfile(w io.Writer, step int) error {
+func (r *Solution) WriteProfile(w io.Writer, step int) error {
 	if step < 1 {
 		step = 1
 	}

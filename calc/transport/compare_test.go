@@ -8,11 +8,11 @@ func TestCompareDensities(t *testing.T) {
 	t.Parallel()
 	tests := []struct {
 		name     string
-		parallel *Layer
+		parallel *ParallelChannel
 		want     bool
 	}{
 		{"single channel", nil, false},
-		{"parallel layer 1e11 cm^-2", &Layer{Density: 1e15, Mobility: 0.5}, true},
+		{"parallel layer 1e11 cm^-2", &ParallelChannel{Density: 1e15, Mobility: 0.5}, true},
 	}
 	for _, tc := range tests {
 		p := gaas()

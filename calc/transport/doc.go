@@ -6,7 +6,7 @@
 // Everything inside is float64 in coherent SI units (T, Ohm, K, m^-2, kg, s);
 // units are converted once, when a file is read. The package does not know
 // about calc blocks, notebooks or git, and it must not import package calc
-// (calc imports it and wraps the analyses as calc functions).
+// (calc/library imports it and wraps the analyses as calc functions).
 //
 // # Data files
 //
@@ -112,7 +112,7 @@
 // # Synthetic sweeps
 //
 // [Sweep] samples [SweepParams.Resistivity]: the Drude tensor of the main
-// channel, optionally a parallel Drude channel ([Layer]), and the low-field
+// channel, optionally a parallel Drude channel ([ParallelChannel]), and the low-field
 // SdH form Δρ_xx/ρ_0 = 4 (X/sinh X) exp(−π/(ω_c τ_q)) cos(2π f_B/B − π), with
 // Gaussian noise from a seeded generator, an R_xx pick-up into R_xy and
 // out-of-phase lock-in columns on request. With Plateaus set, a smoothed-step

@@ -116,7 +116,7 @@ func TestHallWarnings(t *testing.T) {
 		{"clean", func(p *SweepParams) {}, 0, 0.5, nil},
 		// A parallel layer of 2e11 cm^-2 at 1e4 cm^2/(V s) bends R_xy between
 		// its low-field and high-field limits (two-carrier Drude, REFERENCE §2.6).
-		{"parallel layer", func(p *SweepParams) { p.Parallel = &Layer{Density: 2e15, Mobility: 1} }, 0, 2, []string{WarnCurvature}},
+		{"parallel layer", func(p *SweepParams) { p.Parallel = &ParallelChannel{Density: 2e15, Mobility: 1} }, 0, 2, []string{WarnCurvature}},
 		// Single-carrier Drude R_xx is flat at low field, so pick-up shows as an offset.
 		{"pick-up on ±B", func(p *SweepParams) { p.Pickup, p.BStart = 0.5, -1 }, 0, 0.5, []string{WarnOffset}},
 		{"out of phase", func(p *SweepParams) { p.OutOfPhase = 0.3 }, 0, 0.5, []string{WarnOutOfPhase}},

@@ -95,7 +95,7 @@ func TestPlateauWarnings(t *testing.T) {
 	d, p := qhSweep(t)
 	// A parallel channel (1e10 cm^-2, 1000 cm²/(V s), two-carrier Drude) keeps
 	// R_xx finite on the plateaus: the first plateau warns.
-	p.Parallel = &Layer{Density: 1e14, Mobility: 0.1}
+	p.Parallel = &ParallelChannel{Density: 1e14, Mobility: 0.1}
 	dp, err := Sweep(p)
 	if err != nil {
 		t.Fatal(err)

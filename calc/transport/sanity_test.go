@@ -29,7 +29,7 @@ func TestCheckSweep(t *testing.T) {
 		// doping layer.
 		{"QH minima", func(p *SweepParams) {
 			p.Plateaus, p.BStart, p.BEnd, p.Points, p.QuantumLifetime = true, 0, 10, 4001, 0.3e-12
-			p.Parallel = &Layer{Density: 1e14, Mobility: 0.1}
+			p.Parallel = &ParallelChannel{Density: 1e14, Mobility: 0.1}
 		}, []Option{WithDensity(3e15)}, []string{WarnRxxNotZero}},
 	}
 	for _, c := range cases {

@@ -15,7 +15,7 @@ import (
 func parallelSweep(t *testing.T, tauQ float64) *Dataset {
 	t.Helper()
 	d, err := Sweep(SweepParams{Density: 2.9e15, Mobility: 80, MassRatio: 0.067, QuantumLifetime: tauQ, Temperature: 0.3,
-		Squares: 5, BStart: -1.5, BEnd: 1.5, Points: 6001, Noise: 0.2, Seed: 301, Parallel: &Layer{Density: 1e16, Mobility: 2}})
+		Squares: 5, BStart: -1.5, BEnd: 1.5, Points: 6001, Noise: 0.2, Seed: 301, Parallel: &ParallelChannel{Density: 1e16, Mobility: 2}})
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -21,9 +21,9 @@ var (
 	rK   = constants.Value("R_K")  // von Klitzing constant h/e², Ohm
 )
 
-// Layer is a second, parallel conducting channel (for example a doping layer
+// ParallelChannel is a second conducting channel beside the 2D gas (for example a doping layer
 // that did not freeze out), described by the Drude model.
-type Layer struct {
+type ParallelChannel struct {
 	Density  float64 // sheet density, m^-2 (> 0)
 	Mobility float64 // m^2/(V s) (> 0)
 	Holes    bool    // carrier type; electrons when false
@@ -47,12 +47,12 @@ type SweepParams struct {
 	Points       int     // points per sweep direction (≥ 2)
 	UpDown       bool    // append the reverse sweep (fresh noise)
 
-	Noise      float64 // standard deviation of Gaussian noise on R_xx and R_xy, Ohm
-	Seed       uint64  // seed of the PCG generator
-	Parallel   *Layer  // optional parallel channel (two-carrier Drude)
-	Plateaus   bool    // quantum Hall model at high field (see Sweep)
-	Pickup     float64 // fraction of R_xx added to R_xy (probe misalignment)
-	OutOfPhase float64 // if > 0, add lock-in Y columns Rxx_Y, Rxy_Y = OutOfPhase·|R| + noise
+	Noise      float64          // standard deviation of Gaussian noise on R_xx and R_xy, Ohm
+	Seed       uint64           // seed of the PCG generator
+	Parallel   *ParallelChannel // optional parallel channel (two-carrier Drude)
+	Plateaus   bool             // quantum Hall model at high field (see Sweep)
+	Pickup     float64          // fraction of R_xx added to R_xy (probe misalignment)
+	OutOfPhase float64          // if > 0, add lock-in Y columns Rxx_Y, Rxy_Y = OutOfPhase·|R| + noise
 }
 
 func (p *SweepParams) defaults() SweepParams {
@@ -111,7 +111,7 @@ func DensityFromSdH(f, gs, gv float64) float64 { return gs * gv * qe * f / hPl }
 // not modelled: with SpinDeg 2 the plateaus are at even ν only; SpinDeg 1
 // puts them at every integer.
 //
-// A parallel Layer adds its Drude conductivity tensor to the main channel's,
+// A ParallelChannel adds its Drude conductivity tensor to the main channel's,
 // and the sum is inverted back to resistivities.
 func (p *SweepParams) Resistivity(B float64) (rhoxx, rhoxy float64) {
 	q := p.defaults()

@@ -9,6 +9,7 @@ import (
 	"os"
 
 	"cleave/calc"
+	"cleave/calc/library"
 	"cleave/calc/transport"
 	"cleave/notebook"
 	"cleave/notebook/calcblock"
@@ -106,7 +107,7 @@ func Eval(root, inFile, expr string) (calc.Value, error) {
 // the file's calc lines evaluated, so several expressions can be asked of one entry cheaply.
 func EvalEnv(root, inFile string) (*calc.Env, error) {
 	if inFile == "" {
-		return calc.NewEnv(), nil
+		return library.NewEnv(), nil
 	}
 	return fileEnv(root, inFile)
 }
@@ -136,7 +137,7 @@ func jsonOf(v calc.Value, depth int) JSONValue {
 	case calc.Quantity:
 		setQ(x)
 		return r
-	case *calc.Result:
+	case *calc.AnalysisResult:
 		if m, ok := x.Field(x.Main); ok {
 			if q, ok := m.(calc.Quantity); ok {
 				setQ(q)
@@ -204,7 +205,7 @@ func fileEnv(root, inFile string) (*calc.Env, error) {
 // WriteCSV writes a data-set value (a data file, a symmetrised sweep, a band profile) as CSV
 // with `# key: value` metadata lines and units in the header, the format data("...") reads.
 func WriteCSV(w io.Writer, v calc.Value) error {
-	d, ok := v.(*calc.DataSet)
+	d, ok := v.(*library.DataSet)
 	if !ok {
 		return fmt.Errorf("--csv needs a data set (data(\"...\"), symmetrize(...), a band profile), found a %s", v.Type())
 	}

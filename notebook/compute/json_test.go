@@ -5,12 +5,13 @@ import (
 	"testing"
 
 	"cleave/calc"
+	"cleave/calc/library"
 )
 
 // TestJSONOfRecord: a record carries each field as a nested object of the same form, in
 // SI, and a field named like a reserved key is left out rather than overwriting it.
 func TestJSONOfRecord(t *testing.T) {
-	v, err := calc.NewEnv().Eval("GaAs")
+	v, err := library.NewEnv().Eval("GaAs")
 	if err != nil {
 		t.Fatal(err)
 	}

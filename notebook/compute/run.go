@@ -14,6 +14,7 @@ import (
 	"sync/atomic"
 
 	"cleave/calc"
+	"cleave/calc/library"
 	"cleave/notebook"
 	"cleave/notebook/calcblock"
 	"cleave/notebook/mdsrc"
@@ -347,7 +348,7 @@ func NewEnv(fsys fs.FS, nb *notebook.Notebook, f *notebook.File) *calc.Env {
 // newEnv makes the environment of f for an evaluation whose reads v records.
 func newEnv(v *view, f *notebook.File, depth int) *calc.Env {
 	r := newResolver(v, f.Entry, depth)
-	env := calc.NewEnv(calc.WithFS(recFS{fsys: v.run.fsys, rec: v.rec}, path.Dir(f.Path)), calc.WithResolver(r))
+	env := library.NewEnv(calc.WithFS(recFS{fsys: v.run.fsys, rec: v.rec}, path.Dir(f.Path)), calc.WithResolver(r))
 	r.register(env)
 	return env
 }

@@ -182,7 +182,7 @@ func scoreValue(rows []scoreRow) calc.Value {
 		list = append(list, calc.NewRecord("", fields...))
 	}
 	kv = append(kv, "rows", list, "summary", calc.String(strings.Join(parts, "; ")))
-	return &calc.Result{Kind: "scorecard", Main: "summary", Rec: calc.NewRecord("", kv...)}
+	return &calc.AnalysisResult{Kind: "scorecard", Main: "summary", Rec: calc.NewRecord("", kv...)}
 }
 
 // meanSpread is the mean of the values; with several, its uncertainty is the larger of the

@@ -1,4 +1,4 @@
-package calc
+package library
 
 import (
 	"bufio"
@@ -7,6 +7,8 @@ import (
 	"os"
 	"strings"
 	"testing"
+
+	"cleave/calc"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden files in testdata")
@@ -23,7 +25,7 @@ func TestErrorsGolden(t *testing.T) {
 	sc := bufio.NewScanner(strings.NewReader(string(src)))
 	for ln := 1; sc.Scan(); ln++ {
 		r := e.EvalLine(sc.Text(), ln)
-		if r.Kind == Blank || r.Kind == Comment {
+		if r.Kind == calc.Blank || r.Kind == calc.Comment {
 			continue
 		}
 		fmt.Fprintf(&out, "%s\n\t#~ %s\n", sc.Text(), r.Display)

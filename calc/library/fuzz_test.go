@@ -1,4 +1,4 @@
-package calc
+package library
 
 import (
 	"errors"
@@ -7,6 +7,9 @@ import (
 	"testing"
 	"testing/fstest"
 	"unicode/utf8"
+
+	"cleave/calc"
+	"cleave/calc/quantity"
 )
 
 var evalSeeds = []string{
@@ -17,34 +20,49 @@ var evalSeeds = []string{
 	"hall_resistance(0)", "filling_factor(3e11 cm^-2, -5 T)", "mean([])", "min(1 T, [2 T])",
 	"1e308 * 1e308", "3.07(4)e400 cm^-2", "0.067 m_e -> meV", "[1, 2] -> T", "GaAs -> T",
 	"Al1.5Ga-0.5As.mstar", "sdh_frequency(3e11 cm^-2, gs=0)", "E = 2 meV -> ueV",
+	// the grammar's corners, as the parser's seeds have them
+	"12.5 um ± 200 nm", "3.07(4)e11 cm^-2", "-x^2", "0 T .. 0.5 T", "[1, 2, [3]]",
+	`fermi_energy(n, m=GaAs.mstar, gs=1)`, "E_F -> meV", "5 T / B", "(3.070 ± 0.040)e11 cm^-2",
+	"Si(100).gv", `hall_density(data("raw/a.csv"), 0 T .. 1 T)`, `symmetrize(data("raw/a.csv"))`,
+	`material("GaAs").mstar`, "expected_density([])", "landau_fan([1 T], [1])",
 }
 
-// FuzzEval: evaluating any line never panics, and every error is a *Error on that line
-// with a column inside the line (or just past its end).
+// fuzzResolver is a notebook stand-in: an invented device with a width and a mask.
+type fuzzResolver map[string]calc.Value
+
+func (m fuzzResolver) Lookup(name string) (calc.Value, bool) { v, ok := m[name]; return v, ok }
+
+// FuzzEval: evaluating any line with the whole library never panics, and every error is a
+// *calc.Error on that line with a column inside the line (or just past its end).
 func FuzzEval(f *testing.F) {
-	for _, s := range append(evalSeeds, parseSeeds...) {
+	for _, s := range evalSeeds {
 		f.Add(s)
 	}
 	fsys := fstest.MapFS{
 		"e/raw/a.csv": {Data: []byte("B,R\n0,1\n")},
 		"e/up.csv":    {Data: []byte("../../x"), Mode: fs.ModeSymlink},
 	}
+	um := quantity.MustUnit("um")
+	res := fuzzResolver{
+		"device": calc.NewRecord("", "width", calc.Q(quantity.New(100*um.Scale, um.D)),
+			"mask", calc.NewRecord("", "name", calc.String("HB-100"))),
+	}
 	f.Fuzz(func(t *testing.T, line string) {
 		if !utf8.ValidString(line) || strings.ContainsAny(line, "\r\n") {
 			t.Skip("a calc line is one line of UTF-8 text")
 		}
-		e := NewEnv(WithFS(fsys, "e"), WithResolver(demoResolver(t)))
+		e := NewEnv(calc.WithFS(fsys, "e"), calc.WithResolver(res))
 		e.EvalLine("x = 5 ± 0.1 T", 1)
 		r := e.EvalLine(line, 2)
 		if r.Err == nil {
-			if (r.Kind == Assign || r.Kind == Expr) && r.Value == nil {
+			if (r.Kind == calc.Assign || r.Kind == calc.Expr) && r.Value == nil {
 				t.Fatalf("%q: no error and no value", line)
 			}
 			return
 		}
-		var ce *Error
+		var ce *calc.Error
 		if !errors.As(r.Err, &ce) {
-			t.Fatalf("%q: error %v is not a *Error", line, r.Err)
+			t.Fatalf("%q: error %v is not a *calc.Error", line, r.Err)
 		}
 		if n := utf8.RuneCountInString(line); ce.Line != 2 || ce.Col < 1 || ce.Col > n+1 {
 			t.Fatalf("%q: error at %d:%d, outside line 2 of %d characters: %v", line, ce.Line, ce.Col, n, ce)

@@ -1,4 +1,4 @@
-package calc
+package library
 
 import (
 	"bytes"
@@ -9,6 +9,7 @@ import (
 	"testing"
 	"testing/fstest"
 
+	"cleave/calc"
 	"cleave/calc/transport"
 )
 
@@ -33,7 +34,7 @@ func sweepFile(t *testing.T, p transport.SweepParams, meta ...string) []byte {
 
 // analysisEnv is an environment over a notebook folder holding synthetic data with known
 // density 2.6e11 cm^-2, mobility 1.2e6 cm^2/(V s), m* = 0.067 m_e and tau_q = 1.5 ps.
-func analysisEnv(t *testing.T) *Env {
+func analysisEnv(t *testing.T) *calc.Env {
 	t.Helper()
 	base := transport.SweepParams{Density: 2.6e15, Mobility: 120, MassRatio: 0.067, QuantumLifetime: 1.5e-12,
 		Temperature: 0.3, Squares: 5, Noise: 0.05}
@@ -49,18 +50,18 @@ func analysisEnv(t *testing.T) *Env {
 	qh := base
 	qh.Temperature, qh.BStart, qh.BEnd, qh.Points, qh.Seed, qh.Plateaus, qh.QuantumLifetime = 0.03, 0, 9, 9001, 3, true, 3e-12
 	fsys["data/qh.csv"] = &fstest.MapFile{Data: sweepFile(t, qh, "T", "30 mK")}
-	return NewEnv(WithFS(fsys, "."))
+	return NewEnv(calc.WithFS(fsys, "."))
 }
 
-func value(t *testing.T, e *Env, expr string) Quantity {
+func value(t *testing.T, e *calc.Env, expr string) calc.Quantity {
 	t.Helper()
 	v, err := e.Eval(expr)
 	if err != nil {
 		t.Fatalf("%s: %v", expr, err)
 	}
-	q, ok := v.(Quantity)
+	q, ok := v.(calc.Quantity)
 	if !ok {
-		t.Fatalf("%s: %s, not a quantity", expr, Display(v))
+		t.Fatalf("%s: %s, not a quantity", expr, calc.Display(v))
 	}
 	return q
 }
@@ -107,12 +108,12 @@ func TestAnalysesRecoverTruth(t *testing.T) {
 			t.Errorf("%s = %g, want %g within %g", c.expr, got, c.want, c.tol)
 		}
 	}
-	if v, _ := e.Eval("hall.carriers"); Display(v) != `"electrons"` {
-		t.Errorf("carriers = %s", Display(v))
+	if v, _ := e.Eval("hall.carriers"); calc.Display(v) != `"electrons"` {
+		t.Errorf("carriers = %s", calc.Display(v))
 	}
 	// The plateau model is spin-degenerate: even filling factors, each within 1e-3 of R_K/nu.
-	if v, _ := e.Eval("qh"); !strings.HasPrefix(Display(v), "nu = ") || strings.Contains(Display(v), "warning") {
-		t.Errorf("plateaus: %s", Display(v))
+	if v, _ := e.Eval("qh"); !strings.HasPrefix(calc.Display(v), "nu = ") || strings.Contains(calc.Display(v), "warning") {
+		t.Errorf("plateaus: %s", calc.Display(v))
 	}
 	if dev := value(t, e, "qh.max_deviation"); dev.Q.Value() > 1e-3 {
 		t.Errorf("plateau deviation %g > 1e-3 (REFERENCE §6)", dev.Q.Value())
@@ -166,64 +167,9 @@ func TestAnalysisArgumentErrors(t *testing.T) {
 	}
 	for i, tc := range tests {
 		r := e.EvalLine(tc.line, i+2)
-		var ce *Error
+		var ce *calc.Error
 		if r.Err == nil || !errors.As(r.Err, &ce) || !strings.Contains(r.Err.Error(), tc.want) {
 			t.Errorf("%s: error %v, want a positioned error mentioning %q", tc.line, r.Err, tc.want)
 		}
 	}
-}
-
-// expected_density on a delta-doped stack like REFERENCE §5 row 25's example (Al0.3Ga0.7As,
-// a Si sheet 30 nm above the interface, here under a 60 nm barrier and cap with a pinned
-// surface): deeper donors leave fewer electrons in the well (REFERENCE §3.3: n falls as E_D'
-// rises), and the self-consistent and analytic densities stay within 10 % of each other.
-func TestExpectedDensityDonorDepth(t *testing.T) {
-	e := NewEnv()
-	stack := layerTable([][4]string{
-		{"cap", "GaAs", "10 nm", ""},
-		{"barrier", "Al0.3Ga0.7As", "50 nm", ""},
-		{"delta", "Al0.3Ga0.7As", "1 nm", "Si delta 2.5e12 cm^-2"},
-		{"spacer", "Al0.3Ga0.7As", "30 nm", ""},
-		{"channel", "GaAs", "400 nm", "C 1e14 cm^-3"},
-	})
-	e.Set("layers", stack)
-	prev := math.Inf(1)
-	for _, d := range []string{"0 eV", "0.05 eV", "0.1 eV", "0.15 eV"} {
-		v, err := e.Eval("expected_density(layers, donor_depth = " + d + ")")
-		if err != nil {
-			t.Fatalf("donor_depth %s: %v", d, err)
-		}
-		r := v.(*Result)
-		n := fieldValue(t, r, "n")
-		an := fieldValue(t, r, "analytic")
-		if !(n < prev) {
-			t.Errorf("donor_depth %s: n = %g, not below %g", d, n, prev)
-		}
-		if math.Abs(an/n-1) > 0.1 {
-			t.Errorf("donor_depth %s: analytic %g vs self-consistent %g", d, an, n)
-		}
-		prev = n
-	}
-	if _, err := e.Eval("expected_density(layers, donor_depth = -0.1 eV)"); err == nil {
-		t.Error("a negative donor depth was accepted")
-	}
-}
-
-// layerTable builds a layer table as the notebook gives it: rows with layer, material,
-// thickness and doping.
-func layerTable(rows [][4]string) List {
-	var l List
-	for _, r := range rows {
-		l = append(l, NewRecord("", "layer", String(r[0]), "material", String(r[1]), "thickness", String(r[2]), "doping", String(r[3])))
-	}
-	return l
-}
-
-func fieldValue(t *testing.T, r *Result, name string) float64 {
-	t.Helper()
-	v, ok := r.Field(name)
-	if !ok {
-		t.Fatalf("no field %s in %s", name, r.Display())
-	}
-	return v.(Quantity).Q.Value()
 }

@@ -1,0 +1,239 @@
+package library
+
+import (
+	"fmt"
+	"io"
+	"sort"
+	"strings"
+
+	"cleave/calc"
+	"cleave/calc/quantity"
+	"cleave/calc/transport"
+)
+
+// dataFuncs read measurement files and prepare sweeps: data("path") (through the Env's data
+// loader, [ReadData] in an Env from [NewEnv]), symmetrisation over ±B, the value of a column
+// at zero field, and the sanity checks of a raw sweep. The reader and the methods are in
+// calc/transport.
+func dataFuncs() []calc.Func {
+	return []calc.Func{
+		{Name: "data", Doc: "a data file, by a path relative to the entry's folder inside the notebook",
+			Params: []calc.Param{{Name: "path"}},
+			Call: func(e *calc.Env, args []calc.Value) (calc.Value, error) {
+				s, ok := args[0].(calc.String)
+				if !ok {
+					return nil, &calc.ArgError{Arg: 0, Err: fmt.Errorf("%w: needs a string path, found a %s", calc.ErrType, args[0].Type())}
+				}
+				v, err := e.OpenData(string(s))
+				if err != nil {
+					return nil, &calc.ArgError{Arg: 0, Err: err}
+				}
+				return v, nil
+			}},
+		{Name: "zero_field",
+			Doc:    "a column's value at B = 0, by a local low-order fit over the points nearest zero field",
+			Params: []calc.Param{{Name: "d"}, {Name: "column", Default: calc.String("Rxx")}},
+			Call: func(_ *calc.Env, a []calc.Value) (calc.Value, error) {
+				d, err := dataArg(a, 0)
+				if err != nil {
+					return nil, err
+				}
+				col, err := strArg(a, 1)
+				if err != nil {
+					return nil, err
+				}
+				z, err := transport.ZeroField(d, col)
+				if err != nil {
+					return nil, err
+				}
+				c, err := d.Col(col)
+				if err != nil {
+					return nil, err
+				}
+				return est(z.Value, c.Dim), nil
+			}},
+		{Name: "symmetrize",
+			Doc:    "the data set over |B| with R_xx symmetrised and R_xy antisymmetrised from sweeps over +B and -B (with y=: only that column, symmetrised)",
+			Params: []calc.Param{{Name: "d"}, {Name: "y", Default: calc.String("")}, {Name: "x", Default: calc.String("B")}},
+			Call:   func(_ *calc.Env, a []calc.Value) (calc.Value, error) { return symmetrizeCall(a, +1) }},
+		{Name: "antisymmetrize",
+			Doc:    "the data set over |B| with column y (default Rxy) antisymmetrised from sweeps over +B and -B",
+			Params: []calc.Param{{Name: "d"}, {Name: "y", Default: calc.String("Rxy")}, {Name: "x", Default: calc.String("B")}},
+			Call:   func(_ *calc.Env, a []calc.Value) (calc.Value, error) { return symmetrizeCall(a, -1) }},
+		{Name: "check_sweep",
+			Doc:    "the sanity checks of a raw sweep a reviewer wants flagged: R_xy away from 0 at B = 0, R_xx minima that do not reach zero (with n=), a large out-of-phase lock-in signal, too few points",
+			Params: []calc.Param{{Name: "d"}, {Name: "n", Default: calc.String("none")}},
+			Call: func(_ *calc.Env, a []calc.Value) (calc.Value, error) {
+				d, err := dataArg(a, 0)
+				if err != nil {
+					return nil, err
+				}
+				n, hasN, err := optQ(a, 1, dDensity, "a density")
+				if err != nil {
+					return nil, err
+				}
+				var opts []transport.Option
+				if hasN {
+					opts = append(opts, transport.WithDensity(n.Value()))
+				}
+				ws, err := transport.CheckSweep(d, opts...)
+				if err != nil {
+					return nil, err
+				}
+				verdict := "no warnings"
+				if len(ws) > 0 {
+					verdict = fmt.Sprintf("%d warning(s)", len(ws))
+				}
+				return withWarnings(newResult("check_sweep", "verdict", nil, "verdict", calc.String(verdict), "count", num(float64(len(ws)))), ws), nil
+			}},
+	}
+}
+
+// ReadData is the data loader of the library (see calc.WithDataLoader): it reads a CSV or
+// TSV measurement file with transport.Read and gives a *DataSet. Its errors name the file
+// and the position in it.
+func ReadData(name string, r io.Reader) (calc.Value, error) {
+	ds, err := transport.Read(name, r)
+	if err != nil {
+		return nil, err
+	}
+	return &DataSet{D: ds}, nil
+}
+
+// DataSet is a measurement file read by data("path"), or a data set derived from one
+// (symmetrize, antisymmetrize).
+type DataSet struct{ D *transport.Dataset }
+
+// Type implements calc.Value.
+func (*DataSet) Type() string { return "data set" }
+
+// Display shows the file, its size, columns and content hash.
+func (d *DataSet) Display() string {
+	var cols []string
+	for _, c := range d.D.Columns {
+		if c.Unit != "" {
+			cols = append(cols, c.Name+" ("+c.Unit+")")
+		} else {
+			cols = append(cols, c.Name)
+		}
+	}
+	h := d.D.Hash
+	if len(h) > 15 {
+		h = h[:15]
+	}
+	s := fmt.Sprintf("%s: %d rows; %s", d.D.Name, d.D.Len(), strings.Join(cols, ", "))
+	if h != "" {
+		s += "; " + h
+	}
+	return s
+}
+
+// Field gives metadata values by key (`d.T`, `d.sample`) and the row count (`d.rows`).
+func (d *DataSet) Field(name string) (calc.Value, bool) {
+	if name == "rows" {
+		return num(float64(d.D.Len())), true
+	}
+	if name == "hash" {
+		return calc.String(d.D.Hash), true
+	}
+	if v, ok := d.D.MetaValue(name); ok {
+		if q, err := quantity.ParseQuantity(strings.TrimSpace(v)); err == nil {
+			return calc.Q(q), true
+		}
+		return calc.String(v), true
+	}
+	return nil, false
+}
+
+// FieldNames implements Fielder.
+func (d *DataSet) FieldNames() []string {
+	names := []string{"rows", "hash"}
+	for _, kv := range d.D.Meta {
+		if kv.Key != "" {
+			names = append(names, kv.Key)
+		}
+	}
+	return names
+}
+
+// symmetrizeCall implements symmetrize (sign +1) and antisymmetrize (sign -1).
+func symmetrizeCall(a []calc.Value, sign int) (calc.Value, error) {
+	d, err := dataArg(a, 0)
+	if err != nil {
+		return nil, err
+	}
+	y, err := strArg(a, 1)
+	if err != nil {
+		return nil, err
+	}
+	x, err := strArg(a, 2)
+	if err != nil {
+		return nil, err
+	}
+	type job struct {
+		col  string
+		sign int
+	}
+	var jobs []job
+	switch {
+	case y != "":
+		jobs = []job{{y, sign}}
+	default: // symmetrize(d): the usual pair
+		jobs = []job{{"Rxx", +1}, {"Rxy", -1}}
+	}
+	xc, err := d.Col(x)
+	if err != nil {
+		return nil, err
+	}
+	out := &transport.Dataset{Name: d.Name, Hash: d.Hash, Meta: d.Meta}
+	var grid []float64
+	for _, j := range jobs {
+		yc, err := d.Col(j.col)
+		if err != nil {
+			return nil, err
+		}
+		var res *transport.SymResult
+		if j.sign > 0 {
+			res, err = transport.Symmetrize(d, x, j.col)
+		} else {
+			res, err = transport.Antisymmetrize(d, x, j.col)
+		}
+		if err != nil {
+			return nil, err
+		}
+		vals := res.Values
+		if grid == nil {
+			grid = res.B
+			out.Columns = append(out.Columns, transport.Column{Name: xc.Name, Unit: "T", Dim: xc.Dim, Values: grid})
+		} else if len(res.B) != len(grid) {
+			vals = resample(res.B, res.Values, grid)
+		}
+		out.Columns = append(out.Columns, transport.Column{Name: yc.Name, Unit: yc.Unit, Dim: yc.Dim, Values: vals})
+	}
+	if sign > 0 && y == "" {
+		out.Name += " (±B: Rxx symmetrised, Rxy antisymmetrised)"
+	} else if sign > 0 {
+		out.Name += " (" + y + " symmetrised over ±B)"
+	} else {
+		out.Name += " (" + y + " antisymmetrised over ±B)"
+	}
+	return &DataSet{D: out}, nil
+}
+
+// resample interpolates y(x) linearly onto grid (x increasing).
+func resample(x, y, grid []float64) []float64 {
+	out := make([]float64, len(grid))
+	for i, g := range grid {
+		j := sort.SearchFloat64s(x, g)
+		switch {
+		case j == 0:
+			out[i] = y[0]
+		case j >= len(x):
+			out[i] = y[len(y)-1]
+		default:
+			t := (g - x[j-1]) / (x[j] - x[j-1])
+			out[i] = y[j-1] + t*(y[j]-y[j-1])
+		}
+	}
+	return out
+}

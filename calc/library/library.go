@@ -1,0 +1,58 @@
+// Package library is the set of functions calc blocks call: the closed forms of
+// calc/physics, the data analyses of calc/transport and the band solver of calc/band, each
+// wrapped for the language of package calc with its parameters, their dimensions (checked
+// by the evaluator before the call) and defaults.
+//
+// One file holds one family:
+//
+//	math.go       sqrt, exp, ln, log10, sin, cos, tanh, abs, min, max, mean
+//	landau.go     Landau-level scales: magnetic length, cyclotron frequency and energy, levels,
+//	              filling factor, Zeeman energy, graphene's levels
+//	fermi.go      the 2D Fermi gas: Fermi energy, wavevector and velocity, density of states,
+//	              effective Bohr radius
+//	drude.go      Drude transport: mobility, sheet resistance, mean free path, van der Pauw
+//	hall.go       Hall and Shubnikov–de Haas densities, their comparison, the SdH frequency
+//	lifetime.go   effective mass and lifetimes: Lifshitz–Kosevich, Dingle, transport time
+//	plateaus.go   quantum Hall plateaus, Landau fans, R_K/nu
+//	gate.go       gate series: capacitance, mobility against density
+//	band.go       expected_density: the layer stack solved self-consistently
+//	data.go       data files and sweeps: data(), symmetrize, zero_field, check_sweep
+//	materials.go  material(name)
+//
+// The package keeps no state of its own: [All] builds the functions, [ReadData] is the
+// data-file reader, and [NewEnv] gives an environment with both installed.
+package library
+
+import (
+	"cleave/calc"
+)
+
+// All returns every function of the library, family by family. Each call builds new
+// values, so an Env may change its copies freely.
+func All() []calc.Func {
+	out := make([]calc.Func, 0, 64)
+	for _, family := range [][]calc.Func{
+		mathFuncs(),
+		landauFuncs(),
+		fermiFuncs(),
+		drudeFuncs(),
+		hallFuncs(),
+		lifetimeFuncs(),
+		plateauFuncs(),
+		gateFuncs(),
+		bandFuncs(),
+		dataFuncs(),
+		materialFuncs(),
+	} {
+		out = append(out, family...)
+	}
+	return out
+}
+
+// NewEnv returns a calc environment with the whole library installed (every function of
+// [All], and [ReadData] as its data loader), then opts applied: a notebook folder
+// (calc.WithFS), a resolver for entry fields (calc.WithResolver), further functions.
+func NewEnv(opts ...calc.Option) *calc.Env {
+	base := []calc.Option{calc.WithFuncs(All()...), calc.WithDataLoader(ReadData)}
+	return calc.NewEnv(append(base, opts...)...)
+}

@@ -1,0 +1,163 @@
+package calc
+
+import (
+	"math"
+	"strconv"
+	"strings"
+
+	"cleave/calc/constants"
+	"cleave/calc/materials"
+	"cleave/calc/quantity"
+)
+
+// lookupName resolves an identifier: variables first, then pi, then constants (CODATA 2018, from
+// calc/constants), then materials (calc/materials), then the notebook resolver. A
+// variable may therefore shadow a constant (`e = 2` hides the elementary charge for the
+// rest of the file), and a notebook field named like a constant is reached through its
+// entry (`device.h`).
+func (e *Env) lookupName(id *Ident) (Value, error) {
+	if v, ok := e.vars[id.Name]; ok {
+		return v, nil
+	}
+	if id.Name == "pi" || id.Name == "π" {
+		return num(math.Pi), nil
+	}
+	if c, ok := constants.Lookup(id.Name); ok {
+		return Q(c.Quantity()), nil
+	}
+	if m, err := materials.Lookup(id.Name); err == nil {
+		return MaterialRecord(m), nil
+	}
+	if e.resolver != nil {
+		if v, ok := e.resolver.Lookup(id.Name); ok {
+			if r, ok := v.(*Record); ok && r.Path == "" {
+				cp := *r
+				cp.Path = id.Name
+				v = &cp
+			}
+			if _, ok := v.(*Record); !ok {
+				e.addDep("field:"+id.Name, "")
+			}
+			return v, nil
+		}
+		// The notebook does not have it now; it may later (a new ancestor, a fixed link),
+		// so the result depends on its absence too.
+		e.addDep("field:"+id.Name, "")
+	}
+	if ln, ok := e.failed[id.Name]; ok {
+		return nil, &Error{Line: id.Pos.Line, Col: id.Pos.Col, Err: ErrUnknownName,
+			Msg: "\"" + id.Name + "\" has no value: its definition on line " + strconv.Itoa(ln) + " failed"}
+	}
+	msg := "unknown name \"" + id.Name + "\""
+	if s := nearest(id.Name, e.knownNames()); s != "" {
+		msg += " (did you mean " + s + "?)"
+	}
+	return nil, &Error{Line: id.Pos.Line, Col: id.Pos.Col, Msg: msg, Err: ErrUnknownName}
+}
+
+func (e *Env) knownNames() []string {
+	names := append([]string(nil), e.order...)
+	names = append(names, "pi")
+	names = append(names, constants.Symbols()...)
+	names = append(names, "GaAs", "AlAs", "InAs", "InSb", "In0.53Ga0.47As", "Si", "Ge", "graphene")
+	if n, ok := e.resolver.(Namer); ok && e.resolver != nil {
+		names = append(names, n.Names()...)
+	}
+	return names
+}
+
+// MaterialRecord turns a material into a record: name, mstar (a mass, mstar·m_e),
+// eps_r, g, gs, gv, vF (m/s), carrier, x. Fields that do not apply (NaN or zero in the
+// table, such as graphene's mass) are left out.
+func MaterialRecord(m materials.Material) *Record {
+	r := &Record{}
+	add := func(n string, v Value) { r.Fields = append(r.Fields, RecordField{n, v}) }
+	add("name", String(m.Name))
+	if m.Mstar > 0 {
+		// an exact multiple of the unit m_e: the table gives no uncertainty for m*/m_e
+		add("mstar", Q(quantity.New(m.Mstar*quantity.ElectronMass, quantity.Mass)))
+	}
+	if !math.IsNaN(m.EpsR) && m.EpsR > 0 {
+		add("eps_r", num(m.EpsR))
+	}
+	if !math.IsNaN(m.G) {
+		add("g", num(m.G))
+	}
+	add("gs", num(float64(m.Gs)))
+	add("gv", num(float64(m.Gv)))
+	if m.VF > 0 {
+		add("vF", Q(quantity.New(m.VF, quantity.Length.Div(quantity.Time))))
+	}
+	if m.Carrier != "" {
+		add("carrier", String(m.Carrier))
+	}
+	if !math.IsNaN(m.X) {
+		add("x", num(m.X))
+	}
+	return r
+}
+
+// nearest returns the candidate closest to name by edit distance, if it is close enough
+// to be a plausible typo.
+func nearest(name string, cands []string) string {
+	best, bestD := "", -1
+	for _, c := range cands {
+		if c == name {
+			continue
+		}
+		d := editDistance(strings.ToLower(name), strings.ToLower(c))
+		if bestD < 0 || d < bestD || d == bestD && c < best {
+			best, bestD = c, d
+		}
+	}
+	limit := 1 + len([]rune(name))/3
+	if bestD < 0 || bestD > limit {
+		return ""
+	}
+	return best
+}
+
+func editDistance(a, b string) int {
+	ra, rb := []rune(a), []rune(b)
+	prev := make([]int, len(rb)+1)
+	cur := make([]int, len(rb)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(ra); i++ {
+		cur[0] = i
+		for j := 1; j <= len(rb); j++ {
+			cost := 1
+			if ra[i-1] == rb[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(rb)]
+}
+
+// materialCall reads Si(100) and Ge(holes), material names that look like calls.
+func materialCall(n *Call) (Value, bool) {
+	if len(n.Args) != 1 || n.Args[0].Name != "" {
+		return nil, false
+	}
+	var inner string
+	switch a := n.Args[0].Value.(type) {
+	case *NumberLit:
+		if a.Unc != "" || a.Unit != "" {
+			return nil, false
+		}
+		inner = a.Text
+	case *Ident:
+		inner = a.Name
+	default:
+		return nil, false
+	}
+	m, err := materials.Lookup(n.Func + "(" + inner + ")")
+	if err != nil {
+		return nil, false
+	}
+	return MaterialRecord(m), true
+}
