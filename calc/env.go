@@ -81,8 +81,9 @@ func displayDefault(v Value) string {
 type Env struct {
 	vars     map[string]Value
 	order    []string
-	failed   map[string]int // name -> line whose definition failed
-	funcs    map[string]*Func
+	failed   map[string]int   // name -> line whose definition failed
+	funcs    map[string]*Func // registered on this Env; they shadow the table's
+	table    *FuncTable
 	resolver Resolver
 	fsys     fs.FS
 	dir      string
@@ -118,6 +119,52 @@ func WithFuncs(fs ...Func) Option {
 	}
 }
 
+// FuncTable is a set of functions built once and shared, read-only, by every Env that uses
+// it ([WithFuncTable]): making an Env then costs nothing per function.
+type FuncTable struct{ funcs map[string]*Func }
+
+// NewFuncTable builds a table; a later function replaces an earlier one of the same name.
+func NewFuncTable(fs ...Func) *FuncTable {
+	t := &FuncTable{funcs: make(map[string]*Func, len(fs))}
+	for _, f := range fs {
+		fc := f
+		t.funcs[f.Name] = &fc
+	}
+	return t
+}
+
+// WithFuncTable gives the Env the table's functions (functions registered on the Env itself
+// shadow them).
+func WithFuncTable(t *FuncTable) Option { return func(e *Env) { e.table = t } }
+
+// lookupFunc finds a function registered on the Env, then in its table.
+func (e *Env) lookupFunc(name string) (*Func, bool) {
+	if f, ok := e.funcs[name]; ok {
+		return f, true
+	}
+	if e.table != nil {
+		f, ok := e.table.funcs[name]
+		return f, ok
+	}
+	return nil, false
+}
+
+// funcNames lists every function name the Env knows.
+func (e *Env) funcNames() []string {
+	names := make([]string, 0, len(e.funcs))
+	for k := range e.funcs {
+		names = append(names, k)
+	}
+	if e.table != nil {
+		for k := range e.table.funcs {
+			if _, ok := e.funcs[k]; !ok {
+				names = append(names, k)
+			}
+		}
+	}
+	return names
+}
+
 // WithDataLoader sets what [Env.OpenData] turns a data file's bytes into (the library's
 // reader gives a data set); without it OpenData returns a *DataFile.
 func WithDataLoader(l DataLoader) Option { return func(e *Env) { e.loader = l } }
@@ -147,8 +194,9 @@ func (e *Env) Register(f Func) {
 
 // Funcs returns the registered functions sorted by name.
 func (e *Env) Funcs() []*Func {
-	out := make([]*Func, 0, len(e.funcs))
-	for _, f := range e.funcs {
+	var out []*Func
+	for _, n := range e.funcNames() {
+		f, _ := e.lookupFunc(n)
 		out = append(out, f)
 	}
 	sort.Slice(out, func(i, j int) bool { return out[i].Name < out[j].Name })

@@ -333,17 +333,13 @@ func (e *Env) evalField(n *FieldAccess) (Value, error) {
 }
 
 func (e *Env) evalCall(n *Call) (Value, error) {
-	f, ok := e.funcs[n.Func]
+	f, ok := e.lookupFunc(n.Func)
 	if !ok {
 		if m, ok := materialCall(n); ok {
 			return m, nil
 		}
 		msg := fmt.Sprintf("unknown function %q", n.Func)
-		names := make([]string, 0, len(e.funcs))
-		for k := range e.funcs {
-			names = append(names, k)
-		}
-		if s := nearest(n.Func, names); s != "" {
+		if s := nearest(n.Func, e.funcNames()); s != "" {
 			msg += " (did you mean " + s + "?)"
 		}
 		return nil, posErr(n.Pos, ErrUnknownFunction, "%s", msg)

@@ -2,7 +2,10 @@ package notebook
 
 import (
 	"fmt"
+	"io/fs"
+	"slices"
 	"strconv"
+	"sync"
 
 	"cleave/calc/quantity"
 	"cleave/notebook/mdsrc"
@@ -13,27 +16,104 @@ import (
 // File is one Markdown file of the notebook. Entry is nil for a note (a file
 // without front matter) and for a file whose front matter could not be made
 // into an entry (its problems are in Notebook.Problems).
+//
+// A file loaded with a [Summary] (see [LoadOptions]) is read only when
+// something asks for its contents ([File.Source], an entry's fields); its
+// identity, links and problems come from the summary.
 type File struct {
 	Path  string // slash path relative to the notebook root
-	Src   *mdsrc.Source
 	Entry *Entry
+
+	problems []Problem // found in this file alone (see Summary.Problems)
+	fence    bool      // may hold a calc block
+	data     []DataRef // the data files a cooldown lists
+
+	fsys     fs.FS
+	once     sync.Once
+	src      *mdsrc.Source
+	fromSumm bool
 }
+
+// Source is the parsed file (read now if it was known from a summary; a file that can no
+// longer be read gives an empty source).
+func (f *File) Source() *mdsrc.Source {
+	f.once.Do(func() {
+		if f.src != nil {
+			return
+		}
+		raw, err := fs.ReadFile(f.fsys, f.Path)
+		if err == nil {
+			f.src, _ = mdsrc.Parse(raw)
+		}
+		if f.src == nil {
+			f.src, _ = mdsrc.Parse(nil)
+		}
+	})
+	return f.src
+}
+
+// MayHoldBlock reports whether the file contains the word that opens a calc block's fence
+// (a cheap test: false means it has none).
+func (f *File) MayHoldBlock() bool { return f.fence }
+
+// Known reports whether the file was known from a summary and has not been read.
+func (f *File) Known() bool { return f.fromSumm }
 
 // Entry is a Markdown file whose front matter has an id and a kind.
 type Entry struct {
 	ID   string
 	Kind Kind   // may be an unknown kind; Validate reports it
 	Path string // slash path relative to the notebook root
-	Src  *mdsrc.Source
-	// Meta is the front-matter mapping node. Its Line and Column fields, and
-	// those of every node below it, are relative to the front matter; use
-	// [Entry.Pos] for file positions.
-	Meta *yaml.Node
-	// Layers is a wafer's layer table, surface first; nil when it has none.
-	Layers []LayerRow
 	// LayerTableLine is the file line of the layer table (0 when there is none).
 	LayerTableLine int
+
+	file *File
+	sum  *Summary // set when the entry was known from a summary: links and positions come from it
+
+	once   sync.Once
+	src    *mdsrc.Source
+	meta   *yaml.Node // the front-matter mapping node
+	layers []LayerRow
 }
+
+// load fills the front matter and the layer table of an entry known from a summary.
+func (e *Entry) load() {
+	e.once.Do(func() {
+		if e.meta != nil || e.file == nil {
+			return
+		}
+		src := e.file.Source()
+		if !src.HasFrontMatter {
+			e.src = src
+			return
+		}
+		tmp, _ := parseEntry(e.Path, src)
+		if tmp == nil {
+			e.src = src
+			return
+		}
+		if e.Kind == KindWafer {
+			tmp.readLayers()
+		}
+		e.src, e.meta, e.layers, e.LayerTableLine = src, tmp.meta, tmp.layers, tmp.LayerTableLine
+	})
+}
+
+// Front is the front-matter mapping node. Its Line and Column fields, and those of every
+// node below it, are relative to the front matter; use [Entry.Pos] for file positions.
+func (e *Entry) Front() *yaml.Node {
+	e.load()
+	return e.meta
+}
+
+// LayerRows is a wafer's layer table, surface first; nil when it has none.
+func (e *Entry) LayerRows() []LayerRow {
+	e.load()
+	return e.layers
+}
+
+// File is the file that holds the entry.
+func (e *Entry) File() *File { return e.file }
 
 // Link is one link from an entry to another, by id.
 type Link struct {
@@ -43,12 +123,13 @@ type Link struct {
 }
 
 // Pos returns the file position (1-based line and column in characters) of a
-// node of e.Meta.
+// node of e.Front().
 func (e *Entry) Pos(n *yaml.Node) (line, col int) {
-	if n == nil || e.Src == nil {
+	e.load()
+	if n == nil || e.src == nil {
 		return 1, 1
 	}
-	return n.Line + e.Src.FrontMatterLine - 1, max(n.Column, 1)
+	return n.Line + e.src.FrontMatterLine - 1, max(n.Column, 1)
 }
 
 // Field returns the node at a path of keys below the front matter, e.g.
@@ -56,7 +137,7 @@ func (e *Entry) Pos(n *yaml.Node) (line, col int) {
 // there is a sequence ("probes", "0", "name"). It reports false when the path
 // does not exist or leads to an empty (null) value.
 func (e *Entry) Field(path ...string) (*yaml.Node, bool) {
-	n := e.Meta
+	n := e.Front()
 	for _, p := range path {
 		n = deref(n)
 		if n == nil {
@@ -125,6 +206,9 @@ func (e *Entry) Quantity(path ...string) (quantity.Quantity, error) {
 // Links returns the entry's links in schema order (from, mask, process,
 // pieces, devices), each list in written order.
 func (e *Entry) Links() []Link {
+	if e.sum != nil {
+		return slices.Clone(e.sum.Links)
+	}
 	var out []Link
 	for _, f := range linkFields(e.Kind) {
 		n, ok := e.Field(f.Name)

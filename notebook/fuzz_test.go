@@ -43,7 +43,7 @@ func FuzzLoad(f *testing.F) {
 			if !ok {
 				t.Fatalf("problem in unknown file: %v", p)
 			}
-			lines := bytes.Split(fl.Src.Raw, []byte("\n"))
+			lines := bytes.Split(fl.Source().Raw, []byte("\n"))
 			if p.Line < 1 || p.Line > len(lines) || p.Col < 1 {
 				t.Fatalf("position outside the file (%d lines): %v", len(lines), p)
 			}

@@ -31,7 +31,7 @@ type Cell struct {
 // a `Layers` heading without such a table, an empty material and a thickness
 // that is not a length with a unit.
 func (e *Entry) readLayers() []Problem {
-	if e.Src == nil || e.Src.Doc == nil {
+	if e.src == nil || e.src.Doc == nil {
 		return nil
 	}
 	var probs []Problem
@@ -43,7 +43,7 @@ func (e *Entry) readLayers() []Problem {
 	var sectionTable *east.Table // the first table in the Layers section
 	var table *east.Table
 	var header []Cell
-	for n := e.Src.Doc.FirstChild(); n != nil; n = n.NextSibling() {
+	for n := e.src.Doc.FirstChild(); n != nil; n = n.NextSibling() {
 		switch n := n.(type) {
 		case *ast.Heading:
 			if layersHeading == nil && strings.EqualFold(strings.TrimSpace(e.inlineText(n)), "layers") {
@@ -85,7 +85,7 @@ func (e *Entry) readLayers() []Problem {
 		return probs
 	}
 	e.LayerTableLine, _ = e.pos(table.Pos())
-	e.Layers = []LayerRow{}
+	e.layers = []LayerRow{}
 	for r := table.FirstChild(); r != nil; r = r.NextSibling() {
 		row, ok := r.(*east.TableRow)
 		if !ok {
@@ -149,7 +149,7 @@ func (e *Entry) readLayers() []Problem {
 				lr.ThicknessQ = qv
 			}
 		}
-		e.Layers = append(e.Layers, lr)
+		e.layers = append(e.layers, lr)
 	}
 	return probs
 }
@@ -157,8 +157,8 @@ func (e *Entry) readLayers() []Problem {
 // pos is Src.Pos with the offset kept inside the file (goldmark can place a
 // node position past a tab; see yuin/goldmark#604).
 func (e *Entry) pos(off int) (line, col int) {
-	off = min(max(off, 0), len(e.Src.Raw))
-	return e.Src.Pos(off)
+	off = min(max(off, 0), len(e.src.Raw))
+	return e.src.Pos(off)
 }
 
 func headingPos(e *Entry, h ast.Node) int {
@@ -191,7 +191,7 @@ func (e *Entry) cell(n ast.Node, column string) Cell {
 		return c
 	}
 	seg := lines.At(0)
-	src := e.Src.Masked()
+	src := e.src.Masked()
 	if seg.Start < 0 || seg.Stop > len(src) || seg.Start > seg.Stop {
 		return c
 	}
@@ -203,7 +203,7 @@ func (e *Entry) cell(n ast.Node, column string) Cell {
 // inlineText is the source text of a block's lines, trimmed (for headings).
 func (e *Entry) inlineText(n ast.Node) string {
 	var b strings.Builder
-	src := e.Src.Masked()
+	src := e.src.Masked()
 	lines := n.Lines()
 	for i := 0; i < lines.Len(); i++ {
 		s := lines.At(i)

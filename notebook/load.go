@@ -1,6 +1,7 @@
 package notebook
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -21,8 +22,11 @@ import (
 
 // Notebook is a loaded notebook.
 type Notebook struct {
-	Files    []*File  // every *.md file, sorted by path
-	Entries  []*Entry // every entry, sorted by path
+	Files   []*File  // every *.md file, sorted by path
+	Entries []*Entry // every entry, sorted by path
+	// Problems lists what loading found: files that could not be read or parsed, front
+	// matter that gives no entry, broken layer tables, fields that do not fit the schema.
+	// [Notebook.Validate] adds the problems between entries.
 	Problems []Problem
 	byID     map[string]*Entry // first entry (in path order) for each id
 	dups     map[string][]*Entry
@@ -55,12 +59,25 @@ func LoadDir(dir string) (*Notebook, error) {
 	return Load(os.DirFS(dir))
 }
 
-// Load reads every *.md file of fsys (skipping hidden files and directories,
+// LoadOptions tunes [LoadWith].
+type LoadOptions struct {
+	// Known returns the summary of the file at a slash path when the caller knows the file
+	// has not changed since the summary was made (same stat data, same content hash). Such a
+	// file is not read while loading; its identity, links and problems come from the summary,
+	// and its contents are read when something asks for them.
+	Known func(path string) (*Summary, bool)
+}
+
+// Load reads every *.md file of fsys (see [LoadWith]).
+func Load(fsys fs.FS) (*Notebook, error) { return LoadWith(fsys, LoadOptions{}) }
+
+// LoadWith reads every *.md file of fsys (skipping hidden files and directories,
 // `.git` and the top-level `templates/` folder), parses front matter and layer
-// tables and builds the lineage graph. Problems in files do not stop it: they
-// are collected in nb.Problems (see also [Notebook.Validate]). The error is
-// non-nil only when the file system itself cannot be walked.
-func Load(fsys fs.FS) (*Notebook, error) {
+// tables, checks each entry's fields against its kind's schema and builds the
+// lineage graph. Problems in files do not stop it: they are collected in
+// nb.Problems (see also [Notebook.Validate]). The error is non-nil only when the
+// file system itself cannot be walked.
+func LoadWith(fsys fs.FS, opt LoadOptions) (*Notebook, error) {
 	var paths []string
 	var walkProblems []Problem
 	err := fs.WalkDir(fsys, ".", func(p string, d fs.DirEntry, err error) error {
@@ -112,6 +129,12 @@ func Load(fsys fs.FS) (*Notebook, error) {
 				if i >= len(paths) {
 					return
 				}
+				if opt.Known != nil {
+					if sum, ok := opt.Known(paths[i]); ok && sum.Path == paths[i] {
+						results[i] = result{knownFile(fsys, sum), nil}
+						continue
+					}
+				}
 				f, probs := loadFile(fsys, paths[i])
 				results[i] = result{f, probs}
 			}
@@ -122,7 +145,7 @@ func Load(fsys fs.FS) (*Notebook, error) {
 	nb := &Notebook{Problems: walkProblems, fsys: fsys}
 	for _, r := range results {
 		nb.Files = append(nb.Files, r.file)
-		nb.Problems = append(nb.Problems, r.problems...)
+		nb.Problems = append(nb.Problems, r.file.problems...)
 		if r.file.Entry != nil {
 			nb.Entries = append(nb.Entries, r.file.Entry)
 		}
@@ -145,16 +168,20 @@ var idPattern = regexp.MustCompile(`^[A-Za-z0-9._-]+$`)
 // ValidID reports whether id is a valid entry id: letters, digits, '-', '_', '.'.
 func ValidID(id string) bool { return idPattern.MatchString(id) }
 
-// loadFile reads and parses one file. It never returns a nil *File.
+// loadFile reads and parses one file. It never returns a nil *File. The
+// problems found in the file alone are in f.problems (and returned).
 func loadFile(fsys fs.FS, p string) (*File, []Problem) {
-	f := &File{Path: p}
+	f := &File{Path: p, fsys: fsys}
+	f.once.Do(func() {}) // the source is set here, never read lazily
 	raw, err := fs.ReadFile(fsys, p)
 	if err != nil {
-		f.Src, _ = mdsrc.Parse(nil)
-		return f, []Problem{{Path: p, Line: 1, Col: 1, Msg: "cannot read: " + errText(err)}}
+		f.src, _ = mdsrc.Parse(nil)
+		f.problems = []Problem{{Path: p, Line: 1, Col: 1, Msg: "cannot read: " + errText(err)}}
+		return f, f.problems
 	}
+	f.fence = bytes.Contains(raw, []byte("cleave"))
 	src, err := mdsrc.Parse(raw)
-	f.Src = src
+	f.src = src
 	var probs []Problem
 	if err != nil {
 		var pe *mdsrc.PosError
@@ -165,19 +192,35 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 		}
 	}
 	if src == nil {
-		f.Src, _ = mdsrc.Parse(nil)
+		f.src, _ = mdsrc.Parse(nil)
+		f.problems = probs
 		return f, probs
 	}
-	if !src.HasFrontMatter {
-		return f, probs
+	if src.HasFrontMatter {
+		e, eprobs := parseEntry(p, src)
+		probs = append(probs, eprobs...)
+		if e != nil {
+			e.file = f
+			e.once.Do(func() {}) // loaded now
+			f.Entry = e
+			if e.Kind == KindWafer {
+				probs = append(probs, e.readLayers()...)
+			}
+			probs = append(probs, e.ownProblems()...)
+			f.data = e.dataRefs()
+		}
 	}
-	e, eprobs := parseEntry(p, src)
-	f.Entry = e
-	probs = append(probs, eprobs...)
-	if e != nil && e.Kind == KindWafer {
-		probs = append(probs, e.readLayers()...)
-	}
+	f.problems = probs
 	return f, probs
+}
+
+// knownFile makes a file from its summary, to be read when asked.
+func knownFile(fsys fs.FS, s *Summary) *File {
+	f := &File{Path: s.Path, fsys: fsys, fromSumm: true, problems: s.Problems, fence: s.Fence, data: s.Data}
+	if s.Entry {
+		f.Entry = &Entry{ID: s.ID, Kind: s.Kind, Path: s.Path, file: f, sum: s}
+	}
+	return f
 }
 
 // yamlParserProblem lists the problems the YAML parser (as opposed to its
@@ -227,7 +270,7 @@ func parseEntry(p string, src *mdsrc.Source) (e *Entry, probs []Problem) {
 		return nil, probs
 	}
 	m := doc.Content[0]
-	tmp := &Entry{Path: p, Src: src, Meta: m}
+	tmp := &Entry{Path: p, src: src, meta: m}
 	if m.Kind != yaml.MappingNode {
 		line, col := tmp.Pos(m)
 		prob(line, col, "front matter must be a map of fields (`id: ...`, `kind: ...`), found a %s", nodeKindName(m))

@@ -109,7 +109,7 @@ func checkPositions(t *testing.T, nb *Notebook, ps []Problem) {
 			t.Errorf("problem names unknown file: %v", p)
 			continue
 		}
-		lines := bytes.Count(f.Src.Raw, []byte("\n")) + 1
+		lines := bytes.Count(f.Source().Raw, []byte("\n")) + 1
 		if p.Line < 1 || p.Line > lines || p.Col < 1 {
 			t.Errorf("position outside the file (%d lines): %v", lines, p)
 		}
@@ -293,10 +293,10 @@ func TestLayers(t *testing.T) {
 		{"spacer", "Al0.33Ga0.67As", "", 26, 60e-9},
 		{"channel", "GaAs", "", 27, 1e-6},
 	}
-	if len(w.Layers) != len(want) {
-		t.Fatalf("got %d layers, want %d", len(w.Layers), len(want))
+	if len(w.LayerRows()) != len(want) {
+		t.Fatalf("got %d layers, want %d", len(w.LayerRows()), len(want))
 	}
-	for i, r := range w.Layers {
+	for i, r := range w.LayerRows() {
 		got := row{r.Layer, r.Material, r.Doping, r.Line, r.ThicknessQ.Value()}
 		// nm = 1e-9 m, um = 1e-6 m (SI prefixes, BIPM SI Brochure 9th ed.); compare relatively
 		if got.layer != want[i].layer || got.material != want[i].material || got.doping != want[i].doping || got.line != want[i].line ||

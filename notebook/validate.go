@@ -38,7 +38,7 @@ func sortProblems(ps []Problem) {
 // quantity fields without a unit or of the wrong dimension, bad dates, enums
 // and booleans.
 func (nb *Notebook) Validate() []Problem {
-	ps := slices.Clone(nb.Problems)
+	ps := slices.Clone(nb.Problems) // each file's own problems, found when it was loaded
 	add := func(p string, line, col int, format string, args ...any) {
 		ps = append(ps, Problem{Path: p, Line: line, Col: max(col, 1), Msg: fmt.Sprintf(format, args...)})
 	}
@@ -48,42 +48,17 @@ func (nb *Notebook) Validate() []Problem {
 			var others []string
 			for _, o := range es {
 				if o != e {
-					l, _ := o.Pos(idNode(o))
-					others = append(others, fmt.Sprintf("%s:%d", o.Path, l))
+					others = append(others, fmt.Sprintf("%s:%d", o.Path, o.idPos().Line))
 				}
 			}
-			l, c := e.Pos(idNode(e))
-			add(e.Path, l, c, "duplicate id %q: also used in %s", id, strings.Join(others, ", "))
+			p := e.idPos()
+			add(e.Path, p.Line, p.Col, "duplicate id %q: also used in %s", id, strings.Join(others, ", "))
 		}
 	}
 	for _, e := range nb.Entries {
 		fields, ok := fullSchemas[e.Kind]
 		if !ok {
-			n, _ := e.Field("kind")
-			l, c := e.Pos(n)
-			add(e.Path, l, c, "unknown kind %q: expected one of %s", e.Kind, kindList())
-			continue
-		}
-		ps = append(ps, checkFields(e, e.Meta, fields, "")...)
-		// links
-		for _, f := range linkFields(e.Kind) {
-			n, ok := e.Field(f.Name)
-			if !ok {
-				if f.Required {
-					if k := metaKey(e, f.Name); k != nil { // written but left empty
-						l, c := e.Pos(k)
-						add(e.Path, l, c, "`%s:` is empty: expected the id of a %s (%s)", f.Name, orKinds(f.Kinds), f.Doc)
-					} else {
-						l, _ := e.Pos(e.Meta)
-						add(e.Path, max(l-1, 1), 1, "missing `%s:` (%s: the id of a %s)", f.Name, f.Doc, orKinds(f.Kinds))
-					}
-				}
-				continue
-			}
-			if f.Type == TypeLink && n.Kind != yaml.ScalarNode {
-				l, c := e.Pos(n)
-				add(e.Path, l, c, "%s: expected one id, found a %s", f.Name, nodeKindName(n))
-			}
+			continue // an unknown kind: reported with the file's own problems
 		}
 		for _, l := range e.Links() {
 			f, _ := lookupField(fields, l.Field)
@@ -113,7 +88,8 @@ func (nb *Notebook) Validate() []Problem {
 		}
 		ids = append(ids, cyc[0].ID)
 		e, next := cyc[0], cyc[1%len(cyc)]
-		line, col := e.Pos(e.Meta)
+		p := e.metaPos()
+		line, col := p.Line, p.Col
 		for _, l := range e.Links() {
 			if l.ID == next.ID {
 				line, col = l.Line, l.Col
@@ -124,6 +100,61 @@ func (nb *Notebook) Validate() []Problem {
 	}
 	sortProblems(ps)
 	return slices.Compact(ps)
+}
+
+// ownProblems checks an entry against its kind's schema: what can be said of it without
+// looking at any other file.
+func (e *Entry) ownProblems() []Problem {
+	var ps []Problem
+	add := func(line, col int, format string, args ...any) {
+		ps = append(ps, Problem{Path: e.Path, Line: line, Col: max(col, 1), Msg: fmt.Sprintf(format, args...)})
+	}
+	fields, ok := fullSchemas[e.Kind]
+	if !ok {
+		n, _ := e.Field("kind")
+		l, c := e.Pos(n)
+		add(l, c, "unknown kind %q: expected one of %s", e.Kind, kindList())
+		return ps
+	}
+	ps = append(ps, checkFields(e, e.meta, fields, "")...)
+	for _, f := range linkFields(e.Kind) {
+		n, ok := e.Field(f.Name)
+		if !ok {
+			if f.Required {
+				if k := metaKey(e, f.Name); k != nil { // written but left empty
+					l, c := e.Pos(k)
+					add(l, c, "`%s:` is empty: expected the id of a %s (%s)", f.Name, orKinds(f.Kinds), f.Doc)
+				} else {
+					l, _ := e.Pos(e.meta)
+					add(max(l-1, 1), 1, "missing `%s:` (%s: the id of a %s)", f.Name, f.Doc, orKinds(f.Kinds))
+				}
+			}
+			continue
+		}
+		if f.Type == TypeLink && n.Kind != yaml.ScalarNode {
+			l, c := e.Pos(n)
+			add(l, c, "%s: expected one id, found a %s", f.Name, nodeKindName(n))
+		}
+	}
+	return ps
+}
+
+// idPos is where the entry's id is written.
+func (e *Entry) idPos() Pos {
+	if e.sum != nil {
+		return e.sum.IDPos
+	}
+	l, c := e.Pos(idNode(e))
+	return Pos{l, c}
+}
+
+// metaPos is where the entry's front matter starts (its first field).
+func (e *Entry) metaPos() Pos {
+	if e.sum != nil {
+		return e.sum.MetaPos
+	}
+	l, c := e.Pos(e.meta)
+	return Pos{l, c}
 }
 
 func idNode(e *Entry) *yaml.Node {
@@ -288,7 +319,7 @@ func checkQuantity(e *Entry, v *yaml.Node, f FieldSpec, name string) []Problem {
 
 // metaKey returns the key node of a top-level front-matter field, or nil.
 func metaKey(e *Entry, name string) *yaml.Node {
-	m := deref(e.Meta)
+	m := deref(e.Front())
 	if m == nil || m.Kind != yaml.MappingNode {
 		return nil
 	}
@@ -300,14 +331,17 @@ func metaKey(e *Entry, name string) *yaml.Node {
 	return nil
 }
 
-// checkDataFiles reports the data files a cooldown lists (`data:` items with `file:`) that
-// leave the notebook or do not exist. Paths are relative to the entry's folder.
-func (nb *Notebook) checkDataFiles(e *Entry) []Problem {
-	list, ok := e.Field("data")
-	if !ok || list.Kind != yaml.SequenceNode || nb.fsys == nil {
+// dataRefs lists the data files a cooldown names in `data:` (items with `file:`, or plain
+// paths), with their positions.
+func (e *Entry) dataRefs() []DataRef {
+	if e.Kind != KindCooldown {
 		return nil
 	}
-	var ps []Problem
+	list, ok := e.Field("data")
+	if !ok || list.Kind != yaml.SequenceNode {
+		return nil
+	}
+	var out []DataRef
 	for _, item := range list.Content {
 		var fn *yaml.Node
 		switch item.Kind {
@@ -320,22 +354,51 @@ func (nb *Notebook) checkDataFiles(e *Entry) []Problem {
 		case yaml.ScalarNode:
 			fn = item
 		}
-		if fn == nil || fn.Kind != yaml.ScalarNode || strings.TrimSpace(fn.Value) == "" {
+		if fn == nil {
 			continue
 		}
-		name := strings.TrimSpace(fn.Value)
 		l, c := e.Pos(fn)
+		name := ""
+		if fn.Kind == yaml.ScalarNode {
+			name = strings.TrimSpace(fn.Value)
+		}
+		out = append(out, DataRef{Name: name, Line: l, Col: c})
+	}
+	return out
+}
+
+// checkDataFiles reports the data files a cooldown lists that leave the notebook or are not
+// regular files in it. Paths are relative to the entry's folder.
+func (nb *Notebook) checkDataFiles(e *Entry) []Problem {
+	if nb.fsys == nil || e.file == nil {
+		return nil
+	}
+	var ps []Problem
+	for _, d := range e.file.data {
+		if d.Name == "" {
+			ps = append(ps, Problem{Path: e.Path, Line: d.Line, Col: max(d.Col, 1),
+				Msg: "data: empty file name: expected a path relative to the entry's folder, such as data/sweep.csv"})
+			continue
+		}
 		// The same rule as data("...") in calc blocks, links included.
-		full, real, err := calc.ResolveDataPath(nb.fsys, path.Dir(e.Path), name)
+		full, real, err := calc.ResolveDataPath(nb.fsys, path.Dir(e.Path), d.Name)
+		if err != nil {
+			ps = append(ps, Problem{Path: e.Path, Line: d.Line, Col: max(d.Col, 1),
+				Msg: fmt.Sprintf("data: %v (paths are relative to %s)", err, path.Dir(e.Path)+"/")})
+			continue
+		}
+		fi, err := fs.Stat(nb.fsys, real)
 		switch {
 		case err != nil:
-			ps = append(ps, Problem{Path: e.Path, Line: l, Col: max(c, 1),
-				Msg: fmt.Sprintf("data: %v (paths are relative to %s)", err, path.Dir(e.Path)+"/")})
-		default:
-			if _, err := fs.Stat(nb.fsys, real); err != nil {
-				ps = append(ps, Problem{Path: e.Path, Line: l, Col: max(c, 1),
-					Msg: fmt.Sprintf("data: file %q not found (looked for %s; paths are relative to the entry's folder)", name, full)})
+			ps = append(ps, Problem{Path: e.Path, Line: d.Line, Col: max(d.Col, 1),
+				Msg: fmt.Sprintf("data: file %q not found (looked for %s; paths are relative to the entry's folder)", d.Name, full)})
+		case !fi.Mode().IsRegular():
+			what := "a special file (a pipe, a device or a socket)"
+			if fi.IsDir() {
+				what = "a folder"
 			}
+			ps = append(ps, Problem{Path: e.Path, Line: d.Line, Col: max(d.Col, 1),
+				Msg: fmt.Sprintf("data: %s is %s, not a data file", full, what)})
 		}
 	}
 	return ps

@@ -24,8 +24,14 @@
 package library
 
 import (
+	"sync"
+
 	"cleave/calc"
 )
+
+// table is [All] built once into a read-only table that every environment shares (making an
+// environment per file then costs nothing per function).
+var table = sync.OnceValue(func() *calc.FuncTable { return calc.NewFuncTable(All()...) })
 
 // All returns every function of the library, family by family. Each call builds new
 // values, so an Env may change its copies freely.
@@ -53,6 +59,6 @@ func All() []calc.Func {
 // [All], and [ReadData] as its data loader), then opts applied: a notebook folder
 // (calc.WithFS), a resolver for entry fields (calc.WithResolver), further functions.
 func NewEnv(opts ...calc.Option) *calc.Env {
-	base := []calc.Option{calc.WithFuncs(All()...), calc.WithDataLoader(ReadData)}
+	base := []calc.Option{calc.WithFuncTable(table()), calc.WithDataLoader(ReadData)}
 	return calc.NewEnv(append(base, opts...)...)
 }

@@ -190,7 +190,7 @@ func fileEnv(root, inFile string) (*calc.Env, error) {
 		return nil, fmt.Errorf("%s: not a Markdown file of the notebook", inFile)
 	}
 	env := NewEnv(fsys, nb, f)
-	blocks, err := calcblock.Find(f.Src)
+	blocks, err := calcblock.Find(f.Source())
 	if err != nil {
 		return nil, fmt.Errorf("%s: %w", f.Path, err)
 	}

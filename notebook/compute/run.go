@@ -120,7 +120,7 @@ func Run(fsys fs.FS, nb *notebook.Notebook, opt Options) (*Report, error) {
 	sel := selector(opt.Paths)
 	var todo []*notebook.File
 	for _, f := range nb.Files {
-		if sel(f.Path) && hasCalcFence(f.Src.Raw) {
+		if sel(f.Path) && f.MayHoldBlock() {
 			todo = append(todo, f)
 		}
 	}
@@ -203,8 +203,6 @@ func isMarker(l []byte, c byte) bool {
 	return len(l) == 7 || l[7] == ' ' || l[7] == '\t'
 }
 
-// hasCalcFence is a cheap test that skips files that cannot hold a calc block.
-func hasCalcFence(raw []byte) bool { return bytes.Contains(raw, []byte(calcblock.InfoString)) }
 
 // runState is what the files of one run share: the tree, the loaded notebook, and each
 // Markdown file's blocks and input digest, found once.
@@ -241,11 +239,11 @@ func (rs *runState) parse(f *notebook.File) *parsedFile {
 	}
 	rs.mu.Unlock()
 	p.once.Do(func() {
-		p.blocks, p.err = calcblock.Find(f.Src)
+		p.blocks, p.err = calcblock.Find(f.Source())
 		if p.err != nil {
 			p.blocks = nil
 		}
-		sum := calcblock.InputDigest(f.Src, p.blocks)
+		sum := calcblock.InputDigest(f.Source(), p.blocks)
 		p.digest = hex.EncodeToString(sum[:16])
 	})
 	return p
@@ -268,7 +266,7 @@ func (rs *runState) mdDigest(p string) string {
 
 // runFile recomputes one file, from the cache when its inputs have not changed.
 func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileReport, bool, error) {
-	if line, ok := conflictMarker(f.Src.Raw); ok {
+	if line, ok := conflictMarker(f.Source().Raw); ok {
 		return nil, false, fmt.Errorf("%s:%d:1: unresolved merge conflict (<<<<<<< … >>>>>>>): resolve it, then recompute; nothing in this file was evaluated or changed", f.Path, line)
 	}
 	blocks, err := rs.blocks(f)
@@ -280,7 +278,7 @@ func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileRepo
 	key := rs.key(f)
 	if cache != nil {
 		if outs, ok := cache.lookup(rs, f.Path, key, n); ok {
-			fr, err := calcblock.Build(f.Path, f.Src, perr, blocks, outs)
+			fr, err := calcblock.Build(f.Path, f.Source(), perr, blocks, outs)
 			return fr, true, err
 		}
 	}
@@ -296,7 +294,7 @@ func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileRepo
 	if cache != nil {
 		cache.store(f.Path, key, rec, outs)
 	}
-	fr, err := calcblock.Build(f.Path, f.Src, perr, blocks, outs)
+	fr, err := calcblock.Build(f.Path, f.Source(), perr, blocks, outs)
 	return fr, false, err
 }
 
@@ -326,7 +324,7 @@ func outcomeOf(r calc.LineResult) calcblock.Outcome {
 // parseError is the error mdsrc.Parse gave for the file: nil when its front matter closed or
 // it has none; otherwise parsed again to get the positioned error the report shows.
 func parseError(f *notebook.File) error {
-	src := f.Src
+	src := f.Source()
 	if src.HasFrontMatter || !bytes.HasPrefix(src.Raw[src.BOM:], []byte("---")) {
 		return nil
 	}

@@ -57,13 +57,13 @@ func scalarValue(s string) calc.Value {
 // entryRecord is an entry's front matter as a record named after its kind; a wafer's record
 // also carries its layer table as `layers`.
 func entryRecord(e *notebook.Entry, name string) *calc.Record {
-	v := nodeValue(e.Meta, name)
+	v := nodeValue(e.Front(), name)
 	r, ok := v.(*calc.Record)
 	if !ok {
 		r = &calc.Record{Path: name}
 	}
-	if e.Kind == notebook.KindWafer && e.Layers != nil {
-		r.Fields = append(r.Fields, calc.RecordField{Name: "layers", Value: layersValue(e.Layers, name+".layers")})
+	if e.Kind == notebook.KindWafer && e.LayerRows() != nil {
+		r.Fields = append(r.Fields, calc.RecordField{Name: "layers", Value: layersValue(e.LayerRows(), name+".layers")})
 	}
 	return r
 }

@@ -2,14 +2,18 @@ package compute
 
 import (
 	"crypto/sha256"
+	"encoding/binary"
 	"encoding/hex"
 	"errors"
 	"fmt"
 	"io/fs"
 	"os"
 	"path/filepath"
+	"runtime"
 	"sort"
 	"strings"
+	"sync"
+	"sync/atomic"
 	"time"
 
 	"cleave/notebook"
@@ -65,39 +69,83 @@ const digestFile = "last-good-check"
 // It returns "" (no digest) when a file was modified less than a second before the walk began:
 // a later change within the same time stamp could then go unseen (git's racy-timestamp rule).
 func (w WorkTree) Digest() (string, error) {
-	type item struct{ path, sum string }
-	var items []item
 	start := time.Now()
-	racy := false
-	err := filepath.WalkDir(w.Root, func(p string, d fs.DirEntry, err error) error {
+	// Folders are listed one by one (cheap), the files' stat data is read by parallel workers
+	// (one system call each: the bulk of the time).
+	var files []string
+	var walk func(rel string) error
+	walk = func(rel string) error {
+		ents, err := os.ReadDir(filepath.Join(w.Root, filepath.FromSlash(rel)))
 		if err != nil {
 			return err
 		}
-		if d.IsDir() && d.Name() == ".git" {
-			return filepath.SkipDir
+		for _, d := range ents {
+			p := d.Name()
+			if rel != "." {
+				p = rel + "/" + p
+			}
+			switch {
+			case d.IsDir() && d.Name() == ".git" && rel == ".":
+			case d.IsDir():
+				if err := walk(p); err != nil {
+					return err
+				}
+			default:
+				files = append(files, p)
+			}
 		}
-		if d.IsDir() {
-			return nil
-		}
-		rel, _ := filepath.Rel(w.Root, p)
-		info, err := d.Info()
-		if err != nil {
-			return err
-		}
-		if !info.ModTime().Before(start.Add(-time.Second)) {
-			racy = true
-		}
-		items = append(items, item{filepath.ToSlash(rel), fmt.Sprintf("%s %d %d", info.Mode(), info.Size(), info.ModTime().UnixNano())})
 		return nil
-	})
-	if err != nil || racy {
+	}
+	if err := walk("."); err != nil {
 		return "", err
 	}
-	sort.Slice(items, func(i, j int) bool { return items[i].path < items[j].path })
+	sort.Strings(files)
+	stamps := make([][]byte, len(files))
+	var racy atomic.Bool
+	var failed atomic.Pointer[error]
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	limit := start.Add(-time.Second).UnixNano()
+	for range max(1, min(runtime.GOMAXPROCS(0), len(files)/256)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := int(next.Add(1)) - 1
+				if i >= len(files) {
+					return
+				}
+				fi, err := os.Lstat(filepath.Join(w.Root, filepath.FromSlash(files[i])))
+				if err != nil {
+					failed.Store(&err)
+					return
+				}
+				mt := fi.ModTime().UnixNano()
+				if mt >= limit {
+					racy.Store(true)
+				}
+				b := make([]byte, 0, len(files[i])+32)
+				b = append(b, files[i]...)
+				b = append(b, 0)
+				b = binary.AppendUvarint(b, uint64(fi.Mode()))
+				b = binary.AppendUvarint(b, uint64(fi.Size()))
+				b = binary.AppendVarint(b, mt)
+				stamps[i] = b
+			}
+		}()
+	}
+	wg.Wait()
+	if err := failed.Load(); err != nil {
+		return "", *err
+	}
+	if racy.Load() {
+		return "", nil
+	}
 	h := sha256.New()
-	fmt.Fprintf(h, "%s\n", EngineSalt())
-	for _, it := range items {
-		fmt.Fprintf(h, "%s\x00%s\n", it.path, it.sum)
+	fmt.Fprintf(h, "%s\n", saltIn(w.StateDir))
+	for _, b := range stamps {
+		h.Write(binary.AppendUvarint(nil, uint64(len(b))))
+		h.Write(b)
 	}
 	return hex.EncodeToString(h.Sum(nil)), nil
 }
@@ -237,7 +285,7 @@ func (w WorkTree) run(opt CheckOptions) (*CheckResult, error) {
 	if !opt.NoCache {
 		cache = w.Cache()
 	}
-	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths})
+	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths, Salt: saltIn(w.StateDir)})
 	if err != nil {
 		return nil, err
 	}
