@@ -203,7 +203,6 @@ func isMarker(l []byte, c byte) bool {
 	return len(l) == 7 || l[7] == ' ' || l[7] == '\t'
 }
 
-
 // runState is what the files of one run share: the tree, the loaded notebook, and each
 // Markdown file's blocks and input digest, found once.
 type runState struct {
