@@ -13,6 +13,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 )
 
 var (
@@ -33,6 +34,16 @@ func TestCacheDifferential(t *testing.T) {
 		t.Run(fmt.Sprint("seed", seed), func(t *testing.T) {
 			r := rand.New(rand.NewPCG(uint64(seed), 2026))
 			a, b := copyDemo(t), copyDemo(t)
+			// Files are back-dated after every change, each time to a later moment an hour
+			// ago, so that their stat data are not racy: the cache then answers unchanged files
+			// without reading them, which is the path under test.
+			stamp := time.Now().Add(-time.Hour)
+			backdate := func() {
+				stamp = stamp.Add(2 * time.Second)
+				backdateRecent(t, a, stamp)
+				backdateRecent(t, b, stamp)
+			}
+			backdate()
 			for step := range *diffSteps {
 				var desc string
 				for tries := 0; desc == "" && tries < 50; tries++ {
@@ -42,6 +53,7 @@ func TestCacheDifferential(t *testing.T) {
 					t.Fatalf("step %d: no edit applies", step)
 				}
 				mirror(t, a, b)
+				backdate()
 				cmds := []string{"check"}
 				if r.IntN(2) == 0 {
 					cmds = append(cmds, "calc", "check")
@@ -59,9 +71,39 @@ func TestCacheDifferential(t *testing.T) {
 					if fa, fb := entryFiles(t, a), entryFiles(t, b); !sameFiles(fa, fb) {
 						t.Fatalf("step %d (%s), cleave %s: files differ with and without the cache", step, desc, cmd)
 					}
+					backdate()
 				}
 			}
 		})
+	}
+}
+
+// backdateRecent sets the modification time of every file of dir (outside .git) changed in
+// the last minute to when.
+func backdateRecent(t *testing.T, dir string, when time.Time) {
+	t.Helper()
+	recent := time.Now().Add(-time.Minute)
+	err := filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
+		if err != nil {
+			return err
+		}
+		if d.IsDir() && d.Name() == ".git" {
+			return filepath.SkipDir
+		}
+		if d.IsDir() {
+			return nil
+		}
+		fi, err := d.Info()
+		if err != nil {
+			return err
+		}
+		if fi.ModTime().After(recent) {
+			return os.Chtimes(p, when, when)
+		}
+		return nil
+	})
+	if err != nil {
+		t.Fatal(err)
 	}
 }
 

@@ -29,6 +29,27 @@ type Cache struct {
 	old   map[string]*cacheRec // as read
 	cur   map[string]*cacheRec // answered or stored by this run
 	dirty bool
+
+	// What earlier runs learnt about each file, valid while its stamp (see Scan) is the same.
+	files    map[string]*fileRec // as read
+	curFiles map[string]*fileRec // learnt by this run
+}
+
+// fileRec is what is known of one file at one stamp.
+type fileRec struct {
+	stamp  string
+	sum    *notebook.Summary // a Markdown file: what the notebook needs without reading it
+	digest string            // a Markdown file: its input digest (calcblock.InputDigest)
+	sha    string            // a file read as data: its content hash (as readValue gives it)
+	report *storedReport     // a Markdown file with calc blocks: the report of its last run
+}
+
+// storedReport is a file's report when it had nothing stale: its failed lines (which stay
+// failed while neither the file nor any of its inputs change).
+type storedReport struct {
+	key    string // the results' key it was made with
+	code   int
+	errors []calcblock.Change
 }
 
 type cacheRec struct {
@@ -39,26 +60,74 @@ type cacheRec struct {
 
 type depValue struct{ name, value string }
 
-const cacheHeader = "cleave-engine-cache 1\n"
+const cacheHeader = "cleave-engine-cache 2\n"
 
 // OpenCache opens the cache kept in dir (created by Save when missing).
 func OpenCache(dir string) *Cache {
-	c := &Cache{file: filepath.Join(dir, "results"), cur: map[string]*cacheRec{}}
-	c.old = readCache(c.file)
+	c := &Cache{file: filepath.Join(dir, "results"), cur: map[string]*cacheRec{}, curFiles: map[string]*fileRec{}}
+	c.old, c.files = readCache(c.file)
 	return c
 }
 
 // readCache decodes the cache file; any problem gives an empty cache.
-func readCache(file string) map[string]*cacheRec {
+func readCache(file string) (map[string]*cacheRec, map[string]*fileRec) {
 	data, err := os.ReadFile(file)
-	if err != nil {
-		return map[string]*cacheRec{}
+	if err == nil {
+		if m, f, err := decodeCache(data); err == nil {
+			return m, f
+		}
 	}
-	m, err := decodeCache(data)
-	if err != nil {
-		return map[string]*cacheRec{}
+	return map[string]*cacheRec{}, map[string]*fileRec{}
+}
+
+// fileAt returns what is known of the file at path p at stamp (never for an empty stamp).
+func (c *Cache) fileAt(p, stamp string) *fileRec {
+	if c == nil || stamp == "" {
+		return nil
 	}
-	return m
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	if r, ok := c.curFiles[p]; ok && r.stamp == stamp {
+		return r
+	}
+	if r, ok := c.files[p]; ok && r.stamp == stamp {
+		return r
+	}
+	return nil
+}
+
+// learn records what this run found about the file at p at stamp (ignored for an empty
+// stamp: a racy or unknown one).
+func (c *Cache) learn(p, stamp string, f func(r *fileRec)) {
+	if c == nil || stamp == "" {
+		return
+	}
+	c.mu.Lock()
+	defer c.mu.Unlock()
+	r, ok := c.curFiles[p]
+	if !ok || r.stamp != stamp {
+		r = &fileRec{stamp: stamp}
+		if o, ok := c.files[p]; ok && o.stamp == stamp {
+			cp := *o
+			r = &cp
+		}
+		c.curFiles[p] = r
+	}
+	f(r)
+	c.dirty = true
+}
+
+// knownSummary is the notebook.LoadOptions.Known of a run with these stamps.
+func (c *Cache) knownSummary(stamps map[string]string) func(string) (*notebook.Summary, bool) {
+	if c == nil || stamps == nil {
+		return nil
+	}
+	return func(p string) (*notebook.Summary, bool) {
+		if r := c.fileAt(p, stamps[p]); r != nil && r.sum != nil && r.digest != "" {
+			return r.sum, true
+		}
+		return nil, false
+	}
 }
 
 // lookup returns the stored outcomes of the file at path when its key matches and every
@@ -112,16 +181,24 @@ func (c *Cache) Save(nb *notebook.Notebook) error {
 	for p, r := range c.cur {
 		all[p] = r
 	}
+	files := make(map[string]*fileRec, len(c.files)+len(c.curFiles))
+	for p, r := range c.files {
+		files[p] = r
+	}
+	for p, r := range c.curFiles {
+		files[p] = r
+	}
 	if !c.dirty && len(all) == len(c.old) {
 		return nil
 	}
 	if err := os.MkdirAll(filepath.Dir(c.file), 0o755); err != nil {
 		return err
 	}
-	if err := calcblock.ReplaceFile(c.file, encodeCache(all)); err != nil {
+	if err := calcblock.ReplaceFile(c.file, encodeCache(all, files)); err != nil {
 		return err
 	}
 	c.old, c.cur, c.dirty = all, map[string]*cacheRec{}, false
+	c.files, c.curFiles = files, map[string]*fileRec{}
 	return nil
 }
 
@@ -129,7 +206,7 @@ func (c *Cache) Save(nb *notebook.Notebook) error {
 // path, key, dependency count, each name and value, outcome count, and each outcome (flag,
 // column, text). Strings are length-prefixed (uvarint), numbers uvarints.
 
-func encodeCache(m map[string]*cacheRec) []byte {
+func encodeCache(m map[string]*cacheRec, files map[string]*fileRec) []byte {
 	paths := make([]string, 0, len(m))
 	for p := range m {
 		paths = append(paths, p)
@@ -156,6 +233,15 @@ func encodeCache(m map[string]*cacheRec) []byte {
 			b = appendStr(b, o.Text)
 		}
 	}
+	b = append(b, 0) // the end of the results, the start of the files
+	fps := make([]string, 0, len(files))
+	for p := range files {
+		fps = append(fps, p)
+	}
+	sort.Strings(fps)
+	for _, p := range fps {
+		b = appendFileRec(appendStr(b, p), files[p])
+	}
 	sum := sha256.Sum256(b)
 	out := make([]byte, 0, len(cacheHeader)+len(sum)+len(b))
 	out = append(out, cacheHeader...)
@@ -165,18 +251,22 @@ func encodeCache(m map[string]*cacheRec) []byte {
 
 var errBadCache = errors.New("damaged cache")
 
-func decodeCache(data []byte) (map[string]*cacheRec, error) {
+func decodeCache(data []byte) (map[string]*cacheRec, map[string]*fileRec, error) {
 	rest, ok := bytes.CutPrefix(data, []byte(cacheHeader))
 	if !ok || len(rest) < sha256.Size {
-		return nil, errBadCache
+		return nil, nil, errBadCache
 	}
 	sum, b := rest[:sha256.Size], rest[sha256.Size:]
 	if s := sha256.Sum256(b); !bytes.Equal(s[:], sum) {
-		return nil, errBadCache
+		return nil, nil, errBadCache
 	}
 	d := decoder{b: b}
 	m := map[string]*cacheRec{}
 	for len(d.b) > 0 && d.err == nil {
+		if d.b[0] == 0 {
+			d.b = d.b[1:]
+			break
+		}
 		p := d.str()
 		r := &cacheRec{key: d.str()}
 		nd := d.count()
@@ -193,10 +283,15 @@ func decodeCache(data []byte) (map[string]*cacheRec, error) {
 		}
 		m[p] = r
 	}
-	if d.err != nil {
-		return nil, d.err
+	files := map[string]*fileRec{}
+	for len(d.b) > 0 && d.err == nil {
+		p := d.str()
+		files[p] = d.fileRec(p)
 	}
-	return m, nil
+	if d.err != nil {
+		return nil, nil, d.err
+	}
+	return m, files, nil
 }
 
 func appendStr(b []byte, s string) []byte {
@@ -280,7 +375,7 @@ func (rs *runState) compute(name string) string {
 		}
 		return pathList(measuredBy(rs.nb, e))
 	case "read":
-		return readValue(readRegular(rs.fsys, arg))
+		return rs.dataHash(arg)
 	case "lstat":
 		return lstatValue(fs.Lstat(rs.fsys, arg))
 	case "link":

@@ -6,5 +6,10 @@ import "path/filepath"
 // `cleave calc`) does, with its cache in root/.git/cleave, without the shortcut for an
 // unchanged notebook.
 func runTree(root string, opt CheckOptions) (*CheckResult, error) {
-	return WorkTree{Root: root, StateDir: filepath.Join(root, ".git", "cleave")}.run(opt)
+	w := WorkTree{Root: root, StateDir: filepath.Join(root, ".git", "cleave")}
+	sc, err := w.Scan()
+	if err != nil {
+		return nil, err
+	}
+	return w.run(opt, sc)
 }

@@ -2,6 +2,7 @@ package compute
 
 import (
 	"bytes"
+	"crypto/sha256"
 	"encoding/hex"
 	"errors"
 	"fmt"
@@ -37,6 +38,11 @@ type Options struct {
 	// Salt is mixed into every cache key; empty means [EngineSalt]. Two engines that may
 	// compute different results must use different salts.
 	Salt string
+	// Stamps, with a Cache, names each file of the tree by a stamp that changes whenever its
+	// content may have (stat data, or a blob hash); "" or absent means unknown. What the cache
+	// learnt about a file at the same stamp (its summary, input digest, data hash, last report)
+	// is reused without reading it. nb should then have been loaded with the same stamps.
+	Stamps map[string]string
 }
 
 // Report is the outcome of a run over a notebook: typed results, nothing to parse.
@@ -117,6 +123,9 @@ func Run(fsys fs.FS, nb *notebook.Notebook, opt Options) (*Report, error) {
 		}
 	}
 	rs := newRunState(fsys, nb, opt.Salt)
+	if opt.Cache != nil {
+		rs.cache, rs.stamps = opt.Cache, opt.Stamps
+	}
 	sel := selector(opt.Paths)
 	var todo []*notebook.File
 	for _, f := range nb.Files {
@@ -147,6 +156,17 @@ func Run(fsys fs.FS, nb *notebook.Notebook, opt Options) (*Report, error) {
 		}()
 	}
 	wg.Wait()
+	if rs.cache != nil {
+		// What this run read, for the next one: each file's summary and input digest.
+		for _, f := range nb.Files {
+			if !f.Known() {
+				f := f
+				rs.cache.learn(f.Path, rs.stamps[f.Path], func(r *fileRec) {
+					r.sum, r.digest = f.Summary(), rs.parse(f).digest
+				})
+			}
+		}
+	}
 
 	rep := &Report{}
 	for _, o := range out {
@@ -210,6 +230,9 @@ type runState struct {
 	nb   *notebook.Notebook
 	salt string
 
+	cache  *Cache            // nil: no cache
+	stamps map[string]string // see Options.Stamps
+
 	mu     sync.Mutex
 	parsed map[string]*parsedFile
 	values map[string]string // current values of dependencies (see current)
@@ -260,11 +283,44 @@ func (rs *runState) mdDigest(p string) string {
 	if !ok {
 		return "-"
 	}
+	return rs.digest(f)
+}
+
+// digest is the input digest of f: known from the cache for a file not read this run.
+func (rs *runState) digest(f *notebook.File) string {
+	if f.Known() {
+		if r := rs.cache.fileAt(f.Path, rs.stamps[f.Path]); r != nil && r.digest != "" {
+			return r.digest
+		}
+	}
 	return rs.parse(f).digest
+}
+
+// dataHash is readValue of the file at p now: known from the cache while its stamp is the
+// same, read and hashed otherwise.
+func (rs *runState) dataHash(p string) string {
+	stamp := rs.stamps[p]
+	if r := rs.cache.fileAt(p, stamp); r != nil && r.sha != "" {
+		return r.sha
+	}
+	v := readValue(readRegular(rs.fsys, p))
+	if strings.HasPrefix(v, "sha256:") {
+		rs.cache.learn(p, stamp, func(r *fileRec) { r.sha = v })
+	}
+	return v
 }
 
 // runFile recomputes one file, from the cache when its inputs have not changed.
 func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileReport, bool, error) {
+	if f.Known() {
+		// Not read this run: its bytes are those of its last report. When its results are
+		// still good, so is that report.
+		if r := cache.fileAt(f.Path, rs.stamps[f.Path]); r != nil && r.report != nil {
+			if outs, ok := cache.lookup(rs, f.Path, rs.key(f), r.report.code); ok && outsKey(outs) == r.report.key {
+				return &calcblock.FileReport{Path: f.Path, Errors: r.report.errors, Code: r.report.code}, true, nil
+			}
+		}
+	}
 	if line, ok := conflictMarker(f.Source().Raw); ok {
 		return nil, false, fmt.Errorf("%s:%d:1: unresolved merge conflict (<<<<<<< … >>>>>>>): resolve it, then recompute; nothing in this file was evaluated or changed", f.Path, line)
 	}
@@ -278,6 +334,7 @@ func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileRepo
 	if cache != nil {
 		if outs, ok := cache.lookup(rs, f.Path, key, n); ok {
 			fr, err := calcblock.Build(f.Path, f.Source(), perr, blocks, outs)
+			rs.keepReport(f, fr, outs)
 			return fr, true, err
 		}
 	}
@@ -294,13 +351,35 @@ func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileRepo
 		cache.store(f.Path, key, rec, outs)
 	}
 	fr, err := calcblock.Build(f.Path, f.Source(), perr, blocks, outs)
+	if err == nil {
+		rs.keepReport(f, fr, outs)
+	}
 	return fr, false, err
+}
+
+// keepReport remembers a file's report for the next run when nothing in it is stale (a stale
+// file needs its bytes anyway, to be written).
+func (rs *runState) keepReport(f *notebook.File, fr *calcblock.FileReport, outs []calcblock.Outcome) {
+	if rs.cache == nil || fr == nil || len(fr.Stale) > 0 || fr.Changed {
+		return
+	}
+	rep := &storedReport{key: outsKey(outs), code: fr.Code, errors: fr.Errors}
+	rs.cache.learn(f.Path, rs.stamps[f.Path], func(r *fileRec) { r.report = rep })
+}
+
+// outsKey hashes a file's outcomes.
+func outsKey(outs []calcblock.Outcome) string {
+	h := sha256.New()
+	for _, o := range outs {
+		fmt.Fprintf(h, "%v\x00%d\x00%s\x00", o.Failed, o.Col, o.Text)
+	}
+	return hex.EncodeToString(h.Sum(nil)[:16])
 }
 
 // key names a file's own inputs: the engine, its path (error messages may name it) and its
 // person-owned bytes.
 func (rs *runState) key(f *notebook.File) string {
-	return rs.salt + "\x00" + f.Path + "\x00" + rs.parse(f).digest
+	return rs.salt + "\x00" + f.Path + "\x00" + rs.digest(f)
 }
 
 type evalFunc func(code string, lineNo int) calcblock.Outcome

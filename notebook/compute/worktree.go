@@ -65,10 +65,19 @@ func (w WorkTree) Write(rep *Report) (written []string, failures []error) {
 
 const digestFile = "last-good-check"
 
-// Digest hashes the stat data of every file of the work tree (everything but .git).
-// It returns "" (no digest) when a file was modified less than a second before the walk began:
-// a later change within the same time stamp could then go unseen (git's racy-timestamp rule).
-func (w WorkTree) Digest() (string, error) {
+// Scan is the stat data of every file of a work tree, read once per run: it gives the digest
+// of the notebook, and tells the engine which files cannot have changed since an earlier run
+// saw them (their stamp is the same and not racy).
+type Scan struct {
+	Stamps map[string]string // slash path → stamp (mode, size, modification time, inode); "" when racy
+	Racy   bool              // a file was modified less than a second before the scan began
+	digest string
+}
+
+// Scan reads the stat data of every file (everything but .git). A file modified less than a
+// second before the scan began is racy: a later change within the same time stamp could go
+// unseen (git's racy-timestamp rule), so its stamp is "" and never matches.
+func (w WorkTree) Scan() (*Scan, error) {
 	start := time.Now()
 	// Folders are listed one by one (cheap), the files' stat data is read by parallel workers
 	// (one system call each: the bulk of the time).
@@ -97,10 +106,10 @@ func (w WorkTree) Digest() (string, error) {
 		return nil
 	}
 	if err := walk("."); err != nil {
-		return "", err
+		return nil, err
 	}
 	sort.Strings(files)
-	stamps := make([][]byte, len(files))
+	stamps := make([]string, len(files))
 	var racy atomic.Bool
 	var failed atomic.Pointer[error]
 	var next atomic.Int64
@@ -110,6 +119,7 @@ func (w WorkTree) Digest() (string, error) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
+			var b []byte
 			for {
 				i := int(next.Add(1)) - 1
 				if i >= len(files) {
@@ -123,32 +133,38 @@ func (w WorkTree) Digest() (string, error) {
 				mt := fi.ModTime().UnixNano()
 				if mt >= limit {
 					racy.Store(true)
+					continue
 				}
-				b := make([]byte, 0, len(files[i])+32)
-				b = append(b, files[i]...)
-				b = append(b, 0)
-				b = binary.AppendUvarint(b, uint64(fi.Mode()))
+				b = binary.AppendUvarint(b[:0], uint64(fi.Mode()))
 				b = binary.AppendUvarint(b, uint64(fi.Size()))
 				b = binary.AppendVarint(b, mt)
-				stamps[i] = b
+				b = binary.AppendUvarint(b, inode(fi))
+				stamps[i] = string(b)
 			}
 		}()
 	}
 	wg.Wait()
 	if err := failed.Load(); err != nil {
-		return "", *err
+		return nil, *err
 	}
-	if racy.Load() {
-		return "", nil
-	}
+	sc := &Scan{Stamps: make(map[string]string, len(files)), Racy: racy.Load()}
 	h := sha256.New()
 	fmt.Fprintf(h, "%s\n", saltIn(w.StateDir))
-	for _, b := range stamps {
-		h.Write(binary.AppendUvarint(nil, uint64(len(b))))
-		h.Write(b)
+	for i, f := range files {
+		sc.Stamps[f] = stamps[i]
+		h.Write(binary.AppendUvarint(nil, uint64(len(f))))
+		h.Write([]byte(f))
+		h.Write(binary.AppendUvarint(nil, uint64(len(stamps[i]))))
+		h.Write([]byte(stamps[i]))
 	}
-	return hex.EncodeToString(h.Sum(nil)), nil
+	if !sc.Racy {
+		sc.digest = hex.EncodeToString(h.Sum(nil))
+	}
+	return sc, nil
 }
+
+// Digest is the hash of the scan with the engine's salt; "" when a file was racy.
+func (sc *Scan) Digest() string { return sc.digest }
 
 // GoodCheck reports whether the digest equals the one kept after the last check that found
 // no problem.
@@ -250,42 +266,46 @@ func (r *CheckResult) Bad(write bool) int {
 }
 
 // Check runs the engine over the work tree (see CheckOptions). A check of the whole notebook
-// that finds nothing wrong keeps the digest taken before it read anything, so that the next
-// check of an unchanged notebook returns at once.
+// that finds nothing wrong keeps the digest of the scan taken before it read anything, so
+// that the next check of an unchanged notebook returns at once.
 func (w WorkTree) Check(opt CheckOptions) (*CheckResult, error) {
-	var digest string
 	whole := len(opt.Paths) == 0
-	if !opt.NoCache && whole {
-		digest, _ = w.Digest() // no digest only costs time
-		if w.GoodCheck(digest) {
-			return &CheckResult{Unchanged: true}, nil
-		}
+	sc, err := w.Scan()
+	if err != nil {
+		return nil, err
 	}
-	res, err := w.run(opt)
+	if !opt.NoCache && whole && w.GoodCheck(sc.Digest()) {
+		return &CheckResult{Unchanged: true}, nil
+	}
+	res, err := w.run(opt, sc)
 	if err != nil {
 		return nil, err
 	}
 	switch {
 	case res.Bad(opt.Write) > 0:
 		w.ForgetGoodCheck()
-	case whole && !opt.Write:
-		_ = w.RememberGoodCheck(digest) // only a speed-up
+	case whole && !opt.Write && !opt.NoCache:
+		_ = w.RememberGoodCheck(sc.Digest()) // only a speed-up
 	}
 	return res, nil
 }
 
-// run is Check without the shortcut for an unchanged notebook.
-func (w WorkTree) run(opt CheckOptions) (*CheckResult, error) {
+// run is Check without the shortcut for an unchanged notebook; sc may be nil.
+func (w WorkTree) run(opt CheckOptions, sc *Scan) (*CheckResult, error) {
 	fsys := w.FS()
-	nb, err := notebook.Load(fsys)
+	var cache *Cache
+	var stamps map[string]string
+	if !opt.NoCache {
+		cache = w.Cache()
+		if sc != nil {
+			stamps = sc.Stamps
+		}
+	}
+	nb, err := notebook.LoadWith(fsys, notebook.LoadOptions{Known: cache.knownSummary(stamps)})
 	if err != nil {
 		return nil, err
 	}
-	var cache *Cache
-	if !opt.NoCache {
-		cache = w.Cache()
-	}
-	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths, Salt: saltIn(w.StateDir)})
+	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths, Salt: saltIn(w.StateDir), Stamps: stamps})
 	if err != nil {
 		return nil, err
 	}

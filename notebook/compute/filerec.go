@@ -1,0 +1,138 @@
+package compute
+
+import (
+	"encoding/binary"
+
+	"cleave/notebook"
+	"cleave/notebook/calcblock"
+)
+
+// The encoding of a fileRec: stamp, then flags saying which parts follow, then each part.
+const (
+	hasSummary = 1 << iota
+	hasDigest
+	hasSHA
+	hasReport
+)
+
+func appendFileRec(b []byte, r *fileRec) []byte {
+	b = appendStr(b, r.stamp)
+	var flags uint64
+	if r.sum != nil {
+		flags |= hasSummary
+	}
+	if r.digest != "" {
+		flags |= hasDigest
+	}
+	if r.sha != "" {
+		flags |= hasSHA
+	}
+	if r.report != nil {
+		flags |= hasReport
+	}
+	b = binary.AppendUvarint(b, flags)
+	if s := r.sum; s != nil {
+		b = appendBool(b, s.Entry)
+		b = appendStr(b, s.ID)
+		b = appendStr(b, string(s.Kind))
+		b = appendPos(b, s.IDPos)
+		b = appendPos(b, s.MetaPos)
+		b = binary.AppendUvarint(b, uint64(len(s.Links)))
+		for _, l := range s.Links {
+			b = appendStr(appendStr(b, l.Field), l.ID)
+			b = appendPos(b, notebook.Pos{Line: l.Line, Col: l.Col})
+		}
+		b = binary.AppendUvarint(b, uint64(len(s.Data)))
+		for _, d := range s.Data {
+			b = appendPos(appendStr(b, d.Name), notebook.Pos{Line: d.Line, Col: d.Col})
+		}
+		b = binary.AppendUvarint(b, uint64(len(s.Problems)))
+		for _, p := range s.Problems {
+			b = appendStr(appendPos(b, notebook.Pos{Line: p.Line, Col: p.Col}), p.Msg)
+		}
+		b = appendBool(b, s.Fence)
+	}
+	if r.digest != "" {
+		b = appendStr(b, r.digest)
+	}
+	if r.sha != "" {
+		b = appendStr(b, r.sha)
+	}
+	if rep := r.report; rep != nil {
+		b = appendStr(b, rep.key)
+		b = binary.AppendUvarint(b, uint64(rep.code))
+		b = binary.AppendUvarint(b, uint64(len(rep.errors)))
+		for _, c := range rep.errors {
+			b = appendPos(b, notebook.Pos{Line: c.Line, Col: c.Col})
+			b = appendStr(appendStr(b, c.Old), c.New)
+		}
+	}
+	return b
+}
+
+func appendBool(b []byte, v bool) []byte {
+	if v {
+		return append(b, 1)
+	}
+	return append(b, 0)
+}
+
+func appendPos(b []byte, p notebook.Pos) []byte {
+	b = binary.AppendUvarint(b, uint64(max(p.Line, 0)))
+	return binary.AppendUvarint(b, uint64(max(p.Col, 0)))
+}
+
+func (d *decoder) pos() notebook.Pos {
+	l := d.uvarint()
+	c := d.uvarint()
+	return notebook.Pos{Line: int(l), Col: int(c)}
+}
+
+func (d *decoder) bool() bool { return d.uvarint() == 1 }
+
+// fileRec decodes one record for the file at path p.
+func (d *decoder) fileRec(p string) *fileRec {
+	r := &fileRec{stamp: d.str()}
+	flags := d.uvarint()
+	if flags&hasSummary != 0 {
+		s := &notebook.Summary{Path: p}
+		s.Entry = d.bool()
+		s.ID = d.str()
+		s.Kind = notebook.Kind(d.str())
+		s.IDPos = d.pos()
+		s.MetaPos = d.pos()
+		for range d.count() {
+			l := notebook.Link{Field: d.str(), ID: d.str()}
+			pos := d.pos()
+			l.Line, l.Col = pos.Line, pos.Col
+			s.Links = append(s.Links, l)
+		}
+		for range d.count() {
+			ref := notebook.DataRef{Name: d.str()}
+			pos := d.pos()
+			ref.Line, ref.Col = pos.Line, pos.Col
+			s.Data = append(s.Data, ref)
+		}
+		for range d.count() {
+			pos := d.pos()
+			s.Problems = append(s.Problems, notebook.Problem{Path: p, Line: pos.Line, Col: pos.Col, Msg: d.str()})
+		}
+		s.Fence = d.bool()
+		r.sum = s
+	}
+	if flags&hasDigest != 0 {
+		r.digest = d.str()
+	}
+	if flags&hasSHA != 0 {
+		r.sha = d.str()
+	}
+	if flags&hasReport != 0 {
+		rep := &storedReport{key: d.str(), code: int(d.uvarint())}
+		for range d.count() {
+			pos := d.pos()
+			rep.errors = append(rep.errors, calcblock.Change{Path: p, Line: pos.Line, Col: pos.Col, Old: d.str(), New: d.str()})
+		}
+		r.report = rep
+	}
+	return r
+}
