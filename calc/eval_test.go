@@ -40,7 +40,7 @@ func TestValuesThroughLanguage(t *testing.T) {
 		want       float64
 		tol        float64
 	}{
-		{"§2.1: level degeneracy e B/h per tesla", "e*(1 T)/h", "cm^-2", 2.41799e10, 1e-5},
+		{"W4: level degeneracy e B/h per tesla", "e*(1 T)/h", "cm^-2", 2.41799e10, 1e-5},
 		// CODATA 2018: R_K = h/e^2 exactly = 25812.807459304513 Ohm as a float64.
 		{"R_K is h/e^2", "h/e^2", "Ohm", 25812.807459304513, 1e-15},
 		// CODATA 2018: hbar = h/(2 pi) = 1.0545718176461565e-34 J s.

@@ -461,7 +461,7 @@ func TestMaskGeometry(t *testing.T) {
 		name := get(p, "name").Value
 		pos[name] = qty(t, get(p, "position"))
 		side[name] = get(p, "side").Value
-		// Probe arms narrow, at most W/5 (REFERENCE §6 Hall bar; common practice).
+		// Probe arms narrow, at most W/5 (common practice).
 		if a := qty(t, get(p, "arm_width")); a > w/5 {
 			t.Errorf("%s: arm %g m wider than W/5", name, a)
 		}
@@ -492,7 +492,7 @@ func TestMaskGeometry(t *testing.T) {
 		if got := qtyText(t, r[3]); math.Abs(got-l) > 1e-12 {
 			t.Errorf("%s-%s: table L = %s, front matter gives %g m", a, b, r[3], l)
 		}
-		// rho_xx = R_xx W/L: the squares are L/W (REFERENCE §2.7).
+		// rho_xx = R_xx W/L: the squares are L/W (Hall bar; calc/SOURCES.md [src:IHN2010]).
 		sq, _ := strconv.ParseFloat(r[4], 64)
 		if math.Abs(sq-l/w) > 1e-9 {
 			t.Errorf("%s-%s: table L/W = %s, want %g", a, b, r[4], l/w)
@@ -531,7 +531,7 @@ func TestCooldownExcitation(t *testing.T) {
 	if ideal := v / r; i > ideal || i < 0.99*ideal {
 		t.Errorf("measured current %g A, V/R = %g A", i, ideal)
 	}
-	// REFERENCE §6 (common practice): 10-100 MOhm bias resistor, 1-100 nA
+	// Common practice: 10-100 MOhm bias resistor, 1-100 nA
 	// below 1 K, lock-in at 7-33 Hz away from 50/60 Hz harmonics.
 	if r < 10e6 || r > 100e6 {
 		t.Errorf("bias resistor %g Ohm outside 10-100 MOhm", r)
@@ -604,7 +604,7 @@ func TestWaferLayers(t *testing.T) {
 	if get(fm, "doping_scheme").Value != "delta" || delta == 0 {
 		t.Errorf("doping_scheme %q but delta sheet %g", get(fm, "doping_scheme").Value, delta)
 	}
-	// REFERENCE §6: modulation-doped GaAs wafers usually give 1-4e11 cm^-2;
+	// Modulation-doped GaAs wafers usually give 1-4e11 cm^-2 (common practice);
 	// the design density must not exceed the donor sheet density.
 	n := qty(t, get(fm, "design_density")) / 1e4
 	if n < 1e11 || n > 4e11 || n > delta {

@@ -148,14 +148,14 @@ func TestDivByZero(t *testing.T) {
 }
 
 // TestDerived builds the Hall density n = 1/(e |slope|) through Derived and
-// checks it against REFERENCE row 12 (2080.5 Ohm/T gives 3.0000e11 cm^-2)
+// checks it against [src:W12] (2080.5 Ohm/T gives 3.0000e11 cm^-2)
 // and its uncertainty against the closed form sigma_n = n sigma_s/s.
 func TestDerived(t *testing.T) {
 	slope := Uncertain(2080.5, 20.805, dimResistance.Div(dimField))
 	s := slope.Value()
 	n := Derived(1/(ElementaryCharge*s), Length.Pow(-2), []Quantity{slope}, []float64{-1 / (ElementaryCharge * s * s)})
 	if got, _ := n.In(MustUnit("cm^-2")); !near(got, 3.0000e11, 1e-4) {
-		t.Errorf("n = %g cm^-2, want 3.0000e11 (REFERENCE.md row 12)", got)
+		t.Errorf("n = %g cm^-2, want 3.0000e11 ([src:W12])", got)
 	}
 	if !near(n.Uncertainty()/n.Value(), 0.01, 1e-12) {
 		t.Errorf("relative uncertainty %g, want 0.01", n.Uncertainty()/n.Value())

@@ -15,7 +15,7 @@ import (
 
 // TestSdHBinnedCoverage: long sweeps go through the binned path of SdHDensity
 // (more than sdhRawMax points in the window). Synthetic data from the low-field
-// SdH model (REFERENCE §2.11) with known density: over 50 seeds the true
+// SdH model [src:CSF1989] with known density: over 50 seeds the true
 // density lies within ±2σ in at least 85 % of them, and the reported σ agrees
 // with the actual scatter of the estimates (ratio 0.7–1.4), so binning neither
 // hides nor inflates the uncertainty.
@@ -60,7 +60,7 @@ func TestSdHBinnedCoverage(t *testing.T) {
 // through the binned path, including a high SdH frequency for which the first
 // 4096 bins give fewer than 16 bins per period, so the bins must be refined.
 // The SdH frequency of n = 3e12 cm^-2 with g_s = 2 is h n/(2e) = 62.04 T
-// (closed form, CODATA 2018 h and e; 10× REFERENCE §5 row 15).
+// (closed form, CODATA 2018 h and e; 10× [src:W15]).
 func TestSdHBinnedRecovery(t *testing.T) {
 	t.Parallel()
 	tests := []struct {
@@ -70,7 +70,7 @@ func TestSdHBinnedRecovery(t *testing.T) {
 		tol        float64
 		bins       string // expected in Method
 	}{
-		{"row 15 noise-free, 10^5 points", func(p *SweepParams) { p.Noise, p.Points = 0, 100_001 }, 0.3, 1, 1e-3, "in 4096 bins"},
+		{"W15 ×10 noise-free, 10^5 points", func(p *SweepParams) { p.Noise, p.Points = 0, 100_001 }, 0.3, 1, 1e-3, "in 4096 bins"},
 		{"noisy ±B up-down, 10^5 points", func(p *SweepParams) { p.Noise, p.BStart, p.UpDown, p.Points = 2, -1, true, 50_001 }, 0.3, 1, 0.01, "in 4096 bins"},
 		{"3e12 cm^-2, 62 T, 560 periods", func(p *SweepParams) {
 			p.Density, p.QuantumLifetime, p.Temperature, p.Noise, p.Points = 3e16, 1e-11, 0.05, 0.5, 200_001
