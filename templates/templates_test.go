@@ -3,12 +3,10 @@ package templates
 import (
 	"bytes"
 	"errors"
-	"flag"
 	"fmt"
 	"io/fs"
 	"math"
 	"math/rand/v2"
-	"os"
 	"path"
 	"path/filepath"
 	"regexp"
@@ -25,9 +23,8 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"cleave/calc/quantity"
+	"cleave/internal/testutil"
 )
-
-var update = flag.Bool("update", false, "rewrite the golden files in testdata/")
 
 // goldenData is the fixed input of the golden files: an invented lab's ids
 // and initials.
@@ -66,39 +63,9 @@ func TestGolden(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			path := filepath.Join("testdata", name+".golden")
-			if *update {
-				if err := os.WriteFile(path, got, 0o644); err != nil {
-					t.Fatal(err)
-				}
-				return
-			}
-			want, err := os.ReadFile(path)
-			if err != nil {
-				t.Fatalf("%v (run go test -update to create it)", err)
-			}
-			if !bytes.Equal(got, want) {
-				t.Errorf("Render(%s) differs from %s (run go test -update after checking the change):\n%s", name, path, firstDiff(got, want))
-			}
+			testutil.Golden(t, filepath.Join("testdata", name+".golden"), got)
 		})
 	}
-}
-
-func firstDiff(got, want []byte) string {
-	g, w := strings.Split(string(got), "\n"), strings.Split(string(want), "\n")
-	for i := 0; i < max(len(g), len(w)); i++ {
-		var gl, wl string
-		if i < len(g) {
-			gl = g[i]
-		}
-		if i < len(w) {
-			wl = w[i]
-		}
-		if gl != wl {
-			return fmt.Sprintf("line %d:\n got: %q\nwant: %q", i+1, gl, wl)
-		}
-	}
-	return "(no line differs)"
 }
 
 // A rendered template copied into a notebook's templates/ folder must render
@@ -115,7 +82,7 @@ func TestRenderIsIdempotent(t *testing.T) {
 			t.Fatalf("%s: rendering the rendered output: %v", name, err)
 		}
 		if !bytes.Equal(once, twice) {
-			t.Errorf("%s: second pass changed the output:\n%s", name, firstDiff(twice, once))
+			t.Errorf("%s: second pass changed the output:\n%s", name, testutil.FirstDiff(twice, once))
 		}
 	}
 }

@@ -1,17 +1,11 @@
 package constants
 
 import (
+	"cleave/internal/testutil"
 	"math"
 	"strings"
 	"testing"
 )
-
-func relDiff(got, want float64) float64 {
-	if want == 0 {
-		return math.Abs(got)
-	}
-	return math.Abs(got-want) / math.Abs(want)
-}
 
 // TestValues checks every table entry against its published value.
 func TestValues(t *testing.T) {
@@ -47,10 +41,10 @@ func TestValues(t *testing.T) {
 				t.Fatalf("Lookup(%q) not found", tc.sym)
 			}
 			seen[tc.sym] = true
-			if d := relDiff(c.Value, tc.want); d > tc.tol {
+			if d := testutil.RelDiff(c.Value, tc.want); d > tc.tol {
 				t.Errorf("%s = %.12g, want %.12g (rel diff %.2g > %.2g; %s)", tc.sym, c.Value, tc.want, d, tc.tol, tc.src)
 			}
-			if d := relDiff(c.Uncertainty, tc.unc); d > 1e-12 {
+			if d := testutil.RelDiff(c.Uncertainty, tc.unc); d > 1e-12 {
 				t.Errorf("u(%s) = %g, want %g (%s)", tc.sym, c.Uncertainty, tc.unc, tc.src)
 			}
 			if c.Exact != tc.exact {
@@ -115,7 +109,7 @@ func TestIdentities(t *testing.T) {
 		{"e²/h", e * e / h, 3.874045865e-5, 1e-9, "[src:CODATA2018]"},
 	}
 	for _, tc := range tests {
-		if d := relDiff(tc.got, tc.want); d > tc.relTol {
+		if d := testutil.RelDiff(tc.got, tc.want); d > tc.relTol {
 			t.Errorf("%s: got %.15g, want %.15g (rel diff %.3g > %.3g; %s)", tc.name, tc.got, tc.want, d, tc.relTol, tc.provider)
 		}
 	}

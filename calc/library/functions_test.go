@@ -10,15 +10,8 @@ import (
 
 	"cleave/calc"
 	"cleave/calc/quantity"
+	"cleave/internal/testutil"
 )
-
-// within reports whether got agrees with want to relative tolerance tol.
-func within(got, want, tol float64) bool {
-	if want == 0 {
-		return math.Abs(got) <= tol
-	}
-	return math.Abs(got-want) <= tol*math.Abs(want)
-}
 
 func evalQ(t *testing.T, e *calc.Env, src string) quantity.Quantity {
 	t.Helper()
@@ -88,7 +81,7 @@ func TestFunctionsThroughLanguage(t *testing.T) {
 			if err != nil {
 				t.Fatalf("%s in %s: %v", tc.expr, tc.unit, err)
 			}
-			if !within(got, tc.want, tc.tol) {
+			if !testutil.WithinRel(got, tc.want, tc.tol) {
 				t.Errorf("%s = %.8g %s, want %.8g (tol %g)", tc.expr, got, tc.unit, tc.want, tc.tol)
 			}
 		})
@@ -113,7 +106,7 @@ func TestMeanKeepsCorrelations(t *testing.T) {
 	}
 	for _, tc := range tests {
 		q := evalQ(t, e, tc.expr)
-		if !within(q.Value(), tc.val, 1e-12) || !within(q.Uncertainty(), tc.unc, 1e-12) {
+		if !testutil.WithinRel(q.Value(), tc.val, 1e-12) || !testutil.WithinRel(q.Uncertainty(), tc.unc, 1e-12) {
 			t.Errorf("%s = %g ± %g T, want %g ± %g", tc.expr, q.Value(), q.Uncertainty(), tc.val, tc.unc)
 		}
 	}

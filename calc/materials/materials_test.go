@@ -1,6 +1,7 @@
 package materials
 
 import (
+	"cleave/internal/testutil"
 	"errors"
 	"math"
 	"strings"
@@ -9,13 +10,6 @@ import (
 
 // nan marks a field the table deliberately leaves unset.
 var nan = math.NaN()
-
-func sameFloat(got, want, tol float64) bool {
-	if math.IsNaN(want) {
-		return math.IsNaN(got)
-	}
-	return math.Abs(got-want) <= tol*math.Max(1, math.Abs(want))
-}
 
 // TestTable checks every tabulated value against the primary source named in the comment
 // above its row (keys of calc/SOURCES.md).
@@ -76,7 +70,7 @@ func TestTable(t *testing.T) {
 				if f.field == "Mstar" && w.Name == "In0.53Ga0.47As" {
 					tol = 1e-4
 				}
-				if !sameFloat(f.got, f.want, tol) {
+				if !testutil.Within(f.got, f.want, tol, tol) {
 					t.Errorf("%s.%s = %v, want %v (%s)", tc.name, f.field, f.got, f.want, tc.comment)
 				}
 			}
@@ -97,11 +91,11 @@ func TestTable(t *testing.T) {
 func TestAlGaAsEndPoints(t *testing.T) {
 	g, _ := Lookup("GaAs")
 	a0, err := AlGaAs(0)
-	if err != nil || !sameFloat(a0.Mstar, g.Mstar, 1e-12) || !sameFloat(a0.EpsR, 12.90, 1e-12) {
+	if err != nil || !testutil.Within(a0.Mstar, g.Mstar, 1e-12, 1e-12) || !testutil.Within(a0.EpsR, 12.90, 1e-12, 1e-12) {
 		t.Errorf("AlGaAs(0) = %+v, %v; want GaAs mass %v, eps 12.90", a0, err, g.Mstar)
 	}
 	a1, err := AlGaAs(1)
-	if err != nil || !sameFloat(a1.Mstar, 0.15, 1e-12) || !sameFloat(a1.EpsR, 10.06, 1e-12) {
+	if err != nil || !testutil.Within(a1.Mstar, 0.15, 1e-12, 1e-12) || !testutil.Within(a1.EpsR, 10.06, 1e-12, 1e-12) {
 		t.Errorf("AlGaAs(1) = %+v, %v; want mass 0.15, eps 10.06", a1, err)
 	}
 	// The end points are exact, not merely within rounding: the band solver takes its GaAs
@@ -158,7 +152,7 @@ func TestParseAlloy(t *testing.T) {
 	}
 	for _, tc := range tests {
 		el, x, err := ParseAlloy(tc.in)
-		if err != nil || el != tc.elements || !sameFloat(x, tc.x, 1e-15) {
+		if err != nil || el != tc.elements || !testutil.Within(x, tc.x, 1e-15, 1e-15) {
 			t.Errorf("ParseAlloy(%q) = %q, %v, %v; want %q, %v", tc.in, el, x, err, tc.elements, tc.x)
 		}
 	}

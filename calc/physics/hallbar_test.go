@@ -2,17 +2,14 @@ package physics
 
 import (
 	"errors"
-	"flag"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
 	"cleave/calc/quantity"
+	"cleave/internal/testutil"
 )
-
-var update = flag.Bool("update", false, "rewrite the golden files in testdata")
 
 func probe(name string, pos, arm float64, side string) Probe {
 	return Probe{Name: name, Position: q(pos, "um"), ArmWidth: q(arm, "um"), Side: side}
@@ -154,17 +151,5 @@ func TestWarningsGolden(t *testing.T) {
 		}
 		b.WriteString("\n")
 	}
-	path := filepath.Join("testdata", "warnings.golden")
-	if *update {
-		if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if got := b.String(); got != string(want) {
-		t.Errorf("warnings differ from %s:\ngot:\n%s\nwant:\n%s", path, got, want)
-	}
+	testutil.GoldenString(t, filepath.Join("testdata", "warnings.golden"), b.String())
 }

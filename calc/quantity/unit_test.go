@@ -1,6 +1,7 @@
 package quantity
 
 import (
+	"cleave/internal/testutil"
 	"errors"
 	"fmt"
 	"math"
@@ -114,7 +115,7 @@ func TestUnitTable(t *testing.T) {
 			if u.D != tt.d {
 				t.Errorf("dimension %v, want %v (%s)", u.D, tt.d, tt.source)
 			}
-			if !near(u.Scale, tt.si, 4e-16) {
+			if !testutil.WithinRel(u.Scale, tt.si, 4e-16) {
 				t.Errorf("scale %.17g, want %.17g (%s)", u.Scale, tt.si, tt.source)
 			}
 		})
@@ -136,7 +137,7 @@ func TestDerivedUnitIdentities(t *testing.T) {
 		if err1 != nil || err2 != nil {
 			t.Fatalf("%v %v", err1, err2)
 		}
-		if a.D != b.D || !near(a.Scale, b.Scale, 1e-15) {
+		if a.D != b.D || !testutil.WithinRel(a.Scale, b.Scale, 1e-15) {
 			t.Errorf("%s = %v×%g, %s = %v×%g", p[0], a.D, a.Scale, p[1], b.D, b.Scale)
 		}
 	}
@@ -206,7 +207,7 @@ func TestMustUnitPanics(t *testing.T) {
 func TestIn(t *testing.T) {
 	// 1 T = 1e4 G ([CGS]).
 	b := New(1, dimField)
-	if got, err := b.In(MustUnit("G")); err != nil || !near(got, 1e4, 1e-15) {
+	if got, err := b.In(MustUnit("G")); err != nil || !testutil.WithinRel(got, 1e4, 1e-15) {
 		t.Errorf("1 T in G = %g, %v", got, err)
 	}
 	if _, err := b.In(MustUnit("m")); !errors.Is(err, ErrDimMismatch) {
@@ -228,21 +229,21 @@ func TestTradeChecks(t *testing.T) {
 
 	// [src:W3]: hbar e B/m* at 1 T with m* = 0.067 m_e is 1.72788 meV.
 	E := Div(Mul(New(hbar, dimEnergy.Mul(Time)), Mul(charge, q("1 T"))), q("0.067 m_e"))
-	if got := in(E, "meV"); !near(got, 1.72788, 1e-5) {
+	if got := in(E, "meV"); !testutil.WithinRel(got, 1.72788, 1e-5) {
 		t.Errorf("hbar omega_c = %g meV, want 1.72788", got)
 	}
 	// [src:W9]: mu = 1/(e n rho) with n = 3e11 cm^-2, rho = 10 Ohm is 2.0805e6 cm^2/(V s).
 	mu := Div(Scalar(1), Mul(charge, Mul(q("3e11 cm^-2"), q("10 Ohm"))))
-	if got := in(mu, "cm^2/(V s)"); !near(got, 2.0805e6, 1e-4) {
+	if got := in(mu, "cm^2/(V s)"); !testutil.WithinRel(got, 2.0805e6, 1e-4) {
 		t.Errorf("mu = %g cm^2/(V s), want 2.0805e6", got)
 	}
 	// [src:W4]: nu = n h/(e B) at 5 T is 2.4814, dimensionless.
 	nu := Div(Mul(q("3e11 cm^-2"), New(h, dimEnergy.Mul(Time))), Mul(charge, q("50 kG")))
-	if !nu.Dim().IsDimensionless() || !near(nu.Value(), 2.4814, 1e-4) {
+	if !nu.Dim().IsDimensionless() || !testutil.WithinRel(nu.Value(), 2.4814, 1e-4) {
 		t.Errorf("nu = %v, want 2.4814", nu)
 	}
 	// [src:W15]: Delta(1/B) = 0.161199 T^-1, asked for explicitly.
-	if got := in(q("1612.0 cm^2/(V s)"), "T^-1"); !near(got, 0.16120, 1e-12) {
+	if got := in(q("1612.0 cm^2/(V s)"), "T^-1"); !testutil.WithinRel(got, 0.16120, 1e-12) {
 		t.Errorf("1612 cm^2/(V s) in T^-1 = %g", got)
 	}
 }
@@ -327,7 +328,7 @@ func TestUnitCompositionProperty(t *testing.T) {
 		if err != nil {
 			t.Fatalf("ParseUnit(%q): %v", in, err)
 		}
-		if u.D != d || !near(u.Scale, scale, 1e-13) {
+		if u.D != d || !testutil.WithinRel(u.Scale, scale, 1e-13) {
 			t.Fatalf("ParseUnit(%q) = %v × %g, want %v × %g", in, u.D, u.Scale, d, scale)
 		}
 	}

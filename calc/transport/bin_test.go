@@ -11,6 +11,8 @@ import (
 	"strings"
 	"testing"
 	"testing/iotest"
+
+	"gonum.org/v1/gonum/floats"
 )
 
 // TestSdHBinnedCoverage: long sweeps go through the binned path of SdHDensity
@@ -117,25 +119,13 @@ func TestSelectPairs(t *testing.T) {
 	}
 	for _, tc := range tests {
 		bx, by, bs := selectPairs(x, y, tc.sig, 0.5, 2)
-		if !equalNaN(bx, tc.wx) || !equalNaN(by, tc.wy) || !equalNaN(bs, tc.ws) || (tc.sig == nil) != (bs == nil) {
+		if !floats.Same(bx, tc.wx) || !floats.Same(by, tc.wy) || !floats.Same(bs, tc.ws) || (tc.sig == nil) != (bs == nil) {
 			t.Errorf("%s: selectPairs = %v %v %v, want %v %v %v", tc.name, bx, by, bs, tc.wx, tc.wy, tc.ws)
 		}
 	}
 	if ax, ay, as := selectPairs(x, y, s, 5, 6); ax != nil || ay != nil || as != nil {
 		t.Errorf("empty selection = %v %v %v, want nil slices", ax, ay, as)
 	}
-}
-
-func equalNaN(a, b []float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] && !(math.IsNaN(a[i]) && math.IsNaN(b[i])) {
-			return false
-		}
-	}
-	return true
 }
 
 // TestScanFloatMatchesStrconv: whenever the fast path of the row parser accepts
@@ -270,7 +260,7 @@ func TestReadSizeHint(t *testing.T) {
 				t.Errorf("%d rows, %s: %d rows, hash %s; want %d, %s", rows, name, got.Len(), got.Hash, want.Len(), want.Hash)
 			}
 			for c := range want.Columns {
-				if !equalNaN(got.Columns[c].Values, want.Columns[c].Values) {
+				if !floats.Same(got.Columns[c].Values, want.Columns[c].Values) {
 					t.Errorf("%d rows, %s: column %s differs", rows, name, want.Columns[c].Name)
 				}
 				if v := got.Columns[c].Values; cap(v) != len(v) {
