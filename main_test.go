@@ -173,7 +173,7 @@ func TestEvalJSON(t *testing.T) {
 		unit       string
 		unc        bool
 	}{
-		// REFERENCE.md §5 row 1: l_B(1 T) = 25.6556 nm from CODATA 2018 hbar and e.
+		// l_B(1 T) = 25.6556 nm from CODATA 2018 hbar and e ([src:W1] in calc/SOURCES.md).
 		{"magnetic length", "magnetic_length(1 T)", 25.6556e-9, 1e-4, "m", false},
 		// Row 3: hbar omega_c at 1 T for m* = 0.067 m_e is 1.72788 meV.
 		{"cyclotron energy", "cyclotron_energy(1 T, 0.067 m_e)", 1.72788e-3 * 1.602176634e-19, 1e-4, "kg m^2 s^-2", false},

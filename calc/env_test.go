@@ -14,6 +14,7 @@ import (
 	"testing/fstest"
 
 	"cleave/calc/quantity"
+	"cleave/internal/testutil"
 )
 
 // mapResolver is a notebook stand-in: an invented device D-7 on piece P-3 of wafer W-2.
@@ -63,7 +64,7 @@ func TestDeps(t *testing.T) {
 		t.Errorf("Deps() = %v, want %v", got, want)
 	}
 	q := evalQ(t, e, "r")
-	if got, _ := q.In(quantity.MustUnit("Ohm")); !within(got, 10, 1e-12) {
+	if got, _ := q.In(quantity.MustUnit("Ohm")); !testutil.WithinRel(got, 10, 1e-12) {
 		t.Errorf("r = %g Ohm, want 10 (50 Ohm over 5 squares)", got)
 	}
 	// A misspelt field names the record and suggests the right one.

@@ -5,12 +5,10 @@ import (
 
 	"bytes"
 	"errors"
-	"flag"
 	"fmt"
 	"io/fs"
 	"math"
 	"math/rand/v2"
-	"os"
 	"path"
 	"path/filepath"
 	"regexp"
@@ -27,9 +25,8 @@ import (
 	"go.yaml.in/yaml/v3"
 
 	"cleave/calc/quantity"
+	"cleave/internal/testutil"
 )
-
-var update = flag.Bool("update", false, "rewrite the golden files in testdata/")
 
 // goldenData is the fixed input of the golden files: an invented lab's ids
 // and initials.
@@ -74,39 +71,9 @@ func TestGolden(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			path := filepath.Join("testdata", name+".golden")
-			if *update {
-				if err := os.WriteFile(path, got, 0o644); err != nil {
-					t.Fatal(err)
-				}
-				return
-			}
-			want, err := os.ReadFile(path)
-			if err != nil {
-				t.Fatalf("%v (run go test -update to create it)", err)
-			}
-			if !bytes.Equal(got, want) {
-				t.Errorf("Render(%s) differs from %s (run go test -update after checking the change):\n%s", name, path, firstDiff(got, want))
-			}
+			testutil.Golden(t, filepath.Join("testdata", name+".golden"), got)
 		})
 	}
-}
-
-func firstDiff(got, want []byte) string {
-	g, w := strings.Split(string(got), "\n"), strings.Split(string(want), "\n")
-	for i := 0; i < max(len(g), len(w)); i++ {
-		var gl, wl string
-		if i < len(g) {
-			gl = g[i]
-		}
-		if i < len(w) {
-			wl = w[i]
-		}
-		if gl != wl {
-			return fmt.Sprintf("line %d:\n got: %q\nwant: %q", i+1, gl, wl)
-		}
-	}
-	return "(no line differs)"
 }
 
 // A rendered template copied into a notebook's templates/ folder must render
@@ -123,7 +90,7 @@ func TestRenderIsIdempotent(t *testing.T) {
 			t.Fatalf("%s: rendering the rendered output: %v", name, err)
 		}
 		if !bytes.Equal(once, twice) {
-			t.Errorf("%s: second pass changed the output:\n%s", name, firstDiff(twice, once))
+			t.Errorf("%s: second pass changed the output:\n%s", name, testutil.FirstDiff(twice, once))
 		}
 	}
 }
@@ -469,7 +436,7 @@ func TestMaskGeometry(t *testing.T) {
 		name := get(p, "name").Value
 		pos[name] = qty(t, get(p, "position"))
 		side[name] = get(p, "side").Value
-		// Probe arms narrow, at most W/5 (REFERENCE §6 Hall bar; common practice).
+		// Probe arms narrow, at most W/5 (common practice).
 		if a := qty(t, get(p, "arm_width")); a > w/5 {
 			t.Errorf("%s: arm %g m wider than W/5", name, a)
 		}
@@ -500,7 +467,7 @@ func TestMaskGeometry(t *testing.T) {
 		if got := qtyText(t, r[3]); math.Abs(got-l) > 1e-12 {
 			t.Errorf("%s-%s: table L = %s, front matter gives %g m", a, b, r[3], l)
 		}
-		// rho_xx = R_xx W/L: the squares are L/W (REFERENCE §2.7).
+		// rho_xx = R_xx W/L: the squares are L/W (Hall bar; calc/SOURCES.md [src:IHN2010]).
 		sq, _ := strconv.ParseFloat(r[4], 64)
 		if math.Abs(sq-l/w) > 1e-9 {
 			t.Errorf("%s-%s: table L/W = %s, want %g", a, b, r[4], l/w)
@@ -539,7 +506,7 @@ func TestCooldownExcitation(t *testing.T) {
 	if ideal := v / r; i > ideal || i < 0.99*ideal {
 		t.Errorf("measured current %g A, V/R = %g A", i, ideal)
 	}
-	// REFERENCE §6 (common practice): 10-100 MOhm bias resistor, 1-100 nA
+	// Common practice: 10-100 MOhm bias resistor, 1-100 nA
 	// below 1 K, lock-in at 7-33 Hz away from 50/60 Hz harmonics.
 	if r < 10e6 || r > 100e6 {
 		t.Errorf("bias resistor %g Ohm outside 10-100 MOhm", r)
@@ -612,7 +579,7 @@ func TestWaferLayers(t *testing.T) {
 	if get(fm, "doping_scheme").Value != "delta" || delta == 0 {
 		t.Errorf("doping_scheme %q but delta sheet %g", get(fm, "doping_scheme").Value, delta)
 	}
-	// REFERENCE §6: modulation-doped GaAs wafers usually give 1-4e11 cm^-2;
+	// Modulation-doped GaAs wafers usually give 1-4e11 cm^-2 (common practice);
 	// the design density must not exceed the donor sheet density.
 	n := qty(t, get(fm, "design_density")) / 1e4
 	if n < 1e11 || n > 4e11 || n > delta {

@@ -1,17 +1,11 @@
 package constants
 
 import (
+	"cleave/internal/testutil"
 	"math"
 	"strings"
 	"testing"
 )
-
-func relDiff(got, want float64) float64 {
-	if want == 0 {
-		return math.Abs(got)
-	}
-	return math.Abs(got-want) / math.Abs(want)
-}
 
 // TestValues checks every table entry against its published value.
 func TestValues(t *testing.T) {
@@ -23,21 +17,21 @@ func TestValues(t *testing.T) {
 		tol   float64 // relative
 		src   string
 	}{
-		{"e", 1.602176634e-19, 0, true, 0, "CODATA 2018, exact (REFERENCE.md §1 [S])"},
-		{"h", 6.62607015e-34, 0, true, 0, "CODATA 2018, exact (REFERENCE.md §1 [S])"},
-		{"hbar", 1.0545718176461565e-34, 0, true, 1e-15, "CODATA 2018 h/2π; float64 value computed in REFERENCE.md §1 [C]"},
-		{"k_B", 1.380649e-23, 0, true, 0, "CODATA 2018, exact (REFERENCE.md §1 [S])"},
+		{"e", 1.602176634e-19, 0, true, 0, "CODATA 2018, exact [src:CODATA2018]"},
+		{"h", 6.62607015e-34, 0, true, 0, "CODATA 2018, exact [src:CODATA2018]"},
+		{"hbar", 1.0545718176461565e-34, 0, true, 1e-15, "CODATA 2018 h/2π, the float64 nearest the exact value [src:CODATA2018]"},
+		{"k_B", 1.380649e-23, 0, true, 0, "CODATA 2018, exact [src:CODATA2018]"},
 		{"c", 299792458, 0, true, 0, "SI definition of the metre, exact (from memory)"},
 		{"N_A", 6.02214076e23, 0, true, 0, "SI 2019 defining constant, exact (from memory)"},
-		{"m_e", 9.1093837015e-31, 2.8e-40, false, 0, "CODATA 2018 value (REFERENCE.md §1 [S]); uncertainty (28) from memory"},
-		{"eps0", 8.8541878128e-12, 1.3e-21, false, 0, "CODATA 2018, 8.8541878128(13)e-12 F/m (REFERENCE.md §1 [S])"},
+		{"m_e", 9.1093837015e-31, 2.8e-40, false, 0, "CODATA 2018 value [src:CODATA2018]; uncertainty (28) from memory"},
+		{"eps0", 8.8541878128e-12, 1.3e-21, false, 0, "CODATA 2018, 8.8541878128(13)e-12 F/m [src:CODATA2018]"},
 		{"mu0", 1.25663706212e-6, 1.9e-16, false, 0, "CODATA 2018, 1.25663706212(19)e-6 N/A^2 (from memory)"},
-		{"mu_B", 9.2740100783e-24, 2.8e-33, false, 0, "CODATA 2018, 9.2740100783(28)e-24 J/T (REFERENCE.md §1 [S])"},
-		{"R_K", 25812.807459304513, 0, true, 1e-15, "h/e^2, float64 value in REFERENCE.md §1 [C]"},
-		{"R_K90", 25812.807, 0, true, 0, "CIPM 1988 Recommendation 2 (REFERENCE.md §1 [S])"},
-		{"h_e", 4.135667696e-15, 0, true, 1e-9, "h/e, REFERENCE.md §1 [S][C] (printed to 10 digits)"},
-		{"Phi_0", 2.067833848e-15, 0, true, 1e-9, "h/2e, REFERENCE.md §1 [S] (printed to 10 digits)"},
-		{"G_0", 7.748091729e-5, 0, true, 1e-9, "2e^2/h, REFERENCE.md §1 [S][C] (printed to 10 digits)"},
+		{"mu_B", 9.2740100783e-24, 2.8e-33, false, 0, "CODATA 2018, 9.2740100783(28)e-24 J/T [src:CODATA2018]"},
+		{"R_K", 25812.807459304513, 0, true, 1e-15, "h/e^2 from CODATA 2018 e and h, as a float64 [src:CODATA2018]"},
+		{"R_K90", 25812.807, 0, true, 0, "CIPM 1988 Recommendation 2 [src:CIPM1988]"},
+		{"h_e", 4.135667696e-15, 0, true, 1e-9, "h/e from CODATA 2018, to 10 digits [src:CODATA2018]"},
+		{"Phi_0", 2.067833848e-15, 0, true, 1e-9, "h/2e from CODATA 2018, to 10 digits [src:CODATA2018]"},
+		{"G_0", 7.748091729e-5, 0, true, 1e-9, "2e^2/h from CODATA 2018, to 10 digits [src:CODATA2018]"},
 	}
 	seen := map[string]bool{}
 	for _, tc := range tests {
@@ -47,10 +41,10 @@ func TestValues(t *testing.T) {
 				t.Fatalf("Lookup(%q) not found", tc.sym)
 			}
 			seen[tc.sym] = true
-			if d := relDiff(c.Value, tc.want); d > tc.tol {
+			if d := testutil.RelDiff(c.Value, tc.want); d > tc.tol {
 				t.Errorf("%s = %.12g, want %.12g (rel diff %.2g > %.2g; %s)", tc.sym, c.Value, tc.want, d, tc.tol, tc.src)
 			}
-			if d := relDiff(c.Uncertainty, tc.unc); d > 1e-12 {
+			if d := testutil.RelDiff(c.Uncertainty, tc.unc); d > 1e-12 {
 				t.Errorf("u(%s) = %g, want %g (%s)", tc.sym, c.Uncertainty, tc.unc, tc.src)
 			}
 			if c.Exact != tc.exact {
@@ -71,7 +65,8 @@ func TestValues(t *testing.T) {
 	}
 }
 
-// TestIdentities checks exact SI relations between constants (STYLE.md §6 "Tests").
+// TestIdentities checks exact SI relations between constants: the 2019 SI fixes e, h and
+// k_B exactly, so relations among them hold exactly [src:SI2019].
 func TestIdentities(t *testing.T) {
 	get := func(s string) Constant {
 		c, ok := Lookup(s)
@@ -104,17 +99,17 @@ func TestIdentities(t *testing.T) {
 			3 * math.Hypot(muB.RelativeUncertainty(), me.RelativeUncertainty()), "definition; CODATA 2018"},
 		// R = N_A k_B = 8.314462618... J/(mol K), exact (CODATA 2018, from memory).
 		{"N_A k_B = R", get("N_A").Value * get("k_B").Value, 8.314462618, 1e-9, "CODATA 2018 (from memory)"},
-		// R_K relative to R_K-90: +1.7794e-8 (REFERENCE.md §1 [C]).
-		{"(R_K − R_K-90)/R_K-90", (get("R_K").Value - get("R_K90").Value) / get("R_K90").Value, 1.7794e-8, 1e-4, "REFERENCE.md §1 [C]"},
-		// k_B in meV/K: 0.0861733 (REFERENCE.md §1 [C]).
-		{"k_B/e in meV/K", get("k_B").Value / e * 1e3, 0.0861733, 1e-6, "REFERENCE.md §1 [C]"},
-		// mu_B/k_B = 0.67171381563 K/T (REFERENCE.md §1 [S]).
-		{"μ_B/k_B", muB.Value / get("k_B").Value, 0.67171381563, 1e-10, "REFERENCE.md §1 [S]"},
-		// e^2/h = 3.874045865e-5 S (REFERENCE.md §1 [S][C]).
-		{"e²/h", e * e / h, 3.874045865e-5, 1e-9, "REFERENCE.md §1"},
+		// R_K relative to R_K-90: +1.7794e-8, computed from CODATA 2018 and CIPM 1988 [src:CODATA2018].
+		{"(R_K − R_K-90)/R_K-90", (get("R_K").Value - get("R_K90").Value) / get("R_K90").Value, 1.7794e-8, 1e-4, "[src:CODATA2018], [src:CIPM1988]"},
+		// k_B in meV/K: 0.0861733, computed from CODATA 2018 k_B and e [src:CODATA2018].
+		{"k_B/e in meV/K", get("k_B").Value / e * 1e3, 0.0861733, 1e-6, "[src:CODATA2018]"},
+		// mu_B/k_B = 0.67171381563 K/T (CODATA 2018 [src:CODATA2018]).
+		{"μ_B/k_B", muB.Value / get("k_B").Value, 0.67171381563, 1e-10, "[src:CODATA2018]"},
+		// e^2/h = 3.874045865e-5 S (CODATA 2018 [src:CODATA2018]).
+		{"e²/h", e * e / h, 3.874045865e-5, 1e-9, "[src:CODATA2018]"},
 	}
 	for _, tc := range tests {
-		if d := relDiff(tc.got, tc.want); d > tc.relTol {
+		if d := testutil.RelDiff(tc.got, tc.want); d > tc.relTol {
 			t.Errorf("%s: got %.15g, want %.15g (rel diff %.3g > %.3g; %s)", tc.name, tc.got, tc.want, d, tc.relTol, tc.provider)
 		}
 	}

@@ -99,7 +99,7 @@ func TestAnalysesRecoverTruth(t *testing.T) {
 		{"lk.mass_ratio", 0.067, 0.005},
 		{"lk2.mass_ratio", 0.067, 0.005},
 		{"tq.tau_q", 1.5e-12, 0.03},
-		// tau_t = mu m*/e (REFERENCE §2.5) and the Dingle ratio tau_t/tau_q with the truth above.
+		// tau_t = mu m*/e [src:AFS1982] and the Dingle ratio tau_t/tau_q with the truth above.
 		{"tq.dingle_ratio", 120 * 0.067 * 9.1093837015e-31 / 1.602176634e-19 / 1.5e-12, 0.04},
 	}
 	for _, c := range checks {
@@ -116,7 +116,7 @@ func TestAnalysesRecoverTruth(t *testing.T) {
 		t.Errorf("plateaus: %s", calc.Display(v))
 	}
 	if dev := value(t, e, "qh.max_deviation"); dev.Q.Value() > 1e-3 {
-		t.Errorf("plateau deviation %g > 1e-3 (REFERENCE §6)", dev.Q.Value())
+		t.Errorf("plateau deviation %g > 1e-3 (the warning bound, common practice)", dev.Q.Value())
 	}
 }
 
@@ -126,13 +126,13 @@ func TestClosedFormAnalyses(t *testing.T) {
 		expr      string
 		want, tol float64
 	}{
-		// REFERENCE §5 row 24: d = 100 nm, eps_r = 12.9 gives C = 114.22 nF/cm^2 =
+		// [src:W24]: d = 100 nm, eps_r = 12.9 gives C = 114.22 nF/cm^2 =
 		// 1.1422e-3 F/m^2 and dn/dV = 7.1290e11 cm^-2/V; the line through these points has them.
 		{"gate_capacitance([0.1 V, 0.2 V, 0.3 V, 0.4 V], [0.71290e11 cm^-2, 1.42580e11 cm^-2, 2.13870e11 cm^-2, 2.85160e11 cm^-2]).C", 1.1422e-3, 1e-4},
 		{"gate_capacitance([0.1 V, 0.2 V, 0.3 V, 0.4 V], [0.71290e11 cm^-2, 1.42580e11 cm^-2, 2.13870e11 cm^-2, 2.85160e11 cm^-2]).threshold", 0, 1e-9},
-		// Row 12: a Hall slope of 2080.5 Ohm/T is n = 3.0000e11 cm^-2; from ±B readings at 1 T.
+		// [src:W12]: a Hall slope of 2080.5 Ohm/T is n = 3.0000e11 cm^-2; from ±B readings at 1 T.
 		{"vdp_hall_density(1 T, 2080.5 Ohm, -2080.5 Ohm).n", 3e15, 1e-4},
-		// Row 5: nu = 2 at 6.2035 T and nu = 1 at 12.407 T for n = 3e11 cm^-2.
+		// [src:W5]: nu = 2 at 6.2035 T and nu = 1 at 12.407 T for n = 3e11 cm^-2.
 		{"landau_fan([12.407 T, 6.2035 T, 4.1357 T], [1, 2, 3]).n", 3e15, 1e-4},
 		// mu ∝ n^1.5 exactly.
 		{"mobility_power_law([1e11 cm^-2, 2e11 cm^-2, 4e11 cm^-2], [1e6 cm^2/(V s), 2.8284271e6 cm^2/(V s), 8e6 cm^2/(V s)]).alpha", 1.5, 1e-6},

@@ -53,10 +53,11 @@ func TestAnalyticBeyondDonors(t *testing.T) {
 	}
 }
 
-// expected_density on a delta-doped stack like REFERENCE §5 row 25's example (Al0.3Ga0.7As,
-// a Si sheet 30 nm above the interface, here under a 60 nm barrier and cap with a pinned
-// surface): deeper donors leave fewer electrons in the well (REFERENCE §3.3: n falls as E_D'
-// rises), and the self-consistent and analytic densities stay within 10 % of each other.
+// expected_density on a delta-doped stack like the example of [src:W25] (Al0.3Ga0.7As, a Si
+// sheet 30 nm above the interface, here under a 60 nm barrier and cap with a pinned
+// surface): deeper donors leave fewer electrons in the well (n falls as E_D' rises in the
+// energy balance of [src:STERN1983]), and the self-consistent and analytic densities stay
+// within 10 % of each other.
 func TestExpectedDensityDonorDepth(t *testing.T) {
 	e := NewEnv()
 	stack := layerTable([][4]string{

@@ -10,15 +10,8 @@ import (
 
 	"cleave/calc"
 	"cleave/calc/quantity"
+	"cleave/internal/testutil"
 )
-
-// within reports whether got agrees with want to relative tolerance tol.
-func within(got, want, tol float64) bool {
-	if want == 0 {
-		return math.Abs(got) <= tol
-	}
-	return math.Abs(got-want) <= tol*math.Abs(want)
-}
 
 func evalQ(t *testing.T, e *calc.Env, src string) quantity.Quantity {
 	t.Helper()
@@ -34,10 +27,10 @@ func evalQ(t *testing.T, e *calc.Env, src string) quantity.Quantity {
 }
 
 // TestFunctionsThroughLanguage evaluates the functions as a user writes them and checks the
-// worked values. Unless noted, the expected values are REFERENCE.md §5, computed from CODATA
-// 2018 with the closed forms of Ando, Fowler, Stern, Rev. Mod. Phys. 54, 437 (1982) and the
-// cited textbooks; the row number is given. They carry 5-6 significant figures, so the
-// tolerance is 1e-4 relative.
+// worked values. Unless noted, the expected values are W1–W28 of calc/SOURCES.md (a case
+// named "W9" is [src:W9]), computed from CODATA 2018 with the closed forms of Ando, Fowler,
+// Stern, Rev. Mod. Phys. 54, 437 (1982) and the textbooks listed there. They carry 5-6
+// significant figures, so the tolerance is 1e-4 relative.
 func TestFunctionsThroughLanguage(t *testing.T) {
 	tests := []struct {
 		name, expr string
@@ -45,30 +38,30 @@ func TestFunctionsThroughLanguage(t *testing.T) {
 		want       float64
 		tol        float64
 	}{
-		{"row 1: l_B at 1 T", "magnetic_length(1 T)", "nm", 25.6556, 1e-5},
-		{"row 2: l_B at 10 T", "magnetic_length(B=10 T)", "nm", 8.11303, 1e-5},
-		{"row 3: hbar omega_c GaAs at 1 T", "cyclotron_energy(1 T, GaAs)", "meV", 1.72788, 1e-5},
-		{"row 3: omega_c GaAs at 1 T", "cyclotron_frequency(1 T, 0.067 m_e)", "s^-1", 2.6251e12, 1e-4},
-		{"row 3: half of hbar omega_c is the N=0 level", "landau_level(0, 1 T, GaAs.mstar)", "meV", 1.72788 / 2, 1e-5},
-		{"row 4: nu at 5 T", "filling_factor(3e11 cm^-2, 5 T)", "", 2.4814, 1e-4},
-		{"row 5: B at nu=1", "field_at_filling(3e11 cm^-2, 1)", "T", 12.407, 1e-4},
-		{"row 5: B at nu=2", "field_at_filling(3e11 cm^-2, nu=2)", "T", 6.2035, 1e-4},
-		{"row 6: E_F GaAs", "fermi_energy(3e11 cm^-2, 0.067 m_e)", "meV", 10.719, 1e-4},
-		{"row 7: k_F", "fermi_wavevector(3e11 cm^-2)", "m^-1", 1.37294e8, 1e-5},
-		{"row 7: v_F", "fermi_velocity(3e11 cm^-2, GaAs)", "m/s", 2.3723e5, 1e-4},
-		{"row 9: mobility from rho = 50 Ohm * 100 um/500 um", "mobility(sheet_resistance(50 Ohm, 500 um/100 um), 3e11 cm^-2)", "cm^2/(V s)", 2.0805e6, 1e-4},
-		{"row 10: tau_t", "transport_time(1e6 cm^2/(V s), 0.067 m_e)", "ps", 38.094, 1e-4},
-		{"row 11: mean free path", "mean_free_path(1e6 cm^2/(V s), 3e11 cm^-2)", "um", 9.0368, 1e-4},
-		{"row 13: van der Pauw symmetric", "vdp_sheet_resistance(10 Ohm, 10 Ohm)", "Ohm", 45.3236, 1e-5},
-		{"row 14: van der Pauw 10/20", "vdp_sheet_resistance(10 Ohm, 20 Ohm)", "Ohm", 65.285, 1e-4},
-		{"row 15: SdH frequency", "sdh_frequency(3e11 cm^-2)", "T", 6.2035, 1e-4},
-		{"row 18: Zeeman, |g| = 0.44", "zeeman_energy(1 T, 0.44)", "ueV", 25.469, 1e-4},
-		{"row 19: R_K/2", "hall_resistance(2)", "Ohm", 12906.403730, 1e-9},
-		{"row 26: graphene N=1 at 1 T", "dirac_landau_level(1, 1 T, graphene)", "meV", 36.283, 1e-4},
-		{"row 26: graphene N=1 at 10 T", "dirac_landau_level(1, 10 T, 1e6 m/s)", "meV", 114.74, 1e-4},
-		{"row 27: Si(100) E_F with gv=2", "fermi_energy(1e12 cm^-2, 0.19 m_e, gv=2)", "meV", 6.2997, 1e-4},
-		{"row 28: Ge holes E_F", "fermi_energy(2.2e11 cm^-2, 0.061 m_e)", "meV", 8.6337, 1e-4},
-		{"§2.6: Hall density from a 2080.5 Ohm/T slope", "density_from_slope(2080.5 Ohm/T)", "cm^-2", 3.0000e11, 1e-4},
+		{"W1: l_B at 1 T", "magnetic_length(1 T)", "nm", 25.6556, 1e-5},
+		{"W2: l_B at 10 T", "magnetic_length(B=10 T)", "nm", 8.11303, 1e-5},
+		{"W3: hbar omega_c GaAs at 1 T", "cyclotron_energy(1 T, GaAs)", "meV", 1.72788, 1e-5},
+		{"W3: omega_c GaAs at 1 T", "cyclotron_frequency(1 T, 0.067 m_e)", "s^-1", 2.6251e12, 1e-4},
+		{"W3: half of hbar omega_c is the N=0 level", "landau_level(0, 1 T, GaAs.mstar)", "meV", 1.72788 / 2, 1e-5},
+		{"W4: nu at 5 T", "filling_factor(3e11 cm^-2, 5 T)", "", 2.4814, 1e-4},
+		{"W5: B at nu=1", "field_at_filling(3e11 cm^-2, 1)", "T", 12.407, 1e-4},
+		{"W5: B at nu=2", "field_at_filling(3e11 cm^-2, nu=2)", "T", 6.2035, 1e-4},
+		{"W6: E_F GaAs", "fermi_energy(3e11 cm^-2, 0.067 m_e)", "meV", 10.719, 1e-4},
+		{"W7: k_F", "fermi_wavevector(3e11 cm^-2)", "m^-1", 1.37294e8, 1e-5},
+		{"W7: v_F", "fermi_velocity(3e11 cm^-2, GaAs)", "m/s", 2.3723e5, 1e-4},
+		{"W9: mobility from rho = 50 Ohm * 100 um/500 um", "mobility(sheet_resistance(50 Ohm, 500 um/100 um), 3e11 cm^-2)", "cm^2/(V s)", 2.0805e6, 1e-4},
+		{"W10: tau_t", "transport_time(1e6 cm^2/(V s), 0.067 m_e)", "ps", 38.094, 1e-4},
+		{"W11: mean free path", "mean_free_path(1e6 cm^2/(V s), 3e11 cm^-2)", "um", 9.0368, 1e-4},
+		{"W13: van der Pauw symmetric", "vdp_sheet_resistance(10 Ohm, 10 Ohm)", "Ohm", 45.3236, 1e-5},
+		{"W14: van der Pauw 10/20", "vdp_sheet_resistance(10 Ohm, 20 Ohm)", "Ohm", 65.285, 1e-4},
+		{"W15: SdH frequency", "sdh_frequency(3e11 cm^-2)", "T", 6.2035, 1e-4},
+		{"W18: Zeeman, |g| = 0.44", "zeeman_energy(1 T, 0.44)", "ueV", 25.469, 1e-4},
+		{"W19: R_K/2", "hall_resistance(2)", "Ohm", 12906.403730, 1e-9},
+		{"W26: graphene N=1 at 1 T", "dirac_landau_level(1, 1 T, graphene)", "meV", 36.283, 1e-4},
+		{"W26: graphene N=1 at 10 T", "dirac_landau_level(1, 10 T, 1e6 m/s)", "meV", 114.74, 1e-4},
+		{"W27: Si(100) E_F with gv=2", "fermi_energy(1e12 cm^-2, 0.19 m_e, gv=2)", "meV", 6.2997, 1e-4},
+		{"W28: Ge holes E_F", "fermi_energy(2.2e11 cm^-2, 0.061 m_e)", "meV", 8.6337, 1e-4},
+		{"W12: Hall density from a 2080.5 Ohm/T slope", "density_from_slope(2080.5 Ohm/T)", "cm^-2", 3.0000e11, 1e-4},
 		{"sqrt of an area", "sqrt(16 um^2)", "um", 4, 1e-15},
 		{"ln of e^2 (math)", "ln(exp(2))", "", 2, 1e-15},
 		{"log10", "log10(1e5)", "", 5, 1e-15},
@@ -88,7 +81,7 @@ func TestFunctionsThroughLanguage(t *testing.T) {
 			if err != nil {
 				t.Fatalf("%s in %s: %v", tc.expr, tc.unit, err)
 			}
-			if !within(got, tc.want, tc.tol) {
+			if !testutil.WithinRel(got, tc.want, tc.tol) {
 				t.Errorf("%s = %.8g %s, want %.8g (tol %g)", tc.expr, got, tc.unit, tc.want, tc.tol)
 			}
 		})
@@ -113,7 +106,7 @@ func TestMeanKeepsCorrelations(t *testing.T) {
 	}
 	for _, tc := range tests {
 		q := evalQ(t, e, tc.expr)
-		if !within(q.Value(), tc.val, 1e-12) || !within(q.Uncertainty(), tc.unc, 1e-12) {
+		if !testutil.WithinRel(q.Value(), tc.val, 1e-12) || !testutil.WithinRel(q.Uncertainty(), tc.unc, 1e-12) {
 			t.Errorf("%s = %g ± %g T, want %g ± %g", tc.expr, q.Value(), q.Uncertainty(), tc.val, tc.unc)
 		}
 	}

@@ -2,16 +2,14 @@ package library
 
 import (
 	"bufio"
-	"flag"
 	"fmt"
 	"os"
 	"strings"
 	"testing"
 
 	"cleave/calc"
+	"cleave/internal/testutil"
 )
-
-var update = flag.Bool("update", false, "rewrite the golden files in testdata")
 
 // TestErrorsGolden evaluates testdata/errors.calc as one block and compares each line's
 // result text (error messages with line and column) with testdata/errors.golden.
@@ -30,18 +28,5 @@ func TestErrorsGolden(t *testing.T) {
 		}
 		fmt.Fprintf(&out, "%s\n\t#~ %s\n", sc.Text(), r.Display)
 	}
-	got := out.String()
-	const golden = "testdata/errors.golden"
-	if *update {
-		if err := os.WriteFile(golden, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	want, err := os.ReadFile(golden)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if got != string(want) {
-		t.Errorf("result text differs from %s (run go test -update after checking):\n got:\n%s\nwant:\n%s", golden, got, want)
-	}
+	testutil.GoldenString(t, "testdata/errors.golden", out.String())
 }

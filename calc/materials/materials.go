@@ -33,7 +33,7 @@ type Material struct {
 	Sources map[string]string // field name -> source
 }
 
-// Source strings, worded as in the project's reference notes (REFERENCE.md §2 and §4).
+// Source strings; calc/SOURCES.md says what is taken from each.
 const (
 	srcVurgaftman  = "Vurgaftman, Meyer, Ram-Mohan, J. Appl. Phys. 89, 5815-5875 (2001)"
 	srcIoffe       = "Ioffe/Levinshtein, Handbook Series on Semiconductor Parameters, World Scientific 1996"
@@ -41,7 +41,8 @@ const (
 	srcAFS         = "Ando, Fowler, Stern, Rev. Mod. Phys. 54, 437 (1982)"
 	srcLodari      = "Lodari et al., arXiv:1905.08064, Phys. Rev. B 100, 041304(R) (2019) (journal reference from memory, unverified)"
 	srcNovoselov   = "Novoselov et al., Nature 438, 197 (2005)"
-	srcGusynin     = "Gusynin & Sharapov, Phys. Rev. Lett. 95, 146801 (2005); Novoselov et al., Nature 438, 201 (2005)"
+	srcInGaAsG     = "-4.070 ± 0.005: Spin-resonance determination of the electron effective g value of In0.53Ga0.47As, Phys. Rev. B (1996)"
+	srcGusynin     = "Gusynin & Sharapov, Phys. Rev. Lett. 95, 146801 (2005); Novoselov et al., Nature 438, 197 (2005)"
 	srcSpin        = "spin-1/2 carriers, no Zeeman splitting resolved (textbook)"
 	srcGammaValley = "single Γ valley (textbook)"
 )
@@ -142,7 +143,7 @@ func ingaas() Material {
 		Sources: map[string]string{
 			"Mstar": "0.0430 from the bowing parameter 0.0091 of " + srcVurgaftman + " with InAs 0.026; commonly quoted 0.041-0.043",
 			"EpsR":  "about 13.9 (from memory, unverified)",
-			"G":     "-4.07 (REFERENCE.md §2.14 [S])",
+			"G":     srcInGaAsG,
 			"Gs":    srcSpin,
 			"Gv":    srcGammaValley,
 			"X":     "lattice-matched to InP",
@@ -169,7 +170,7 @@ func si100() Material {
 		Sources: map[string]string{
 			"Mstar": "in-plane transverse mass 0.19 (0.916 along z), " + srcAFS + " (masses from memory, unverified)",
 			"EpsR":  "Si 11.7 (from memory, unverified)",
-			"G":     "about 2 (REFERENCE.md §2.14)",
+			"G":     "about 2, close to the free-electron value (from memory)",
 			"Gs":    srcSpin,
 			"Gv":    "two valleys for the (100) surface, " + srcAFS + " (from memory, unverified); valley splitting small and sample-dependent",
 		},
@@ -195,7 +196,7 @@ func graphene() Material {
 		Sources: map[string]string{
 			"Mstar":   "linear dispersion: cyclotron mass m_c = ħ√(πn)/v_F depends on n",
 			"EpsR":    "depends on the substrate and encapsulation",
-			"G":       "about 2 (REFERENCE.md §2.14)",
+			"G":       "about 2, close to the free-electron value (from memory)",
 			"Gs":      srcGusynin,
 			"Gv":      srcGusynin,
 			"VF":      "about 1e6 m/s, " + srcNovoselov,

@@ -1,6 +1,7 @@
 package materials
 
 import (
+	"cleave/internal/testutil"
 	"errors"
 	"math"
 	"strings"
@@ -10,46 +11,41 @@ import (
 // nan marks a field the table deliberately leaves unset.
 var nan = math.NaN()
 
-func sameFloat(got, want, tol float64) bool {
-	if math.IsNaN(want) {
-		return math.IsNaN(got)
-	}
-	return math.Abs(got-want) <= tol*math.Max(1, math.Abs(want))
-}
-
-// TestTable checks every tabulated value against its row in REFERENCE.md §4 (and §2.14,
-// §2.15 for g-factors and graphene), which cite the primary sources named in the comments.
+// TestTable checks every tabulated value against the primary source named in the comment
+// above its row (keys of calc/SOURCES.md).
 func TestTable(t *testing.T) {
 	tests := []struct {
 		name    string
 		want    Material
 		comment string
 	}{
-		// GaAs: m* 0.067 (Vurgaftman et al. 2001 [S]), eps 12.9 (Ioffe [S]), g* -0.44 (Yugova et al. 2007 [S]).
-		{"GaAs", Material{Name: "GaAs", X: nan, Mstar: 0.067, EpsR: 12.9, G: -0.44, Gs: 2, Gv: 1, Carrier: "electron"}, "REFERENCE §4 GaAs"},
-		// AlAs Γ mass 0.15 (Vurgaftman [S]); eps 12.90-2.84 = 10.06 (Ioffe formula at x = 1 [C]).
-		{"AlAs", Material{Name: "AlAs", X: nan, Mstar: 0.15, EpsR: 10.06, G: nan, Gs: 2, Gv: 1, Carrier: "electron"}, "REFERENCE §4 AlAs"},
-		// Al0.3Ga0.7As: m* = 0.0919 (linear), eps_r = 12.048 (Ioffe) — REFERENCE §4 worked values [C].
-		{"Al0.3Ga0.7As", Material{Name: "Al0.3Ga0.7As", X: 0.3, Mstar: 0.0919, EpsR: 12.048, G: nan, Gs: 2, Gv: 1, Carrier: "electron"}, "REFERENCE §4 Al0.3 row"},
-		// Al0.33Ga0.67As: 0.067 + 0.083*0.33 = 0.09439; 12.90 - 2.84*0.33 = 11.9628 (REFERENCE §4 formulas).
-		{"Al0.33Ga0.67As", Material{Name: "Al0.33Ga0.67As", X: 0.33, Mstar: 0.09439, EpsR: 11.9628, G: nan, Gs: 2, Gv: 1, Carrier: "electron"}, "REFERENCE §4 AlGaAs formulas"},
+		// GaAs: m* 0.067 [src:VURGAFTMAN2001], eps 12.9 [src:IOFFE1996], g* -0.44 [src:YUGOVA2007].
+		{"GaAs", Material{Name: "GaAs", X: nan, Mstar: 0.067, EpsR: 12.9, G: -0.44, Gs: 2, Gv: 1, Carrier: "electron"}, "GaAs: Vurgaftman 2001, Ioffe 1996, Yugova 2007"},
+		// AlAs Γ mass 0.15 [src:VURGAFTMAN2001]; eps 12.90-2.84 = 10.06 (the Ioffe formula at x = 1 [src:IOFFE1996]).
+		{"AlAs", Material{Name: "AlAs", X: nan, Mstar: 0.15, EpsR: 10.06, G: nan, Gs: 2, Gv: 1, Carrier: "electron"}, "AlAs: Vurgaftman 2001, Ioffe 1996"},
+		// Al0.3Ga0.7As: m* = 0.067 + 0.083*0.3 = 0.0919 (linear between the end points of
+		// [src:VURGAFTMAN2001]), eps_r = 12.90 - 2.84*0.3 = 12.048 [src:IOFFE1996].
+		{"Al0.3Ga0.7As", Material{Name: "Al0.3Ga0.7As", X: 0.3, Mstar: 0.0919, EpsR: 12.048, G: nan, Gs: 2, Gv: 1, Carrier: "electron"}, "AlGaAs formulas at x = 0.3"},
+		// Al0.33Ga0.67As: 0.067 + 0.083*0.33 = 0.09439; 12.90 - 2.84*0.33 = 11.9628 (same formulas).
+		{"Al0.33Ga0.67As", Material{Name: "Al0.33Ga0.67As", X: 0.33, Mstar: 0.09439, EpsR: 11.9628, G: nan, Gs: 2, Gv: 1, Carrier: "electron"}, "AlGaAs formulas at x = 0.33"},
 		{"Al(0.33)Ga(0.67)As", Material{Name: "Al0.33Ga0.67As", X: 0.33, Mstar: 0.09439, EpsR: 11.9628, G: nan, Gs: 2, Gv: 1, Carrier: "electron"}, "same, parenthesised"},
 		// Fractions adding to 0.998 are accepted (within 0.005); the name is rebuilt from x.
-		{"Al0.25Ga0.748As", Material{Name: "Al0.25Ga0.75As", X: 0.25, Mstar: 0.08775, EpsR: 12.19, G: nan, Gs: 2, Gv: 1, Carrier: "electron"}, "REFERENCE §4 AlGaAs formulas"},
-		// InAs: 0.026 Vurgaftman (from memory, unverified), eps 15.15 Ioffe [S], g* about -15 (from memory, unverified).
-		{"InAs", Material{Name: "InAs", X: nan, Mstar: 0.026, EpsR: 15.15, G: -15, Gs: 2, Gv: 1, Carrier: "electron"}, "REFERENCE §4 InAs, §2.14"},
-		// In0.53Ga0.47As: m* 0.0430 [C] from bowing 0.0091 [S]; eps about 13.9 (from memory, unverified); g* -4.07 [S].
-		{"In0.53Ga0.47As", Material{Name: "In0.53Ga0.47As", X: 0.53, Mstar: 0.0430, EpsR: 13.9, G: -4.07, Gs: 2, Gv: 1, Carrier: "electron"}, "REFERENCE §4, §2.14"},
-		// InSb: 0.0135 (from memory, unverified), eps 16.8 (from memory, unverified), g* -51 (from memory, unverified).
-		{"InSb", Material{Name: "InSb", X: nan, Mstar: 0.0135, EpsR: 16.8, G: -51, Gs: 2, Gv: 1, Carrier: "electron"}, "REFERENCE §4 InSb, §2.14"},
-		// Si(100): m* 0.19, g_v = 2 (AFS 1982, from memory, unverified), eps 11.7 (from memory, unverified), g about 2.
-		{"Si(100)", Material{Name: "Si(100)", X: nan, Mstar: 0.19, EpsR: 11.7, G: 2, Gs: 2, Gv: 2, Carrier: "electron"}, "REFERENCE §4 Si(100)"},
+		{"Al0.25Ga0.748As", Material{Name: "Al0.25Ga0.75As", X: 0.25, Mstar: 0.08775, EpsR: 12.19, G: nan, Gs: 2, Gv: 1, Carrier: "electron"}, "AlGaAs formulas at x = 0.25"},
+		// InAs: 0.026 [src:VURGAFTMAN2001] (from memory), eps 15.15 [src:IOFFE1996], g* about -15 (from memory).
+		{"InAs", Material{Name: "InAs", X: nan, Mstar: 0.026, EpsR: 15.15, G: -15, Gs: 2, Gv: 1, Carrier: "electron"}, "InAs: Vurgaftman 2001 (from memory), Ioffe 1996"},
+		// In0.53Ga0.47As: m* 0.0430 from the bowing 0.0091 of [src:VURGAFTMAN2001]; eps about 13.9
+		// (from memory); g* -4.07 [src:INGAAS-G1996].
+		{"In0.53Ga0.47As", Material{Name: "In0.53Ga0.47As", X: 0.53, Mstar: 0.0430, EpsR: 13.9, G: -4.07, Gs: 2, Gv: 1, Carrier: "electron"}, "In0.53Ga0.47As: Vurgaftman 2001 bowing, spin resonance 1996"},
+		// InSb: 0.0135 [src:VURGAFTMAN2001] (from memory), eps 16.8 (from memory), g* -51 (from memory).
+		{"InSb", Material{Name: "InSb", X: nan, Mstar: 0.0135, EpsR: 16.8, G: -51, Gs: 2, Gv: 1, Carrier: "electron"}, "InSb: from memory"},
+		// Si(100): m* 0.19, g_v = 2 [src:AFS1982] (from memory), eps 11.7 (from memory), g about 2 (from memory).
+		{"Si(100)", Material{Name: "Si(100)", X: nan, Mstar: 0.19, EpsR: 11.7, G: 2, Gs: 2, Gv: 2, Carrier: "electron"}, "Si(100): Ando, Fowler, Stern 1982"},
 		{"Si", Material{Name: "Si(100)", X: nan, Mstar: 0.19, EpsR: 11.7, G: 2, Gs: 2, Gv: 2, Carrier: "electron"}, "short form"},
-		// Strained Ge holes: 0.061 at p = 2.2e11 cm^-2 (Lodari et al., arXiv:1905.08064 [S]); Ge eps 16.2 (from memory, unverified).
-		{"Ge(holes)", Material{Name: "Ge(holes)", X: nan, Mstar: 0.061, EpsR: 16.2, G: nan, Gs: 2, Gv: 1, Carrier: "hole"}, "REFERENCE §4 Ge"},
+		// Strained Ge holes: 0.061 at p = 2.2e11 cm^-2 [src:LODARI2019]; Ge eps 16.2 (from memory).
+		{"Ge(holes)", Material{Name: "Ge(holes)", X: nan, Mstar: 0.061, EpsR: 16.2, G: nan, Gs: 2, Gv: 1, Carrier: "hole"}, "Ge holes: Lodari 2019"},
 		{"Ge", Material{Name: "Ge(holes)", X: nan, Mstar: 0.061, EpsR: 16.2, G: nan, Gs: 2, Gv: 1, Carrier: "hole"}, "short form"},
-		// Graphene: g_s = g_v = 2, v_F about 1e6 m/s (Novoselov et al. 2005 [S]), g about 2 (REFERENCE §2.14-2.15).
-		{"graphene", Material{Name: "graphene", X: nan, Mstar: 0, EpsR: nan, G: 2, Gs: 2, Gv: 2, VF: 1e6, Carrier: "electron"}, "REFERENCE §4, §2.15"},
+		// Graphene: g_s = g_v = 2, v_F about 1e6 m/s [src:NOVOSELOV2005], g about 2 (from memory).
+		{"graphene", Material{Name: "graphene", X: nan, Mstar: 0, EpsR: nan, G: 2, Gs: 2, Gv: 2, VF: 1e6, Carrier: "electron"}, "graphene: Novoselov 2005"},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -69,12 +65,12 @@ func TestTable(t *testing.T) {
 				{"X", got.X, w.X}, {"Mstar", got.Mstar, w.Mstar}, {"EpsR", got.EpsR, w.EpsR},
 				{"G", got.G, w.G}, {"VF", got.VF, w.VF},
 			} {
-				// Mstar of In0.53Ga0.47As is printed to 3 significant figures in REFERENCE.
+				// Mstar of In0.53Ga0.47As is quoted to 3 significant figures (0.0430).
 				tol := 1e-9
 				if f.field == "Mstar" && w.Name == "In0.53Ga0.47As" {
 					tol = 1e-4
 				}
-				if !sameFloat(f.got, f.want, tol) {
+				if !testutil.Within(f.got, f.want, tol, tol) {
 					t.Errorf("%s.%s = %v, want %v (%s)", tc.name, f.field, f.got, f.want, tc.comment)
 				}
 			}
@@ -91,15 +87,15 @@ func TestTable(t *testing.T) {
 }
 
 // TestAlGaAsEndPoints: the interpolation meets GaAs at x = 0 and the AlAs Γ values at x = 1
-// (REFERENCE §4: 0.067 and 0.15 from Vurgaftman et al.; eps 12.90 and 10.06 from Ioffe).
+// (0.067 and 0.15 from [src:VURGAFTMAN2001]; eps 12.90 and 10.06 from [src:IOFFE1996]).
 func TestAlGaAsEndPoints(t *testing.T) {
 	g, _ := Lookup("GaAs")
 	a0, err := AlGaAs(0)
-	if err != nil || !sameFloat(a0.Mstar, g.Mstar, 1e-12) || !sameFloat(a0.EpsR, 12.90, 1e-12) {
+	if err != nil || !testutil.Within(a0.Mstar, g.Mstar, 1e-12, 1e-12) || !testutil.Within(a0.EpsR, 12.90, 1e-12, 1e-12) {
 		t.Errorf("AlGaAs(0) = %+v, %v; want GaAs mass %v, eps 12.90", a0, err, g.Mstar)
 	}
 	a1, err := AlGaAs(1)
-	if err != nil || !sameFloat(a1.Mstar, 0.15, 1e-12) || !sameFloat(a1.EpsR, 10.06, 1e-12) {
+	if err != nil || !testutil.Within(a1.Mstar, 0.15, 1e-12, 1e-12) || !testutil.Within(a1.EpsR, 10.06, 1e-12, 1e-12) {
 		t.Errorf("AlGaAs(1) = %+v, %v; want mass 0.15, eps 10.06", a1, err)
 	}
 	// The end points are exact, not merely within rounding: the band solver takes its GaAs
@@ -156,7 +152,7 @@ func TestParseAlloy(t *testing.T) {
 	}
 	for _, tc := range tests {
 		el, x, err := ParseAlloy(tc.in)
-		if err != nil || el != tc.elements || !sameFloat(x, tc.x, 1e-15) {
+		if err != nil || el != tc.elements || !testutil.Within(x, tc.x, 1e-15, 1e-15) {
 			t.Errorf("ParseAlloy(%q) = %q, %v, %v; want %q, %v", tc.in, el, x, err, tc.elements, tc.x)
 		}
 	}

@@ -29,7 +29,7 @@ type HallBar struct {
 const (
 	minAspect       = 3.0 // probe spacing over channel width
 	armOverSpacing  = 0.2 // arm width at most spacing/5
-	armOverWidth    = 0.2 // arm width at most W/5 (REFERENCE.md §6, common practice)
+	armOverWidth    = 0.2 // arm width at most W/5 (common practice)
 	alignedFraction = 1e-3
 )
 

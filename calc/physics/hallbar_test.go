@@ -2,23 +2,20 @@ package physics
 
 import (
 	"errors"
-	"flag"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
 	"cleave/calc/quantity"
+	"cleave/internal/testutil"
 )
-
-var update = flag.Bool("update", false, "rewrite the golden files in testdata")
 
 func probe(name string, pos, arm float64, side string) Probe {
 	return Probe{Name: name, Position: q(pos, "um"), ArmWidth: q(arm, "um"), Side: side}
 }
 
-// sixProbe is an invented 100 um bar with probes every 500 um, as in REFERENCE §5 row 9
+// sixProbe is an invented 100 um bar with probes every 500 um, as in [src:W9]
 // (W = 100 um, L = 500 um).
 func sixProbe() HallBar {
 	return HallBar{Width: q(100, "um"), Probes: []Probe{
@@ -41,13 +38,13 @@ func TestSquares(t *testing.T) {
 			t.Errorf("Squares(%s, %s) = %v (%v), %v; want %v", tc.a, tc.b, got.Value(), got.Dim(), err, tc.want)
 		}
 	}
-	// REFERENCE §5 row 9 end to end: R_xx = 50 Ohm over 5 squares is 10 Ohm/sq, and at
+	// [src:W9] end to end: R_xx = 50 Ohm over 5 squares is 10 Ohm/sq, and at
 	// n = 3e11 cm^-2 the mobility is 2.0805e6 cm^2/(V s).
 	sq, _ := h.Squares("V1", "V2")
 	rho := must(SheetResistance(q(50, "Ohm"), sq))
 	mu := must(Mobility(rho, n3e11))
 	if got := in(t, mu, "cm^2/(V s)"); math.Abs(got-2.0805e6)/2.0805e6 > 1e-4 {
-		t.Errorf("row 9 mobility %v, want 2.0805e6", got)
+		t.Errorf("W9 mobility %v, want 2.0805e6", got)
 	}
 	// Uncertain geometry propagates: a spacing of 500 ± 5 um (1 %, one probe position
 	// uncertain) over W = 100 ± 2 um (2 %) gives sqrt(1^2 + 2^2) % on the number of squares.
@@ -154,17 +151,5 @@ func TestWarningsGolden(t *testing.T) {
 		}
 		b.WriteString("\n")
 	}
-	path := filepath.Join("testdata", "warnings.golden")
-	if *update {
-		if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if got := b.String(); got != string(want) {
-		t.Errorf("warnings differ from %s:\ngot:\n%s\nwant:\n%s", path, got, want)
-	}
+	testutil.GoldenString(t, filepath.Join("testdata", "warnings.golden"), b.String())
 }

@@ -42,11 +42,10 @@ var (
 	n3e11 = q(3e11, "cm^-2")
 )
 
-// TestWorkedValues checks every function against the worked check values of REFERENCE.md
-// §5 (computed there from CODATA 2018 with an arbitrary-precision script; recomputed for this
-// test with mpmath at 30 digits, which agreed in every printed digit). Unless a row says
-// otherwise: GaAs m* = 0.067 m_e, n = 3.0e11 cm^-2. Tolerance 1e-4 relative, as REFERENCE
-// advises for values printed to 5-6 significant figures.
+// TestWorkedValues checks every function against the worked values W1–W28 of
+// calc/SOURCES.md (computed from CODATA 2018 with mpmath at 30 digits, independently of this
+// code); a case named "W9" is [src:W9]. Unless a case says otherwise: GaAs m* = 0.067 m_e,
+// n = 3.0e11 cm^-2. Tolerance 1e-4 relative, safe for values given to 5-6 significant figures.
 func TestWorkedValues(t *testing.T) {
 	mu1e6 := q(1e6, "cm^2/(V s)")
 	tq := q(1, "ps")
@@ -56,107 +55,107 @@ func TestWorkedValues(t *testing.T) {
 		unit string
 		want float64
 	}{
-		// Row 1: l_B at 1 T = sqrt(hbar/e) = 25.6556 nm (AFS 1982 definition).
-		{"row1 l_B 1T", func() (quantity.Quantity, error) { return MagneticLength(q(1, "T")) }, "nm", 25.6556},
-		// Row 2: l_B at 10 T = 8.11303 nm; the sign of B does not matter.
-		{"row2 l_B 10T", func() (quantity.Quantity, error) { return MagneticLength(q(-10, "T")) }, "nm", 8.11303},
-		// Row 3: hbar omega_c at 1 T, GaAs = 1.72788 meV; omega_c = 2.6251e12 s^-1; 20.051 K.
-		{"row3 hbar wc", func() (quantity.Quantity, error) { return CyclotronEnergy(q(1, "T"), mGaAs) }, "meV", 1.72788},
-		{"row3 wc", func() (quantity.Quantity, error) { return CyclotronFrequency(q(1, "T"), mGaAs) }, "s^-1", 2.6251e12},
-		{"row3 hbar wc / k_B", func() (quantity.Quantity, error) {
+		// W1: l_B at 1 T = sqrt(hbar/e) = 25.6556 nm (AFS 1982 definition).
+		{"W1 l_B 1T", func() (quantity.Quantity, error) { return MagneticLength(q(1, "T")) }, "nm", 25.6556},
+		// W2: l_B at 10 T = 8.11303 nm; the sign of B does not matter.
+		{"W2 l_B 10T", func() (quantity.Quantity, error) { return MagneticLength(q(-10, "T")) }, "nm", 8.11303},
+		// W3: hbar omega_c at 1 T, GaAs = 1.72788 meV; omega_c = 2.6251e12 s^-1; 20.051 K.
+		{"W3 hbar wc", func() (quantity.Quantity, error) { return CyclotronEnergy(q(1, "T"), mGaAs) }, "meV", 1.72788},
+		{"W3 wc", func() (quantity.Quantity, error) { return CyclotronFrequency(q(1, "T"), mGaAs) }, "s^-1", 2.6251e12},
+		{"W3 hbar wc / k_B", func() (quantity.Quantity, error) {
 			e, err := CyclotronEnergy(q(1, "T"), mGaAs)
 			return quantity.Div(e, cKB), err
 		}, "K", 20.051},
 		// Landau level N = 2 is (2 + 1/2) hbar omega_c = 2.5 * 1.72788 meV (textbook closed form).
 		{"landau level N=2", func() (quantity.Quantity, error) { return LandauLevel(2, q(1, "T"), mGaAs) }, "meV", 2.5 * 1.72788},
-		// Row 4: nu at 5 T = 2.4814.
-		{"row4 nu 5T", func() (quantity.Quantity, error) { return FillingFactor(n3e11, q(5, "T")) }, "1", 2.4814},
-		// Row 5: B(nu=1) = 12.407 T, B(nu=2) = 6.2035 T.
-		{"row5 B nu=1", func() (quantity.Quantity, error) { return FieldAtFilling(n3e11, quantity.Scalar(1)) }, "T", 12.407},
-		{"row5 B nu=2", func() (quantity.Quantity, error) { return FieldAtFilling(n3e11, quantity.Scalar(2)) }, "T", 6.2035},
-		// Row 6: E_F = 10.719 meV; T_F = 124.39 K.
-		{"row6 E_F", func() (quantity.Quantity, error) { return FermiEnergy(n3e11, mGaAs, 2, 1) }, "meV", 10.719},
-		{"row6 T_F", func() (quantity.Quantity, error) {
+		// W4: nu at 5 T = 2.4814.
+		{"W4 nu 5T", func() (quantity.Quantity, error) { return FillingFactor(n3e11, q(5, "T")) }, "1", 2.4814},
+		// W5: B(nu=1) = 12.407 T, B(nu=2) = 6.2035 T.
+		{"W5 B nu=1", func() (quantity.Quantity, error) { return FieldAtFilling(n3e11, quantity.Scalar(1)) }, "T", 12.407},
+		{"W5 B nu=2", func() (quantity.Quantity, error) { return FieldAtFilling(n3e11, quantity.Scalar(2)) }, "T", 6.2035},
+		// W6: E_F = 10.719 meV; T_F = 124.39 K.
+		{"W6 E_F", func() (quantity.Quantity, error) { return FermiEnergy(n3e11, mGaAs, 2, 1) }, "meV", 10.719},
+		{"W6 T_F", func() (quantity.Quantity, error) {
 			e, err := FermiEnergy(n3e11, mGaAs, 2, 1)
 			return quantity.Div(e, cKB), err
 		}, "K", 124.39},
-		// §2.4: D = 2.7988e10 cm^-2 meV^-1 for GaAs.
+		// D = m*/(πħ²) = 2.7988e10 cm^-2 meV^-1 for GaAs [src:W6].
 		{"2.4 DOS", func() (quantity.Quantity, error) { return DensityOfStates(mGaAs, 2, 1) }, "cm^-2 meV^-1", 2.7988e10},
-		// Row 7: k_F = 1.37294e8 m^-1; v_F = 2.3723e5 m/s.
-		{"row7 k_F", func() (quantity.Quantity, error) { return FermiWavevector(n3e11, 2, 1) }, "m^-1", 1.37294e8},
-		{"row7 v_F", func() (quantity.Quantity, error) { return FermiVelocity(n3e11, mGaAs, 2, 1) }, "m/s", 2.3723e5},
-		// Row 8: r_s = 1.0110 (eps_r = 12.9, a_B* = 10.189 nm).
-		{"row8 a_B*", func() (quantity.Quantity, error) { return EffectiveBohrRadius(mGaAs, quantity.Scalar(12.9)) }, "nm", 10.189},
-		{"row8 r_s", func() (quantity.Quantity, error) { return InteractionParameter(n3e11, mGaAs, quantity.Scalar(12.9)) }, "1", 1.0110},
-		// Row 9: R_xx = 50 Ohm, W = 100 um, L = 500 um -> 10 Ohm/sq; mu = 2.0805e6 cm^2/Vs.
-		{"row9 rho", func() (quantity.Quantity, error) { return SheetResistance(q(50, "Ohm"), quantity.Scalar(5)) }, "Ohm", 10},
-		{"row9 mu", func() (quantity.Quantity, error) { return Mobility(q(10, "Ohm"), n3e11) }, "cm^2/(V s)", 2.0805e6},
-		// Row 10: tau_t at 1e6 cm^2/Vs = 38.094 ps.
-		{"row10 tau_t", func() (quantity.Quantity, error) { return TransportTime(mu1e6, mGaAs) }, "ps", 38.094},
-		// Row 11: mean free path 9.0368 um; k_F l = 1240.7.
-		{"row11 l", func() (quantity.Quantity, error) { return MeanFreePath(mu1e6, n3e11, 2, 1) }, "um", 9.0368},
-		{"row11 k_F l", func() (quantity.Quantity, error) {
+		// W7: k_F = 1.37294e8 m^-1; v_F = 2.3723e5 m/s.
+		{"W7 k_F", func() (quantity.Quantity, error) { return FermiWavevector(n3e11, 2, 1) }, "m^-1", 1.37294e8},
+		{"W7 v_F", func() (quantity.Quantity, error) { return FermiVelocity(n3e11, mGaAs, 2, 1) }, "m/s", 2.3723e5},
+		// W8: r_s = 1.0110 (eps_r = 12.9, a_B* = 10.189 nm).
+		{"W8 a_B*", func() (quantity.Quantity, error) { return EffectiveBohrRadius(mGaAs, quantity.Scalar(12.9)) }, "nm", 10.189},
+		{"W8 r_s", func() (quantity.Quantity, error) { return InteractionParameter(n3e11, mGaAs, quantity.Scalar(12.9)) }, "1", 1.0110},
+		// W9: R_xx = 50 Ohm, W = 100 um, L = 500 um -> 10 Ohm/sq; mu = 2.0805e6 cm^2/Vs.
+		{"W9 rho", func() (quantity.Quantity, error) { return SheetResistance(q(50, "Ohm"), quantity.Scalar(5)) }, "Ohm", 10},
+		{"W9 mu", func() (quantity.Quantity, error) { return Mobility(q(10, "Ohm"), n3e11) }, "cm^2/(V s)", 2.0805e6},
+		// W10: tau_t at 1e6 cm^2/Vs = 38.094 ps.
+		{"W10 tau_t", func() (quantity.Quantity, error) { return TransportTime(mu1e6, mGaAs) }, "ps", 38.094},
+		// W11: mean free path 9.0368 um; k_F l = 1240.7.
+		{"W11 l", func() (quantity.Quantity, error) { return MeanFreePath(mu1e6, n3e11, 2, 1) }, "um", 9.0368},
+		{"W11 k_F l", func() (quantity.Quantity, error) {
 			l, err := MeanFreePath(mu1e6, n3e11, 2, 1)
 			return quantity.Mul(must(FermiWavevector(n3e11, 2, 1)), l), err
 		}, "1", 1240.7},
-		// Row 11: omega_c tau at 1 T = mu B = 100.
-		{"row11 wc tau", func() (quantity.Quantity, error) {
+		// W11: omega_c tau at 1 T = mu B = 100.
+		{"W11 wc tau", func() (quantity.Quantity, error) {
 			return quantity.Mul(must(CyclotronFrequency(q(1, "T"), mGaAs)), must(TransportTime(mu1e6, mGaAs))), nil
 		}, "1", 100},
-		// Row 12: Hall slope 2080.5 Ohm/T gives 3.0000e11 cm^-2 (either sign).
-		{"row12 n from slope", func() (quantity.Quantity, error) { return HallDensity(q(-2080.5, "Ohm/T")) }, "cm^-2", 3.0000e11},
-		// Row 13: van der Pauw symmetric, R = 10 Ohm: 45.3236 Ohm/sq.
-		{"row13 vdp symmetric", func() (quantity.Quantity, error) { return VdpSheetResistance(q(10, "Ohm"), q(10, "Ohm")) }, "Ohm", 45.3236},
-		// Row 14: R_A = 10, R_B = 20 Ohm: 65.285 Ohm/sq, f = 0.96028.
-		{"row14 vdp", func() (quantity.Quantity, error) { return VdpSheetResistance(q(10, "Ohm"), q(20, "Ohm")) }, "Ohm", 65.285},
-		{"row14 vdp swapped", func() (quantity.Quantity, error) { return VdpSheetResistance(q(20, "Ohm"), q(10, "Ohm")) }, "Ohm", 65.285},
-		{"row14 f", func() (quantity.Quantity, error) { return VdpFactor(q(10, "Ohm"), q(20, "Ohm")) }, "1", 0.96028},
-		// Row 15: f_B = 6.2035 T, Delta(1/B) = 0.161199 T^-1; spin-resolved f = 12.407 T.
-		{"row15 f_B", func() (quantity.Quantity, error) { return SdHFrequency(n3e11, 2, 1) }, "T", 6.2035},
-		{"row15 period", func() (quantity.Quantity, error) {
+		// W12: Hall slope 2080.5 Ohm/T gives 3.0000e11 cm^-2 (either sign).
+		{"W12 n from slope", func() (quantity.Quantity, error) { return HallDensity(q(-2080.5, "Ohm/T")) }, "cm^-2", 3.0000e11},
+		// W13: van der Pauw symmetric, R = 10 Ohm: 45.3236 Ohm/sq.
+		{"W13 vdp symmetric", func() (quantity.Quantity, error) { return VdpSheetResistance(q(10, "Ohm"), q(10, "Ohm")) }, "Ohm", 45.3236},
+		// W14: R_A = 10, R_B = 20 Ohm: 65.285 Ohm/sq, f = 0.96028.
+		{"W14 vdp", func() (quantity.Quantity, error) { return VdpSheetResistance(q(10, "Ohm"), q(20, "Ohm")) }, "Ohm", 65.285},
+		{"W14 vdp swapped", func() (quantity.Quantity, error) { return VdpSheetResistance(q(20, "Ohm"), q(10, "Ohm")) }, "Ohm", 65.285},
+		{"W14 f", func() (quantity.Quantity, error) { return VdpFactor(q(10, "Ohm"), q(20, "Ohm")) }, "1", 0.96028},
+		// W15: f_B = 6.2035 T, Delta(1/B) = 0.161199 T^-1; spin-resolved f = 12.407 T.
+		{"W15 f_B", func() (quantity.Quantity, error) { return SdHFrequency(n3e11, 2, 1) }, "T", 6.2035},
+		{"W15 period", func() (quantity.Quantity, error) {
 			f, err := SdHFrequency(n3e11, 2, 1)
 			return quantity.Div(quantity.Scalar(1), f), err
 		}, "T^-1", 0.161199},
-		{"row15 spin-resolved", func() (quantity.Quantity, error) { return SdHFrequency(n3e11, 1, 1) }, "T", 12.407},
-		// Row 16: X/sinh X at 1.5 K, 1 T = 0.71166; at 4.2 K: 0.13241 (Lifshitz-Kosevich).
-		{"row16 LK 1.5K", func() (quantity.Quantity, error) { return ThermalDamping(q(1.5, "K"), q(1, "T"), mGaAs) }, "1", 0.71166},
-		{"row16 LK 4.2K", func() (quantity.Quantity, error) { return ThermalDamping(q(4.2, "K"), q(1, "T"), mGaAs) }, "1", 0.13241},
+		{"W15 spin-resolved", func() (quantity.Quantity, error) { return SdHFrequency(n3e11, 1, 1) }, "T", 12.407},
+		// W16: X/sinh X at 1.5 K, 1 T = 0.71166; at 4.2 K: 0.13241 (Lifshitz-Kosevich).
+		{"W16 LK 1.5K", func() (quantity.Quantity, error) { return ThermalDamping(q(1.5, "K"), q(1, "T"), mGaAs) }, "1", 0.71166},
+		{"W16 LK 4.2K", func() (quantity.Quantity, error) { return ThermalDamping(q(4.2, "K"), q(1, "T"), mGaAs) }, "1", 0.13241},
 		{"LK T=0", func() (quantity.Quantity, error) { return ThermalDamping(q(0, "K"), q(1, "T"), mGaAs) }, "1", 1},
-		// Row 17: tau_q = 1 ps at 1 T: Dingle factor 0.30217, T_D = 1.21566 K, mu_q = 26251 cm^2/Vs,
-		// tau_t/tau_q = 38.094 (with row 10).
-		{"row17 Dingle factor", func() (quantity.Quantity, error) { return DingleFactor(q(1, "T"), tq, mGaAs) }, "1", 0.30217},
-		{"row17 T_D", func() (quantity.Quantity, error) { return DingleTemperature(tq) }, "K", 1.21566},
-		{"row17 mu_q", func() (quantity.Quantity, error) { return QuantumMobility(tq, mGaAs) }, "cm^2/(V s)", 26251},
-		{"row17 ratio", func() (quantity.Quantity, error) {
+		// W17: tau_q = 1 ps at 1 T: Dingle factor 0.30217, T_D = 1.21566 K, mu_q = 26251 cm^2/Vs,
+		// tau_t/tau_q = 38.094 (with W10).
+		{"W17 Dingle factor", func() (quantity.Quantity, error) { return DingleFactor(q(1, "T"), tq, mGaAs) }, "1", 0.30217},
+		{"W17 T_D", func() (quantity.Quantity, error) { return DingleTemperature(tq) }, "K", 1.21566},
+		{"W17 mu_q", func() (quantity.Quantity, error) { return QuantumMobility(tq, mGaAs) }, "cm^2/(V s)", 26251},
+		{"W17 ratio", func() (quantity.Quantity, error) {
 			return quantity.Div(must(TransportTime(mu1e6, mGaAs)), tq), nil
 		}, "1", 38.094},
-		// Row 18: Zeeman energy |g| = 0.44 at 1 T: 25.469 ueV; E_Z/(hbar omega_c) = 0.01474.
-		{"row18 E_Z", func() (quantity.Quantity, error) { return ZeemanEnergy(q(1, "T"), quantity.Scalar(-0.44)) }, "ueV", 25.469},
-		{"row18 ratio", func() (quantity.Quantity, error) {
+		// W18: Zeeman energy |g| = 0.44 at 1 T: 25.469 ueV; E_Z/(hbar omega_c) = 0.01474.
+		{"W18 E_Z", func() (quantity.Quantity, error) { return ZeemanEnergy(q(1, "T"), quantity.Scalar(-0.44)) }, "ueV", 25.469},
+		{"W18 ratio", func() (quantity.Quantity, error) {
 			return quantity.Div(must(ZeemanEnergy(q(-1, "T"), quantity.Scalar(0.44))), must(CyclotronEnergy(q(1, "T"), mGaAs))), nil
 		}, "1", 0.01474},
-		// Row 19: R_K/nu for nu = 1..6 (R_K = h/e^2 exact, CODATA 2018).
-		{"row19 nu=1", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(1)) }, "Ohm", 25812.807459},
-		{"row19 nu=2", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(2)) }, "Ohm", 12906.403730},
-		{"row19 nu=3", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(3)) }, "Ohm", 8604.269153},
-		{"row19 nu=4", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(4)) }, "Ohm", 6453.201865},
-		{"row19 nu=5", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(5)) }, "Ohm", 5162.561492},
-		{"row19 nu=6", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(6)) }, "Ohm", 4302.134577},
+		// W19: R_K/nu for nu = 1..6 (R_K = h/e^2 exact, CODATA 2018).
+		{"W19 nu=1", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(1)) }, "Ohm", 25812.807459},
+		{"W19 nu=2", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(2)) }, "Ohm", 12906.403730},
+		{"W19 nu=3", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(3)) }, "Ohm", 8604.269153},
+		{"W19 nu=4", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(4)) }, "Ohm", 6453.201865},
+		{"W19 nu=5", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(5)) }, "Ohm", 5162.561492},
+		{"W19 nu=6", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(6)) }, "Ohm", 4302.134577},
 		// Tsui, Stormer, Gossard (1982): nu = 1/3 gives 3 R_K.
 		{"nu=1/3", func() (quantity.Quantity, error) { return HallResistance(quantity.Scalar(1.0 / 3)) }, "Ohm", 3 * 25812.807459},
-		// Row 26: graphene, v_F = 1e6 m/s: E_1 = 36.283 meV at 1 T, 114.74 meV at 10 T;
+		// W26: graphene, v_F = 1e6 m/s: E_1 = 36.283 meV at 1 T, 114.74 meV at 10 T;
 		// n = 1e12 cm^-2: E_F = 116.67 meV, m_c = 0.020519 m_e, f_SdH = 10.339 T.
-		{"row26 E_1 1T", func() (quantity.Quantity, error) { return DiracLandauLevel(1, q(1, "T"), q(1e6, "m/s")) }, "meV", 36.283},
-		{"row26 E_1 10T", func() (quantity.Quantity, error) { return DiracLandauLevel(1, q(10, "T"), q(1e6, "m/s")) }, "meV", 114.74},
-		{"row26 E_-1 1T", func() (quantity.Quantity, error) { return DiracLandauLevel(-1, q(1, "T"), q(1e6, "m/s")) }, "meV", -36.283},
-		{"row26 E_F", func() (quantity.Quantity, error) { return DiracFermiEnergy(q(1e12, "cm^-2"), q(1e6, "m/s")) }, "meV", 116.67},
-		{"row26 m_c", func() (quantity.Quantity, error) { return DiracCyclotronMass(q(1e12, "cm^-2"), q(1e6, "m/s")) }, "m_e", 0.020519},
-		{"row26 f_SdH", func() (quantity.Quantity, error) { return SdHFrequency(q(1e12, "cm^-2"), 2, 2) }, "T", 10.339},
-		// Row 27: Si(100), n = 1e12 cm^-2, m* = 0.19, gs gv = 4: E_F = 6.2997 meV; f_SdH = 10.339 T.
-		{"row27 E_F", func() (quantity.Quantity, error) { return FermiEnergy(q(1e12, "cm^-2"), EffectiveMass(0.19), 2, 2) }, "meV", 6.2997},
-		{"row27 f_SdH", func() (quantity.Quantity, error) { return SdHFrequency(q(1e12, "cm^-2"), 2, 2) }, "T", 10.339},
-		// Row 28: Ge holes, p = 2.2e11 cm^-2, m* = 0.061: E_F = 8.6337 meV.
-		{"row28 E_F", func() (quantity.Quantity, error) { return FermiEnergy(q(2.2e11, "cm^-2"), EffectiveMass(0.061), 2, 1) }, "meV", 8.6337},
+		{"W26 E_1 1T", func() (quantity.Quantity, error) { return DiracLandauLevel(1, q(1, "T"), q(1e6, "m/s")) }, "meV", 36.283},
+		{"W26 E_1 10T", func() (quantity.Quantity, error) { return DiracLandauLevel(1, q(10, "T"), q(1e6, "m/s")) }, "meV", 114.74},
+		{"W26 E_-1 1T", func() (quantity.Quantity, error) { return DiracLandauLevel(-1, q(1, "T"), q(1e6, "m/s")) }, "meV", -36.283},
+		{"W26 E_F", func() (quantity.Quantity, error) { return DiracFermiEnergy(q(1e12, "cm^-2"), q(1e6, "m/s")) }, "meV", 116.67},
+		{"W26 m_c", func() (quantity.Quantity, error) { return DiracCyclotronMass(q(1e12, "cm^-2"), q(1e6, "m/s")) }, "m_e", 0.020519},
+		{"W26 f_SdH", func() (quantity.Quantity, error) { return SdHFrequency(q(1e12, "cm^-2"), 2, 2) }, "T", 10.339},
+		// W27: Si(100), n = 1e12 cm^-2, m* = 0.19, gs gv = 4: E_F = 6.2997 meV; f_SdH = 10.339 T.
+		{"W27 E_F", func() (quantity.Quantity, error) { return FermiEnergy(q(1e12, "cm^-2"), EffectiveMass(0.19), 2, 2) }, "meV", 6.2997},
+		{"W27 f_SdH", func() (quantity.Quantity, error) { return SdHFrequency(q(1e12, "cm^-2"), 2, 2) }, "T", 10.339},
+		// W28: Ge holes, p = 2.2e11 cm^-2, m* = 0.061: E_F = 8.6337 meV.
+		{"W28 E_F", func() (quantity.Quantity, error) { return FermiEnergy(q(2.2e11, "cm^-2"), EffectiveMass(0.061), 2, 1) }, "meV", 8.6337},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -172,7 +171,7 @@ func TestWorkedValues(t *testing.T) {
 	}
 }
 
-// Row 13 in closed form: R_s = πR/ln 2 exactly for equal resistances (van der Pauw 1958), over
+// W13 in closed form: R_s = πR/ln 2 exactly for equal resistances (van der Pauw 1958), over
 // many decades; and the solver satisfies the defining equation for unequal ones.
 func TestVdpClosedFormAndResidual(t *testing.T) {
 	for _, r := range []float64{1e-3, 0.37, 10, 1234.5, 1e7} {
@@ -289,14 +288,14 @@ func TestProperties(t *testing.T) {
 	if e0 := must(DiracLandauLevel(0, q(1, "T"), q(1e6, "m/s"))); e0.Value() != 0 {
 		t.Errorf("Dirac N=0 level %v, want 0", e0.Value())
 	}
-	// Mean free path equals v_F tau_t for a parabolic band (REFERENCE §2.5).
+	// Mean free path equals v_F tau_t for a parabolic band [src:AFS1982].
 	mu := q(3e5, "cm^2/(V s)")
 	l := must(MeanFreePath(mu, n3e11, 2, 1)).Value()
 	vt := must(FermiVelocity(n3e11, mGaAs, 2, 1)).Value() * must(TransportTime(mu, mGaAs)).Value()
 	if math.Abs(l-vt) > 1e-12*l {
 		t.Errorf("l = %v, v_F tau_t = %v", l, vt)
 	}
-	// Graphene: m_c = E_F/v_F^2 (REFERENCE §2.15).
+	// Graphene: m_c = E_F/v_F^2 [src:NOVOSELOV2005].
 	ng, vf := q(1e12, "cm^-2"), q(1e6, "m/s")
 	mc := must(DiracCyclotronMass(ng, vf)).Value()
 	if ef := must(DiracFermiEnergy(ng, vf)).Value(); math.Abs(mc-ef/1e12) > 1e-12*mc {

@@ -42,7 +42,7 @@ func ExampleFormat() {
 
 // A physics function attaches its partial derivatives with Derived: here the
 // magnetic length l_B = sqrt(hbar/(e B)), with dl_B/dB = -l_B/(2B). At 1 T
-// it is 25.6556 nm (REFERENCE.md §5 row 1).
+// it is 25.6556 nm ([src:W1] in calc/SOURCES.md).
 func ExampleDerived() {
 	const hbar, e = 1.0545718176461565e-34, 1.602176634e-19 // CODATA 2018, exact
 	B, _ := quantity.ParseQuantity("1.000 ± 0.010 T")

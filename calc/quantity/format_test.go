@@ -1,18 +1,15 @@
 package quantity
 
 import (
+	"cleave/internal/testutil"
 	"errors"
-	"flag"
 	"fmt"
 	"math"
 	"math/rand/v2"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 )
-
-var update = flag.Bool("update", false, "rewrite golden files in testdata")
 
 func TestFormatExact(t *testing.T) {
 	tests := []struct {
@@ -92,27 +89,7 @@ func TestFormatGolden(t *testing.T) {
 		}
 		fmt.Fprintf(&b, "%s\t%s\n", in, Format(q))
 	}
-	path := filepath.Join("testdata", "format.golden")
-	if *update {
-		if err := os.WriteFile(path, []byte(b.String()), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if got := b.String(); got != string(want) {
-		gl, wl := strings.Split(got, "\n"), strings.Split(string(want), "\n")
-		for i := range min(len(gl), len(wl)) {
-			if gl[i] != wl[i] {
-				t.Errorf("line %d: got %q, want %q", i+1, gl[i], wl[i])
-			}
-		}
-		if len(gl) != len(wl) {
-			t.Errorf("got %d lines, want %d", len(gl), len(wl))
-		}
-	}
+	testutil.GoldenString(t, filepath.Join("testdata", "format.golden"), b.String())
 }
 
 // TestFormatIdempotent: formatting a parsed Format output gives it back.
@@ -220,7 +197,7 @@ func TestParseQuantity(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if q.Dim() != tt.d || !near(q.Value(), tt.v, 1e-15) || !near(q.Uncertainty(), tt.sigma, 1e-14) {
+			if q.Dim() != tt.d || !testutil.WithinRel(q.Value(), tt.v, 1e-15) || !testutil.WithinRel(q.Uncertainty(), tt.sigma, 1e-14) {
 				t.Errorf("got %g ± %g %v, want %g ± %g %v", q.Value(), q.Uncertainty(), q.Dim(), tt.v, tt.sigma, tt.d)
 			}
 		})

@@ -1,6 +1,7 @@
 package quantity
 
 import (
+	"cleave/internal/testutil"
 	"errors"
 	"math"
 	"math/rand/v2"
@@ -8,13 +9,6 @@ import (
 
 	"gonum.org/v1/gonum/stat"
 )
-
-func near(got, want, rel float64) bool {
-	if got == want {
-		return true
-	}
-	return math.Abs(got-want) <= rel*math.Max(math.Abs(got), math.Abs(want))
-}
 
 func must(q Quantity, err error) Quantity {
 	if err != nil {
@@ -54,10 +48,10 @@ func TestCorrelations(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			if !near(tt.q.Value(), tt.wantV, 1e-15) {
+			if !testutil.WithinRel(tt.q.Value(), tt.wantV, 1e-15) {
 				t.Errorf("value %g, want %g", tt.q.Value(), tt.wantV)
 			}
-			if !near(tt.q.Uncertainty(), tt.wantSigma, 1e-14) {
+			if !testutil.WithinRel(tt.q.Uncertainty(), tt.wantSigma, 1e-14) {
 				t.Errorf("uncertainty %g, want %g", tt.q.Uncertainty(), tt.wantSigma)
 			}
 			if tt.q.HasUncertainty() == tt.wantExact {
@@ -89,7 +83,7 @@ func TestPropagationClosedForms(t *testing.T) {
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			if !near(tt.q.Value(), tt.wantV, 1e-14) || !near(tt.q.Uncertainty(), tt.wantSigma, 1e-13) {
+			if !testutil.WithinRel(tt.q.Value(), tt.wantV, 1e-14) || !testutil.WithinRel(tt.q.Uncertainty(), tt.wantSigma, 1e-13) {
 				t.Errorf("got %g ± %g, want %g ± %g", tt.q.Value(), tt.q.Uncertainty(), tt.wantV, tt.wantSigma)
 			}
 		})
@@ -99,7 +93,7 @@ func TestPropagationClosedForms(t *testing.T) {
 func TestPowDimensions(t *testing.T) {
 	area := New(4e-12, Length.Pow(2))
 	side, err := Sqrt(area)
-	if err != nil || side.Dim() != Length || !near(side.Value(), 2e-6, 1e-15) {
+	if err != nil || side.Dim() != Length || !testutil.WithinRel(side.Value(), 2e-6, 1e-15) {
 		t.Errorf("Sqrt(4 um^2) = %v, %v", side, err)
 	}
 	if _, err := Sqrt(New(1, Length)); !errors.Is(err, ErrNonIntegerDim) {
@@ -108,7 +102,7 @@ func TestPowDimensions(t *testing.T) {
 	if _, err := Pow(New(2, Length), 1.0/3); !errors.Is(err, ErrNonIntegerDim) {
 		t.Errorf("Pow(m, 1/3) error %v, want ErrNonIntegerDim", err)
 	}
-	if q, err := Pow(New(8, Length.Pow(3)), 1.0/3); err != nil || q.Dim() != Length || !near(q.Value(), 2, 1e-15) {
+	if q, err := Pow(New(8, Length.Pow(3)), 1.0/3); err != nil || q.Dim() != Length || !testutil.WithinRel(q.Value(), 2, 1e-15) {
 		t.Errorf("Pow(8 m^3, 1/3) = %v, %v", q, err)
 	}
 	if _, err := Pow(New(2, Length.Pow(100)), 2); !errors.Is(err, ErrNonIntegerDim) {
@@ -148,16 +142,16 @@ func TestDivByZero(t *testing.T) {
 }
 
 // TestDerived builds the Hall density n = 1/(e |slope|) through Derived and
-// checks it against REFERENCE row 12 (2080.5 Ohm/T gives 3.0000e11 cm^-2)
+// checks it against [src:W12] (2080.5 Ohm/T gives 3.0000e11 cm^-2)
 // and its uncertainty against the closed form sigma_n = n sigma_s/s.
 func TestDerived(t *testing.T) {
 	slope := Uncertain(2080.5, 20.805, dimResistance.Div(dimField))
 	s := slope.Value()
 	n := Derived(1/(ElementaryCharge*s), Length.Pow(-2), []Quantity{slope}, []float64{-1 / (ElementaryCharge * s * s)})
-	if got, _ := n.In(MustUnit("cm^-2")); !near(got, 3.0000e11, 1e-4) {
-		t.Errorf("n = %g cm^-2, want 3.0000e11 (REFERENCE.md row 12)", got)
+	if got, _ := n.In(MustUnit("cm^-2")); !testutil.WithinRel(got, 3.0000e11, 1e-4) {
+		t.Errorf("n = %g cm^-2, want 3.0000e11 ([src:W12])", got)
 	}
-	if !near(n.Uncertainty()/n.Value(), 0.01, 1e-12) {
+	if !testutil.WithinRel(n.Uncertainty()/n.Value(), 0.01, 1e-12) {
 		t.Errorf("relative uncertainty %g, want 0.01", n.Uncertainty()/n.Value())
 	}
 	// Derived with a repeated input sums its partials: f = x + x.
@@ -187,10 +181,10 @@ func TestCovariance(t *testing.T) {
 	s := must(Add(x, y))
 	d := must(Sub(x, y))
 	// cov(x+y, x-y) = var x - var y.
-	if got, want := Covariance(s, d), 0.04-0.01; !near(got, want, 1e-14) {
+	if got, want := Covariance(s, d), 0.04-0.01; !testutil.WithinRel(got, want, 1e-14) {
 		t.Errorf("cov = %g, want %g", got, want)
 	}
-	if got := Correlation(x, x.Scale(-3)); !near(got, -1, 1e-15) {
+	if got := Correlation(x, x.Scale(-3)); !testutil.WithinRel(got, -1, 1e-15) {
 		t.Errorf("corr(x, -3x) = %g, want -1", got)
 	}
 	if got := Correlation(x, y); got != 0 {
@@ -214,10 +208,10 @@ func TestMonteCarlo(t *testing.T) {
 		draws[i] = 3*xv - 3*yv
 	}
 	sd := stat.StdDev(draws, nil)
-	if !near(f.Uncertainty(), sd, 0.02) {
+	if !testutil.WithinRel(f.Uncertainty(), sd, 0.02) {
 		t.Errorf("propagated %g, sampled %g", f.Uncertainty(), sd)
 	}
-	if want := math.Hypot(0.9, 0.6); !near(f.Uncertainty(), want, 1e-14) {
+	if want := math.Hypot(0.9, 0.6); !testutil.WithinRel(f.Uncertainty(), want, 1e-14) {
 		t.Errorf("propagated %g, want %g", f.Uncertainty(), want)
 	}
 }
@@ -227,12 +221,12 @@ func TestMonteCarlo(t *testing.T) {
 func TestUncertaintyExtremeScales(t *testing.T) {
 	a := Uncertain(9e-31, 3e-200, Mass)
 	b := Uncertain(9e-31, 4e-200, Mass)
-	if got := must(Add(a, b)).Uncertainty(); !near(got, 5e-200, 1e-14) {
+	if got := must(Add(a, b)).Uncertainty(); !testutil.WithinRel(got, 5e-200, 1e-14) {
 		t.Errorf("tiny: %g, want 5e-200", got)
 	}
 	c := Uncertain(1e300, 3e200, Mass)
 	d := Uncertain(1e300, 4e200, Mass)
-	if got := must(Add(c, d)).Uncertainty(); !near(got, 5e200, 1e-14) {
+	if got := must(Add(c, d)).Uncertainty(); !testutil.WithinRel(got, 5e200, 1e-14) {
 		t.Errorf("huge: %g, want 5e200", got)
 	}
 }

@@ -1,6 +1,7 @@
 package quantity
 
 import (
+	"cleave/internal/testutil"
 	"errors"
 	"fmt"
 	"math"
@@ -15,7 +16,8 @@ import (
 //     Table 8 (non-SI units accepted for use with the SI). Table numbers from
 //     memory.
 //   - [CODATA18]: CODATA 2018 recommended values (Tiesinga, Mohr, Newell,
-//     Taylor 2020; NIST web version 8.1), as listed in REFERENCE.md §1.
+//     Taylor 2020; NIST web version 8.1), listed in calc/SOURCES.md
+//     [src:CODATA2018].
 //   - [CGS]: the gauss is 1e-4 T and the ångström 1e-10 m (SI Brochure, 8th
 //     ed., 2006, Tables 8 and 9 (from memory)).
 //   - [TORR]: 1 Torr = 101325/760 Pa by definition of the torr as 1/760 of
@@ -89,9 +91,9 @@ func TestUnitTable(t *testing.T) {
 		{"deg", math.Pi / 180, Dimensionless, "[SI9] Table 8: 1° = π/180 rad"},
 		{"%", 0.01, Dimensionless, "per cent (common practice)"},
 		{"1", 1, Dimensionless, "the number one"},
-		{"cm^-2", 1e4, Length.Pow(-2), "REFERENCE.md: 1 cm^-2 = 1e4 m^-2"},
+		{"cm^-2", 1e4, Length.Pow(-2), "[SI9] Table 7: (1e-2)^-2 = 1e4"},
 		{"cm^-3", 1e6, Length.Pow(-3), "[SI9] Table 7, cubed"},
-		{"cm^2/(V s)", 1e-4, dimMobility, "REFERENCE.md: 1 cm^2/Vs = 1e-4 m^2/Vs"},
+		{"cm^2/(V s)", 1e-4, dimMobility, "[SI9] Table 7: (1e-2)^2 = 1e-4"},
 		{"cm^2 V^-1 s^-1", 1e-4, dimMobility, "same unit, product form"},
 		{"nF/cm^2", 1e-5, dimCapacit.Div(Length.Pow(2)), "[SI9] Table 7: 1e-9/1e-4"},
 		{"Ohm/T", 1, dimResistance.Div(dimField), "Hall slope"},
@@ -113,7 +115,7 @@ func TestUnitTable(t *testing.T) {
 			if u.D != tt.d {
 				t.Errorf("dimension %v, want %v (%s)", u.D, tt.d, tt.source)
 			}
-			if !near(u.Scale, tt.si, 4e-16) {
+			if !testutil.WithinRel(u.Scale, tt.si, 4e-16) {
 				t.Errorf("scale %.17g, want %.17g (%s)", u.Scale, tt.si, tt.source)
 			}
 		})
@@ -135,7 +137,7 @@ func TestDerivedUnitIdentities(t *testing.T) {
 		if err1 != nil || err2 != nil {
 			t.Fatalf("%v %v", err1, err2)
 		}
-		if a.D != b.D || !near(a.Scale, b.Scale, 1e-15) {
+		if a.D != b.D || !testutil.WithinRel(a.Scale, b.Scale, 1e-15) {
 			t.Errorf("%s = %v×%g, %s = %v×%g", p[0], a.D, a.Scale, p[1], b.D, b.Scale)
 		}
 	}
@@ -205,7 +207,7 @@ func TestMustUnitPanics(t *testing.T) {
 func TestIn(t *testing.T) {
 	// 1 T = 1e4 G ([CGS]).
 	b := New(1, dimField)
-	if got, err := b.In(MustUnit("G")); err != nil || !near(got, 1e4, 1e-15) {
+	if got, err := b.In(MustUnit("G")); err != nil || !testutil.WithinRel(got, 1e4, 1e-15) {
 		t.Errorf("1 T in G = %g, %v", got, err)
 	}
 	if _, err := b.In(MustUnit("m")); !errors.Is(err, ErrDimMismatch) {
@@ -217,31 +219,31 @@ func TestIn(t *testing.T) {
 	}
 }
 
-// TestTradeChecks runs worked values of REFERENCE.md §5 through the unit
-// machinery (constants as in [CODATA18]).
+// TestTradeChecks runs worked values of calc/SOURCES.md ([src:W3] and so on)
+// through the unit machinery (constants as in [CODATA18]).
 func TestTradeChecks(t *testing.T) {
 	const e, hbar, h = 1.602176634e-19, 1.0545718176461565e-34, 6.62607015e-34
 	q := func(s string) Quantity { return must(ParseQuantity(s)) }
 	in := func(x Quantity, u string) float64 { return mustIn(t, x, u) }
 	charge := New(e, dimCharge)
 
-	// Row 3: hbar e B/m* at 1 T with m* = 0.067 m_e is 1.72788 meV.
+	// [src:W3]: hbar e B/m* at 1 T with m* = 0.067 m_e is 1.72788 meV.
 	E := Div(Mul(New(hbar, dimEnergy.Mul(Time)), Mul(charge, q("1 T"))), q("0.067 m_e"))
-	if got := in(E, "meV"); !near(got, 1.72788, 1e-5) {
+	if got := in(E, "meV"); !testutil.WithinRel(got, 1.72788, 1e-5) {
 		t.Errorf("hbar omega_c = %g meV, want 1.72788", got)
 	}
-	// Row 9: mu = 1/(e n rho) with n = 3e11 cm^-2, rho = 10 Ohm is 2.0805e6 cm^2/(V s).
+	// [src:W9]: mu = 1/(e n rho) with n = 3e11 cm^-2, rho = 10 Ohm is 2.0805e6 cm^2/(V s).
 	mu := Div(Scalar(1), Mul(charge, Mul(q("3e11 cm^-2"), q("10 Ohm"))))
-	if got := in(mu, "cm^2/(V s)"); !near(got, 2.0805e6, 1e-4) {
+	if got := in(mu, "cm^2/(V s)"); !testutil.WithinRel(got, 2.0805e6, 1e-4) {
 		t.Errorf("mu = %g cm^2/(V s), want 2.0805e6", got)
 	}
-	// Row 4: nu = n h/(e B) at 5 T is 2.4814, dimensionless.
+	// [src:W4]: nu = n h/(e B) at 5 T is 2.4814, dimensionless.
 	nu := Div(Mul(q("3e11 cm^-2"), New(h, dimEnergy.Mul(Time))), Mul(charge, q("50 kG")))
-	if !nu.Dim().IsDimensionless() || !near(nu.Value(), 2.4814, 1e-4) {
+	if !nu.Dim().IsDimensionless() || !testutil.WithinRel(nu.Value(), 2.4814, 1e-4) {
 		t.Errorf("nu = %v, want 2.4814", nu)
 	}
-	// Row 15: Delta(1/B) = 0.161199 T^-1, asked for explicitly.
-	if got := in(q("1612.0 cm^2/(V s)"), "T^-1"); !near(got, 0.16120, 1e-12) {
+	// [src:W15]: Delta(1/B) = 0.161199 T^-1, asked for explicitly.
+	if got := in(q("1612.0 cm^2/(V s)"), "T^-1"); !testutil.WithinRel(got, 0.16120, 1e-12) {
 		t.Errorf("1612 cm^2/(V s) in T^-1 = %g", got)
 	}
 }
@@ -262,7 +264,7 @@ func TestEngineering(t *testing.T) {
 		base string
 		want string
 	}{
-		// f_c = 417.80 GHz per T for GaAs (REFERENCE.md §2.2).
+		// f_c = 417.80 GHz per T for GaAs [src:W3].
 		{4.178e11, dimFrequency, "Hz", "GHz"},
 		{17.7, dimFrequency, "Hz", "Hz"},
 		{1e-8, Current, "A", "nA"},
@@ -326,7 +328,7 @@ func TestUnitCompositionProperty(t *testing.T) {
 		if err != nil {
 			t.Fatalf("ParseUnit(%q): %v", in, err)
 		}
-		if u.D != d || !near(u.Scale, scale, 1e-13) {
+		if u.D != d || !testutil.WithinRel(u.Scale, scale, 1e-13) {
 			t.Fatalf("ParseUnit(%q) = %v × %g, want %v × %g", in, u.D, u.Scale, d, scale)
 		}
 	}

@@ -11,11 +11,13 @@ import (
 	"strings"
 	"testing"
 	"testing/iotest"
+
+	"gonum.org/v1/gonum/floats"
 )
 
 // TestSdHBinnedCoverage: long sweeps go through the binned path of SdHDensity
 // (more than sdhRawMax points in the window). Synthetic data from the low-field
-// SdH model (REFERENCE §2.11) with known density: over 50 seeds the true
+// SdH model [src:CSF1989] with known density: over 50 seeds the true
 // density lies within ±2σ in at least 85 % of them, and the reported σ agrees
 // with the actual scatter of the estimates (ratio 0.7–1.4), so binning neither
 // hides nor inflates the uncertainty.
@@ -60,7 +62,7 @@ func TestSdHBinnedCoverage(t *testing.T) {
 // through the binned path, including a high SdH frequency for which the first
 // 4096 bins give fewer than 16 bins per period, so the bins must be refined.
 // The SdH frequency of n = 3e12 cm^-2 with g_s = 2 is h n/(2e) = 62.04 T
-// (closed form, CODATA 2018 h and e; 10× REFERENCE §5 row 15).
+// (closed form, CODATA 2018 h and e; 10× [src:W15]).
 func TestSdHBinnedRecovery(t *testing.T) {
 	t.Parallel()
 	tests := []struct {
@@ -70,7 +72,7 @@ func TestSdHBinnedRecovery(t *testing.T) {
 		tol        float64
 		bins       string // expected in Method
 	}{
-		{"row 15 noise-free, 10^5 points", func(p *SweepParams) { p.Noise, p.Points = 0, 100_001 }, 0.3, 1, 1e-3, "in 4096 bins"},
+		{"W15 ×10 noise-free, 10^5 points", func(p *SweepParams) { p.Noise, p.Points = 0, 100_001 }, 0.3, 1, 1e-3, "in 4096 bins"},
 		{"noisy ±B up-down, 10^5 points", func(p *SweepParams) { p.Noise, p.BStart, p.UpDown, p.Points = 2, -1, true, 50_001 }, 0.3, 1, 0.01, "in 4096 bins"},
 		{"3e12 cm^-2, 62 T, 560 periods", func(p *SweepParams) {
 			p.Density, p.QuantumLifetime, p.Temperature, p.Noise, p.Points = 3e16, 1e-11, 0.05, 0.5, 200_001
@@ -117,25 +119,13 @@ func TestSelectPairs(t *testing.T) {
 	}
 	for _, tc := range tests {
 		bx, by, bs := selectPairs(x, y, tc.sig, 0.5, 2)
-		if !equalNaN(bx, tc.wx) || !equalNaN(by, tc.wy) || !equalNaN(bs, tc.ws) || (tc.sig == nil) != (bs == nil) {
+		if !floats.Same(bx, tc.wx) || !floats.Same(by, tc.wy) || !floats.Same(bs, tc.ws) || (tc.sig == nil) != (bs == nil) {
 			t.Errorf("%s: selectPairs = %v %v %v, want %v %v %v", tc.name, bx, by, bs, tc.wx, tc.wy, tc.ws)
 		}
 	}
 	if ax, ay, as := selectPairs(x, y, s, 5, 6); ax != nil || ay != nil || as != nil {
 		t.Errorf("empty selection = %v %v %v, want nil slices", ax, ay, as)
 	}
-}
-
-func equalNaN(a, b []float64) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for i := range a {
-		if a[i] != b[i] && !(math.IsNaN(a[i]) && math.IsNaN(b[i])) {
-			return false
-		}
-	}
-	return true
 }
 
 // TestScanFloatMatchesStrconv: whenever the fast path of the row parser accepts
@@ -270,7 +260,7 @@ func TestReadSizeHint(t *testing.T) {
 				t.Errorf("%d rows, %s: %d rows, hash %s; want %d, %s", rows, name, got.Len(), got.Hash, want.Len(), want.Hash)
 			}
 			for c := range want.Columns {
-				if !equalNaN(got.Columns[c].Values, want.Columns[c].Values) {
+				if !floats.Same(got.Columns[c].Values, want.Columns[c].Values) {
 					t.Errorf("%d rows, %s: column %s differs", rows, name, want.Columns[c].Name)
 				}
 				if v := got.Columns[c].Values; cap(v) != len(v) {

@@ -15,10 +15,10 @@ type Comparison struct {
 
 // CompareDensities compares a Hall and an SdH density. They disagree when the
 // difference exceeds twice the combined standard uncertainty (coverage factor
-// k = 2) and also the 5 % practical tolerance (common practice, REFERENCE §6).
+// k = 2) and also the 5 % practical tolerance (common practice).
 // A Hall density above the SdH one points to a parallel channel (a doping
 // layer, a second subband or a surface layer), since SdH counts only the
-// quantised high-mobility channel (PRACTICE §2).
+// quantised high-mobility channel [src:GRAYSON2005].
 func CompareDensities(hall *HallResult, sdh *SdHResult) Comparison {
 	h, s := hall.Density, sdh.Density
 	c := Comparison{Diff: Estimate{h.Value - s.Value, math.Hypot(h.Uncertainty, s.Uncertainty)}}

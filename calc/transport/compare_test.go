@@ -2,7 +2,7 @@ package transport
 
 import "testing"
 
-// TestCompareDensities: a parallel layer (two-carrier Drude, REFERENCE §2.6)
+// TestCompareDensities: a parallel layer (two-carrier Drude, [src:IHN2010])
 // raises the high-field Hall density above the SdH density of the main channel.
 func TestCompareDensities(t *testing.T) {
 	t.Parallel()

@@ -44,13 +44,13 @@ const MinDingleExtrema = 3
 // mass mstar (kg), density n (m^-2; used to check the oscillation frequency,
 // 0 to skip) and temperature T (K).
 //
-// Method (REFERENCE §2.13; Coleridge, Stoner & Fletcher 1989): the smooth
-// background R_0(B) (a polynomial in B, degree from WithBackground, as in
-// SdHDensity) is removed; the extrema of the oscillatory part ΔR are placed
-// using the SdH frequency of the data (SdHDensity; the frequency
-// h n/(2e)/g_v from n when that analysis fails) and each is measured by a local
-// least-squares sinusoid over one period centred on it. Extrema with |ΔR| < 2σ are
-// dropped. The Dingle plot
+// Method (the Dingle plot [src:DINGLE1952] as Coleridge, Stoner & Fletcher
+// 1989 use it [src:CSF1989]): the smooth background R_0(B) (a polynomial in
+// B, degree from WithBackground, as in SdHDensity) is removed; the extrema of
+// the oscillatory part ΔR are placed using the SdH frequency of the data
+// (SdHDensity; the frequency h n/(2e)/g_v from n when that analysis fails)
+// and each is measured by a local least-squares sinusoid over one period
+// centred on it. Extrema with |ΔR| < 2σ are dropped. The Dingle plot
 //
 //	y = ln[|ΔR| sinh X / (4 R_0 X)],  X = 2π² k_B T m*/(ħ e B),
 //
@@ -62,8 +62,9 @@ const MinDingleExtrema = 3
 //
 // With WithMobility, τ_t = μ m*/e and the Dingle ratio τ_t/τ_q are reported.
 // Warnings: an intercept beyond 3σ and beyond ln 2 from 0 (density
-// inhomogeneity or a wrong prefactor), τ_t/τ_q < 0.8 (REFERENCE §6), a data
-// frequency more than 5 % from the one of n, dropped extrema.
+// inhomogeneity or a wrong prefactor), τ_t/τ_q < 0.8 (theory allows no less
+// than 1/2 [src:DSS1985]; the bound 0.8 is common practice), a data frequency
+// more than 5 % from the one of n, dropped extrema.
 func QuantumLifetime(d *Dataset, bmin, bmax, mstar, n, T float64, opts ...Option) (*DingleResult, error) {
 	o := newOptions(opts)
 	switch {
@@ -166,7 +167,7 @@ func QuantumLifetime(d *Dataset, bmin, bmax, mstar, n, T float64, opts ...Option
 		res.DingleRatio = Estimate{ratio, ratio * math.Hypot(o.ext.mobilitySigma/mu, rel)}
 		if ratio < 0.8 {
 			res.Warnings = append(res.Warnings, Warning{WarnDingleRatio, fmt.Sprintf(
-				"τ_t/τ_q = %.3g < 0.8: it needs dominant backscattering, so an analysis error (mass, temperature, mobility, field range) is more likely (REFERENCE §6)", ratio)})
+				"τ_t/τ_q = %.3g < 0.8: it needs dominant backscattering, so an analysis error (mass, temperature, mobility, field range) is more likely (common practice)", ratio)})
 		}
 	}
 	if math.Abs(c.Value) > 3*c.Uncertainty && math.Abs(c.Value) > math.Ln2 {

@@ -10,7 +10,7 @@ import (
 	"cleave/calc/quantity"
 )
 
-// dingleSweep is an invented GaAs 2DEG (m* = 0.067 m_e, REFERENCE §4) with
+// dingleSweep is an invented GaAs 2DEG (m* = 0.067 m_e [src:VURGAFTMAN2001]) with
 // n = 3e11 cm^-2, μ = 1e6 cm^2/(V s), τ_q = 1 ps at 1.5 K, 0.15–1 T, 6000
 // points, 5 squares (R_0 ≈ 104 Ohm), Gaussian noise 0.05 Ohm.
 func dingleSweep(seed uint64) SweepParams {
@@ -19,8 +19,8 @@ func dingleSweep(seed uint64) SweepParams {
 	return p
 }
 
-// TestDingleClosedForms checks the float helpers against REFERENCE §5 rows 16
-// and 17 (computed from CODATA 2018) and against package physics.
+// TestDingleClosedForms checks the float helpers against [src:W16] and [src:W17]
+// (computed from CODATA 2018) and against package physics.
 func TestDingleClosedForms(t *testing.T) {
 	t.Parallel()
 	m := 0.067 * mE
@@ -28,21 +28,21 @@ func TestDingleClosedForms(t *testing.T) {
 		name      string
 		got, want float64
 	}{
-		// Row 16: X = 14.6932·0.067·1.5/1 = 1.47666, X/sinh X = 0.71166; at 4.2 K 0.13241.
+		// W16: X = 14.6932·0.067·1.5/1 = 1.47666, X/sinh X = 0.71166; at 4.2 K 0.13241.
 		{"X at 1.5 K, 1 T", lkArgument(1.5, 1, m), 1.47666},
 		{"X/sinh X at 1.5 K, 1 T", ThermalDamping(1.5, 1, m), 0.71166},
 		{"X/sinh X at 4.2 K, 1 T", ThermalDamping(4.2, 1, m), 0.13241},
-		// Row 17: τ_q = 1 ps, 1 T: Dingle factor 0.30217, T_D = 1.21566 K.
+		// W17: τ_q = 1 ps, 1 T: Dingle factor 0.30217, T_D = 1.21566 K.
 		{"Dingle factor", DingleFactor(1, m, 1e-12), 0.30217},
 		{"Dingle temperature", hbar / (2 * math.Pi * kB * 1e-12), 1.21566},
-		// Row 17: Dingle-plot slope −π m*/(e τ_q) = −1.19675 T.
+		// W17: Dingle-plot slope −π m*/(e τ_q) = −1.19675 T.
 		{"Dingle slope", -math.Pi * m / (qe * 1e-12), -1.19675},
 		// Rows 10 and 17: τ_t at μ = 1e6 cm^2/(V s) is 38.094 ps, τ_t/τ_q = 38.094.
 		{"transport time", 100 * m / qe, 38.094e-12},
 	}
 	for _, c := range cases {
 		if math.Abs(c.got-c.want) > 1e-4*math.Abs(c.want) {
-			t.Errorf("%s = %.6g, want %.6g (REFERENCE §5)", c.name, c.got, c.want)
+			t.Errorf("%s = %.6g, want %.6g ([src:W16], [src:W17])", c.name, c.got, c.want)
 		}
 	}
 	// The same factors from package physics (on quantities) agree to rounding.
@@ -97,7 +97,7 @@ func TestQuantumLifetimeRecovery(t *testing.T) {
 		if got := r.DingleRatio.Value; math.Abs(got-c.wantRat) > 0.03*c.wantRat {
 			t.Errorf("%s: τ_t/τ_q = %v, want %g", c.name, r.DingleRatio, c.wantRat)
 		}
-		// T_D·τ_q = ħ/(2π k_B) = 1.21566 K ps (REFERENCE §2.13).
+		// T_D·τ_q = ħ/(2π k_B) = 1.21566 K ps ([src:DINGLE1952], [src:W17]).
 		if got := r.DingleTemperature.Value * r.QuantumLifetime.Value; math.Abs(got-1.21566e-12) > 1e-4*1.21566e-12 {
 			t.Errorf("%s: T_D τ_q = %g", c.name, got)
 		}

@@ -68,7 +68,8 @@
 //
 // [SdHFrequency], [DensityFromSdH], [ThermalDamping] and [DingleFactor] are
 // the closed forms the analyses use. Each function's comment states its
-// method, its units and the reference it follows (REFERENCE sections).
+// method, its units and the reference it follows, by name or as a key of
+// calc/SOURCES.md ([src:KEY]).
 //
 // # Uncertainties
 //
@@ -125,7 +126,7 @@
 // # Sign convention
 //
 // With B along +z, the current along +x and ρ_xy = E_y/j_x, the Drude model
-// gives ρ_xy = B/(q n): a negative Hall slope means electrons (REFERENCE §2.6).
+// gives ρ_xy = B/(q n): a negative Hall slope means electrons [src:IHN2010].
 // Densities always use |slope|.
 //
 // # Not covered here

@@ -9,7 +9,7 @@ import (
 type FanResult struct {
 	Density   Estimate // n = (e/h)·slope, m^-2
 	Slope     Estimate // dν/d(1/B) = n h/e, T (the SdH frequency times g_s g_v)
-	Intercept Estimate // ν at 1/B → 0: ≈ 0 for a 2D gas with a parabolic band; a Berry phase shifts it (graphene: REFERENCE §2.15)
+	Intercept Estimate // ν at 1/B → 0: ≈ 0 for a 2D gas with a parabolic band; a Berry phase shifts it (graphene: [src:NOVOSELOV2005])
 	Points    int
 	Fit       *PolyFit
 	Warnings  []Warning
@@ -21,7 +21,7 @@ const WarnFanIntercept = "fan-intercept"
 
 // LandauFan fits the Landau fan ν = (h n/e)(1/B) + ν₀ to the fields B (T) at which the
 // filling factors nu are reached (R_xx minima, or plateau centres), and returns the density
-// from the slope (REFERENCE §2.3 and §2.11: ν = n h/(e B)). sigmaB, if not nil, gives the
+// from the slope (ν = n h/(e B), [src:AFS1982]). sigmaB, if not nil, gives the
 // standard uncertainty of each field; it is carried to 1/B as σ/B². Fewer than 3 points,
 // mismatched lengths or a non-positive field are errors.
 func LandauFan(B, nu, sigmaB []float64) (*FanResult, error) {

@@ -8,7 +8,7 @@ import (
 )
 
 func TestLandauFan(t *testing.T) {
-	// REFERENCE.md §5 row 5 (CODATA 2018 h and e): for n = 3.0e11 cm^-2 the filling factor
+	// [src:W5] (CODATA 2018 h and e): for n = 3.0e11 cm^-2 the filling factor
 	// ν is reached at B = n h/(e ν): 12.407 T at ν = 1 and 6.2035 T at ν = 2.
 	n := 3e15
 	var B, nu []float64
@@ -17,7 +17,7 @@ func TestLandauFan(t *testing.T) {
 		nu = append(nu, v)
 	}
 	if math.Abs(B[0]-6.2035) > 1e-3 {
-		t.Fatalf("B(ν=2) = %g, REFERENCE row 5 says 6.2035 T", B[0])
+		t.Fatalf("B(ν=2) = %g, [src:W5] says 6.2035 T", B[0])
 	}
 	r, err := LandauFan(B, nu, nil)
 	if err != nil {
@@ -31,7 +31,7 @@ func TestLandauFan(t *testing.T) {
 	}
 
 	// Graphene's Berry phase puts the fan's intercept at ν = 2 for ν = 4(N + 1/2)
-	// (REFERENCE §2.15): the fit reports it and warns.
+	// [src:NOVOSELOV2005]: the fit reports it and warns.
 	B, nu = nil, nil
 	for _, N := range []float64{1, 2, 3, 4, 5} {
 		v := 4 * (N + 0.5)

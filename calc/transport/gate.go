@@ -11,7 +11,7 @@ var eps0 = constants.Value("eps_0") // vacuum permittivity, F/m (CODATA 2018 via
 
 // ParallelPlateCapacitance returns the geometric gate capacitance per area
 // C = ε_r ε_0/d (F/m²) of a gate at distance d (m) from the 2D channel through
-// a dielectric of relative permittivity ε_r (REFERENCE §3, row 24). The
+// a dielectric of relative permittivity ε_r (Gauss's law; [src:W24]). The
 // density then changes by dn/dV_g = C/e.
 func ParallelPlateCapacitance(epsR, d float64) float64 { return epsR * eps0 / d }
 
@@ -27,7 +27,7 @@ type GateResult struct {
 
 // WarnGateCurvature is raised when n(V_g) bends (a significant quadratic term):
 // density saturation, a second subband, quantum capacitance or leakage
-// (PRACTICE §2; common practice).
+// (common practice).
 const WarnGateCurvature = "gate-curvature"
 
 // GateCapacitance fits n = C(V_g − V_th)/e to densities n (m^-2) measured at
@@ -96,7 +96,7 @@ type PowerLawResult struct {
 // ln(n/n_ref) over nmin ≤ n ≤ nmax (m^-2; nmax may be +Inf) and returns α with
 // its standard uncertainty from the fit covariance; n_ref is the geometric
 // mean of the densities used, which decorrelates α and μ_ref. The exponent
-// is a hint about the dominant scattering, not a verdict (PRACTICE §2).
+// is a hint about the dominant scattering, not a verdict [src:DSH2013].
 // Fewer than 3 points in range, non-positive values inside it, or mismatched
 // lengths are errors.
 func MobilityPowerLaw(n, mu []float64, nmin, nmax float64) (*PowerLawResult, error) {

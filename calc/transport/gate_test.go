@@ -7,10 +7,10 @@ import (
 	"testing"
 )
 
-// TestParallelPlateRow24: d = 100 nm, ε_r = 12.9 (GaAs, REFERENCE §4, Ioffe):
+// TestParallelPlateW24: d = 100 nm, ε_r = 12.9 (GaAs, [src:IOFFE1996]):
 // C = 114.22 nF/cm² = 1.1422e-3 F/m², dn/dV = 7.1290e11 cm^-2/V, n = 3.5645e11
-// cm^-2 at V_g − V_th = 0.5 V (REFERENCE §5 row 24, CODATA 2018 ε_0 and e).
-func TestParallelPlateRow24(t *testing.T) {
+// cm^-2 at V_g − V_th = 0.5 V ([src:W24], CODATA 2018 ε_0 and e).
+func TestParallelPlateW24(t *testing.T) {
 	t.Parallel()
 	c := ParallelPlateCapacitance(12.9, 100e-9)
 	for _, k := range []struct {
@@ -69,7 +69,7 @@ func TestGateCapacitanceRecovery(t *testing.T) {
 }
 
 // TestMobilityPowerLaw: μ = 50 m^2/(V s)·(n/1e15)^α·exp(0.02 N(0,1)) for
-// α = 1.5 and 0.7 (remote-impurity and flatter regimes; PRACTICE §2);
+// α = 1.5 and 0.7 (remote-impurity and flatter regimes; [src:DSH2013]);
 // α within 4σ, σ < 0.05.
 func TestMobilityPowerLaw(t *testing.T) {
 	t.Parallel()

@@ -29,7 +29,7 @@ const MinHallPoints = 5
 // and returns the sheet density n = 1/(e|s|) with its standard uncertainty
 // σ_n = n σ_s/|s| from the slope's residual-based standard error.
 //
-// Sign convention (REFERENCE §2.6): with B along +z, current along +x and
+// Sign convention ([src:IHN2010]): with B along +z, current along +x and
 // ρ_xy = E_y/j_x, Drude gives ρ_xy = B/(q n), so a negative slope means
 // electrons and a positive one holes. Whether the file follows this convention
 // depends on the wiring and the magnet polarity, which the notebook records.
@@ -38,7 +38,7 @@ const MinHallPoints = 5
 // in the range is an error wrapping ErrTooFewPoints. WithSigma weights the fit.
 //
 // Warnings: curvature (a significant quadratic term on one-sided data, or a
-// cubic term on ±B data: parallel conduction or a second subband, REFERENCE §2.6),
+// cubic term on ±B data: parallel conduction or a second subband, [src:IHN2010]),
 // an even part on ±B data (R_xx pick-up; antisymmetrize first), an intercept
 // far from 0 (probe misalignment), and a large out-of-phase lock-in column.
 // A term is "significant" when it exceeds 3 standard errors and changes R_xy at
@@ -142,8 +142,8 @@ const WarnDensityRange = "density-range"
 
 // PlausibleDensity is the range of sheet densities, m^-2, of the 2D systems
 // cleave's users measure: 1e9 to 1e14 cm^-2, a decade beyond the dilute GaAs
-// and the densest gated graphene or Si samples on either side (REFERENCE §6
-// lists 1e10–1e12 cm^-2 for GaAs; the wider bounds are common practice).
+// and the densest gated graphene or Si samples on either side (GaAs 2D gases
+// span 1e10–1e12 cm^-2; both ranges are common practice).
 var PlausibleDensity = [2]float64{1e13, 1e18}
 
 // densityRange warns about a density outside PlausibleDensity. A factor of

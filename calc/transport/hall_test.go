@@ -8,9 +8,9 @@ import (
 	"testing"
 )
 
-// TestHallWorkedExample: REFERENCE §5 row 12, n = 3.0e11 cm^-2 ↔ |dR_xy/dB| =
+// TestHallWorkedExample: [src:W12], n = 3.0e11 cm^-2 ↔ |dR_xy/dB| =
 // 1/(e n) = 2080.5 Ohm/T (CODATA 2018 e). Noise-free data from the Drude model,
-// so the only error is rounding: 1e-4 relative as REFERENCE §5 allows.
+// so the only error is rounding: 1e-4 relative, as the 5-6 digits of W12 allow.
 func TestHallWorkedExample(t *testing.T) {
 	t.Parallel()
 	p := gaas()
@@ -115,7 +115,7 @@ func TestHallWarnings(t *testing.T) {
 	}{
 		{"clean", func(p *SweepParams) {}, 0, 0.5, nil},
 		// A parallel layer of 2e11 cm^-2 at 1e4 cm^2/(V s) bends R_xy between
-		// its low-field and high-field limits (two-carrier Drude, REFERENCE §2.6).
+		// its low-field and high-field limits (two-carrier Drude, [src:IHN2010]).
 		{"parallel layer", func(p *SweepParams) { p.Parallel = &ParallelChannel{Density: 2e15, Mobility: 1} }, 0, 2, []string{WarnCurvature}},
 		// Single-carrier Drude R_xx is flat at low field, so pick-up shows as an offset.
 		{"pick-up on ±B", func(p *SweepParams) { p.Pickup, p.BStart = 0.5, -1 }, 0, 0.5, []string{WarnOffset}},

@@ -33,7 +33,7 @@ const MinLKPoints = 3
 //
 //	A(T) = A0 · X/sinh X,  X = 2π² k_B T m*/(ħ e B)
 //
-// (REFERENCE §2.12; Lifshitz & Kosevich 1956) by least squares in (A0, m*).
+// (Lifshitz & Kosevich 1956 [src:LK1956]) by least squares in (A0, m*).
 // A0 enters linearly and is solved for at each m*; m* is found by a scan of
 // m*/m_e on a log grid from 1e-3 to 10 followed by a golden-section search,
 // then polished by Gauss–Newton. The standard uncertainties come from the

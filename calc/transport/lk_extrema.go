@@ -201,16 +201,16 @@ func xOverSinh(x float64) float64 {
 	return x / math.Sinh(x)
 }
 
-// lkArgument returns X = 2π² k_B T m/(ħ e B) (REFERENCE §2.12), m in kg.
+// lkArgument returns X = 2π² k_B T m/(ħ e B) [src:LK1956], m in kg.
 func lkArgument(T, B, m float64) float64 {
 	return 2 * math.Pi * math.Pi * kB * T * m / (hbar * qe * B)
 }
 
 // ThermalDamping returns the Lifshitz–Kosevich factor X/sinh X with
 // X = 2π² k_B T m/(ħ e B) for temperature T (K), field B (T) and effective
-// mass m (kg) (REFERENCE §2.12).
+// mass m (kg) [src:LK1956].
 func ThermalDamping(T, B, m float64) float64 { return xOverSinh(lkArgument(T, B, m)) }
 
 // DingleFactor returns exp(−π m/(e B τ_q)) for field B (T), effective mass m
-// (kg) and quantum lifetime τ_q (s) (REFERENCE §2.13; Dingle 1952).
+// (kg) and quantum lifetime τ_q (s) (Dingle 1952 [src:DINGLE1952]).
 func DingleFactor(B, m, tauQ float64) float64 { return math.Exp(-math.Pi * m / (qe * B * tauQ)) }

@@ -10,7 +10,7 @@ import (
 
 var lkTemps = []float64{0.5, 1, 1.5, 2.2, 3, 4}
 
-// TestLKMassTableExact: amplitudes from the LK form itself (REFERENCE §2.12)
+// TestLKMassTableExact: amplitudes from the LK form itself [src:LK1956]
 // at several masses and fields; the fit must return m* to 1e-6 (the golden
 // section stops at 1e-12 in ln m*; Gauss–Newton polishes).
 func TestLKMassTableExact(t *testing.T) {
@@ -35,10 +35,10 @@ func TestLKMassTableExact(t *testing.T) {
 	}
 }
 
-// TestLKRow16: the ratio of amplitudes at 4.2 K and 1.5 K at 1 T for GaAs is
-// 0.13241/0.71166 (REFERENCE §5 row 16); a two-temperature table plus the
+// TestLKW16: the ratio of amplitudes at 4.2 K and 1.5 K at 1 T for GaAs is
+// 0.13241/0.71166 ([src:W16]); a two-temperature table plus the
 // T → 0 limit must give back m* = 0.067.
-func TestLKRow16(t *testing.T) {
+func TestLKW16(t *testing.T) {
 	t.Parallel()
 	r, err := LKMassTable([]float64{1e-3, 1.5, 4.2}, []float64{1, 0.71166, 0.13241}, 1)
 	if err != nil {

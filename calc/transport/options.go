@@ -101,7 +101,7 @@ func column(d *Dataset, name string, wantDim quantity.Dim) (*Column, error) {
 // ycol+"_Y", ycol+"Y", ycol with a trailing "_X"/"X" replaced by "_Y"/"Y", or a lone "Y".
 // It warns when the RMS of Y exceeds frac times the RMS of X over the same
 // points (common practice: a large out-of-phase signal means capacitive
-// coupling or resistive contacts; REFERENCE §6).
+// coupling or resistive contacts).
 func outOfPhase(d *Dataset, xc, yc *Column, lo, hi, frac float64) *Warning {
 	cands := []string{yc.Name + "_Y", yc.Name + "Y"}
 	if n := yc.Name; len(n) > 2 && strings.EqualFold(n[len(n)-2:], "_X") {

@@ -46,7 +46,7 @@ type PlateauResult struct {
 	Warnings   []Warning // all plateau warnings, prefixed with the field range
 }
 
-// Plateaus finds quantum Hall plateaus in R_xy (REFERENCE §2.10; von
+// Plateaus finds quantum Hall plateaus in R_xy ([src:KDP1980]; von
 // Klitzing, Dorda & Pepper 1980): stretches of at least MinWidth where the
 // local slope dR_xy/dB (a least-squares line over ±Window around each point)
 // is small compared with the classical Hall slope R_xy/B:
@@ -56,7 +56,7 @@ type PlateauResult struct {
 // R_K/|R_xy| with R_K = h/e² (exact, CODATA 2018), the nearest integer ν (or
 // simple fraction with Fractions), and the relative deviation from R_K/ν.
 //
-// Warnings (REFERENCE §6): a deviation above 1e-3; R_xx over the plateau not
+// Warnings (common practice): a deviation above 1e-3; R_xx over the plateau not
 // near 0 (parallel conduction or heating); a ν outside the range of
 // n h/(e|B|) over the plateau widened by 1/2 (when Density is given). Too few
 // points is an error wrapping ErrTooFewPoints; finding no plateau is not an
@@ -212,7 +212,7 @@ func makePlateau(sign int, b0, b1 float64, rs, xs []float64, ref float64, opt Pl
 	pl.Deviation = math.Abs(mean)*nu/rK - 1
 	if math.Abs(pl.Deviation) > 1e-3 {
 		pl.Warnings = append(pl.Warnings, Warning{WarnPlateauDev, fmt.Sprintf(
-			"|R_xy| = %.6g ± %.2g Ohm deviates by %.2g from R_K/ν = %.6g Ohm (ν = %s; bound 1e-3, REFERENCE §6)",
+			"|R_xy| = %.6g ± %.2g Ohm deviates by %.2g from R_K/ν = %.6g Ohm (ν = %s; bound 1e-3, common practice)",
 			math.Abs(mean), pl.Rxy.Uncertainty, pl.Deviation, rK/nu, pl.nuString())})
 	}
 	if len(xs) > 0 {

@@ -19,9 +19,9 @@ func qhSweep(t *testing.T) (*Dataset, SweepParams) {
 	return d, p
 }
 
-// TestHallResistanceRow19: R_K/ν from CODATA 2018 (exact h and e) against
-// REFERENCE §5 row 19, to 1e-6 Ohm.
-func TestHallResistanceRow19(t *testing.T) {
+// TestHallResistanceW19: R_K/ν from CODATA 2018 (exact h and e) against
+// [src:W19], to 1e-6 Ohm.
+func TestHallResistanceW19(t *testing.T) {
 	t.Parallel()
 	want := []float64{25812.807459, 12906.403730, 8604.269153, 6453.201865, 5162.561492, 4302.134577}
 	for i, w := range want {
@@ -32,7 +32,7 @@ func TestHallResistanceRow19(t *testing.T) {
 }
 
 // TestPlateausModel: the spin-degenerate model has plateaus at ν = 2, 4, 6,
-// 8, 10 (B_ν = n h/(ν e): 6.2035 T at ν = 2, REFERENCE row 5). Each must be
+// 8, 10 (B_ν = n h/(ν e): 6.2035 T at ν = 2, [src:W5]). Each must be
 // found with ν assigned correctly, |deviation| < 1e-3 (the model's logistic
 // steps leave about 1e-4), inside the density's ν range.
 func TestPlateausModel(t *testing.T) {
@@ -71,7 +71,7 @@ func TestPlateausModel(t *testing.T) {
 	if want := []int{10, 8, 6, 4, 2}; !equalInts(nus, want) {
 		t.Errorf("filling factors %v, want %v", nus, want)
 	}
-	// ν = 2 spans B_2 = 6.2035 T (REFERENCE row 5).
+	// ν = 2 spans B_2 = 6.2035 T ([src:W5]).
 	last := r.Plateaus[len(r.Plateaus)-1]
 	if !(last.BMin < 6.2035 && last.BMax > 6.2035) {
 		t.Errorf("ν = 2 plateau %g–%g T does not contain 6.2035 T", last.BMin, last.BMax)

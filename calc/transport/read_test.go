@@ -2,16 +2,13 @@ package transport
 
 import (
 	"bytes"
+	"cleave/internal/testutil"
 	"errors"
-	"flag"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 )
-
-var update = flag.Bool("update", false, "rewrite golden files in testdata/")
 
 func TestRead(t *testing.T) {
 	t.Parallel()
@@ -220,19 +217,7 @@ func TestWriteGolden(t *testing.T) {
 	if err := WriteCSV(&buf, d); err != nil {
 		t.Fatal(err)
 	}
-	golden := filepath.Join("testdata", "sweep.golden.csv")
-	if *update {
-		if err := os.WriteFile(golden, buf.Bytes(), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	want, err := os.ReadFile(golden)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if !bytes.Equal(buf.Bytes(), want) {
-		t.Errorf("WriteCSV output differs from %s (run go test -update to accept):\n%s", golden, buf.Bytes())
-	}
+	testutil.Golden(t, filepath.Join("testdata", "sweep.golden.csv"), buf.Bytes())
 }
 
 func FuzzRead(f *testing.F) {

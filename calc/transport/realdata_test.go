@@ -11,8 +11,8 @@ import (
 // Regression tests for data as they come from a cryostat: holes in the data,
 // spin splitting inside the SdH window, field columns in the wrong unit. The
 // sweeps are synthetic, from the Drude and low-field SdH model of Sweep
-// (REFERENCE §2.6 and §2.11) with GaAs m* = 0.067 and n = 3e11 cm^-2, whose SdH
-// frequency is 6.2035 T (REFERENCE §5 row 15).
+// ([src:AFS1982], [src:CSF1989]) with GaAs m* = 0.067 and n = 3e11 cm^-2, whose SdH
+// frequency is 6.2035 T ([src:W15]).
 
 func realBase() SweepParams {
 	return SweepParams{Density: 3e15, Mobility: 100, MassRatio: 0.067, QuantumLifetime: 1e-12, Temperature: 0.3,
@@ -43,7 +43,7 @@ func TestSdHDataHole(t *testing.T) {
 		t.Fatalf("SdHDensity with a hole in the data: %v", err)
 	}
 	if got := r.Density.Value / 3e15; math.Abs(got-1) > 0.005 {
-		t.Errorf("density %.5g m^-2, want 3e15 within 0.5 %% (REFERENCE §5 row 15)", r.Density.Value)
+		t.Errorf("density %.5g m^-2, want 3e15 within 0.5 %% ([src:W15])", r.Density.Value)
 	}
 	if !hasWarning(r.Warnings, WarnGap) {
 		t.Errorf("no %s warning for a 1.8-period hole: %v", WarnGap, r.Warnings)
@@ -61,7 +61,7 @@ func TestSdHDataHole(t *testing.T) {
 
 // spinSplitSweep is R_xx(B) with a spin-degenerate SdH term of frequency f_B
 // and, growing in at higher field, the spin-resolved term at 2 f_B
-// (REFERENCE §2.11: minima at every integer ν once spin is resolved).
+// ([src:CSF1989]: minima at every integer ν once spin is resolved).
 func spinSplitSweep() *Dataset {
 	f := SdHFrequency(3e15, 2, 1)
 	var B, R []float64
@@ -136,7 +136,7 @@ func TestFieldUnitSlip(t *testing.T) {
 		dd := write(tc.header, tc.sb, tc.sr)
 		h, err := HallDensity(dd, "B", "Rxy", 0, 0.3)
 		if tc.slip {
-			// 1/(e × 2080.5 Ohm/T × 1000): 3e8 cm^-2 (REFERENCE §5 row 12).
+			// 1/(e × 2080.5 Ohm/T × 1000): 3e8 cm^-2 ([src:W12]).
 			if err != nil {
 				if !strings.Contains(err.Error(), "header unit is G") {
 					t.Errorf("%s: %v", tc.header, err)
@@ -154,13 +154,13 @@ func TestFieldUnitSlip(t *testing.T) {
 			t.Fatalf("%s: %v", tc.header, err)
 		}
 		if got := h.Density.Value / 3e15; math.Abs(got-1) > 1e-4 || hasWarning(h.Warnings, WarnDensityRange) {
-			t.Errorf("%s: density %.6g, warnings %v; want 3e15 m^-2 (REFERENCE §5 row 12)", tc.header, h.Density.Value, h.Warnings)
+			t.Errorf("%s: density %.6g, warnings %v; want 3e15 m^-2 ([src:W12])", tc.header, h.Density.Value, h.Warnings)
 		}
 	}
 }
 
 // TestHallSignNegativeSweep: a sweep that covers only B < 0 still gives the
-// carrier type from the sign of dR_xy/dB (REFERENCE §2.6: ρ_xy = B/(qn), so
+// carrier type from the sign of dR_xy/dB ([src:IHN2010]: ρ_xy = B/(qn), so
 // holes have a positive slope whatever the sign of B) and the density.
 func TestHallSignNegativeSweep(t *testing.T) {
 	for _, holes := range []bool{false, true} {

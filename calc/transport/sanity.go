@@ -32,8 +32,8 @@ func WithExpectedMass(lo, hi float64) Option {
 func WithDensity(n float64) Option { return func(o *options) { o.ext.density = n } }
 
 // GaAsMassRange is the plausible m*/m_e range of a GaAs 2DEG: the band-edge
-// value 0.067 raised slightly by nonparabolicity at high density (REFERENCE §6,
-// common practice).
+// value 0.067 raised slightly by nonparabolicity at high density (common
+// practice).
 var GaAsMassRange = [2]float64{0.055, 0.08}
 
 // More warning codes of the analyses in this package.
@@ -60,8 +60,8 @@ const (
 //     largest field: misaligned Hall probes or an offset (common practice);
 //   - R_xx minima in the quantum Hall regime (ν = n h/(e|B|) ≤ 10, density from
 //     WithDensity; skipped without it) that stay above 5 % of R_xx at the
-//     smallest |B|: parallel conduction or heating (PRACTICE §2; common practice);
-//   - a large out-of-phase lock-in column for Rxx or Rxy (REFERENCE §6);
+//     smallest |B|: parallel conduction or heating ([src:GRAYSON2005]; common practice);
+//   - a large out-of-phase lock-in column for Rxx or Rxy (common practice);
 //   - fewer than 10 points in the file.
 //
 // It returns the warnings found; errors are reserved for unusable input (no
@@ -117,7 +117,7 @@ func CheckSweep(d *Dataset, opts ...Option) ([]Warning, error) {
 }
 
 // rxxMinima checks that R_xx gets close to zero somewhere in the quantum Hall
-// regime ν ≤ 10 (ν = n h/(e|B|), REFERENCE §2.3): it compares the smallest
+// regime ν ≤ 10 (ν = n h/(e|B|), [src:AFS1982]): it compares the smallest
 // R_xx there with R_xx at the smallest |B|.
 func rxxMinima(B, R []float64, n float64) *Warning {
 	r0, b0 := math.NaN(), math.Inf(1)

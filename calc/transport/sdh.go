@@ -46,7 +46,7 @@ type SdHResult struct {
 
 // SdHDensity finds the SdH frequency of R_xx (column "Rxx" against "B" unless
 // WithColumns says otherwise) over bmin ≤ |B| ≤ bmax (T, bmin > 0) and returns
-// the density n = g_s g_v (e/h) f_B (REFERENCE §2.11). gs is the spin
+// the density n = g_s g_v (e/h) f_B [src:AFS1982]. gs is the spin
 // degeneracy (2 while spin is unresolved, 1 when resolved); g_v comes from
 // WithValleyDegeneracy (default 1).
 //
@@ -251,7 +251,7 @@ const harmonicFrac = 0.25
 // frequency, within the spectral resolution 1/U. Once Zeeman splitting is
 // resolved the minima of R_xx fall at every integer filling factor rather than
 // at even ones, so a window that reaches into the spin-split regime holds the
-// spin-degenerate frequency f_B and the doubled one 2f_B (REFERENCE §2.11); a
+// spin-degenerate frequency f_B and the doubled one 2f_B [src:CSF1989]; a
 // large, non-sinusoidal oscillation also has a second harmonic. Either way the
 // density g_s g_v (e/h) f_B is only right if g_s matches the peak taken.
 func harmonicWarning(sp *sdhSpectrum, U, med, gs float64) *Warning {

@@ -40,7 +40,7 @@ func symmetrized(t *testing.T, d *Dataset) *Dataset {
 // spectral peak at the lower edge and the parabolic interpolation at
 // f = −1.25 T. The background in 1/B follows the two-carrier Drude form to
 // 1.5 Ohm, and the density must come out at the model's 2.9e11 cm^-2
-// (f_B = h n/(2e) = 5.9967 T, REFERENCE §2.11) within 2e-3: twice the 1e-3
+// (f_B = h n/(2e) = 5.9967 T, [src:AFS1982]) within 2e-3: twice the 1e-3
 // that TestSdHRecovery allows for the envelope model on noise-free data, for
 // the remaining background error.
 func TestSdHParallelConduction(t *testing.T) {

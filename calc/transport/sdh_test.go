@@ -6,7 +6,7 @@ import (
 	"testing"
 )
 
-// TestSdHFrequencyWorkedExample: REFERENCE §5 row 15: n = 3e11 cm^-2, g_s = 2
+// TestSdHFrequencyWorkedExample: [src:W15]: n = 3e11 cm^-2, g_s = 2
 // gives f_B = 6.2035 T (Δ(1/B) = 0.161199 T^-1); spin-resolved 12.407 T.
 // Closed form f_B = h n/(g_s g_v e), CODATA 2018 h and e; 1e-4 relative.
 func TestSdHFrequencyWorkedExample(t *testing.T) {
@@ -18,7 +18,7 @@ func TestSdHFrequencyWorkedExample(t *testing.T) {
 	}{
 		{"GaAs spin-degenerate", 3e15, 2, 1, 6.2035},
 		{"GaAs spin-resolved", 3e15, 1, 1, 12.407},
-		{"Si(100) n = 1e12 cm^-2, g = 4 (row 27)", 1e16, 2, 2, 10.339},
+		{"Si(100) n = 1e12 cm^-2, g = 4 (W27)", 1e16, 2, 2, 10.339},
 	}
 	for _, tc := range tests {
 		if got := SdHFrequency(tc.n, tc.gs, tc.gv); math.Abs(got-tc.want)/tc.want > 1e-4 {
@@ -31,7 +31,7 @@ func TestSdHFrequencyWorkedExample(t *testing.T) {
 }
 
 // TestSdHRecovery: SdHDensity on synthetic sweeps (low-field SdH form,
-// REFERENCE §2.11) recovers the density. Noise-free, the only error is the
+// [src:CSF1989]) recovers the density. Noise-free, the only error is the
 // envelope model and interpolation: 1e-3 relative; with noise we allow 1 %
 // (the reported σ is ~0.1 % for these settings, see TestSdHCoverage).
 func TestSdHRecovery(t *testing.T) {
@@ -44,7 +44,7 @@ func TestSdHRecovery(t *testing.T) {
 		opts       []Option
 		tol        float64
 	}{
-		{"row 15 noise-free", func(p *SweepParams) { p.Noise = 0 }, 0.3, 1, 2, nil, 1e-3},
+		{"W15 noise-free", func(p *SweepParams) { p.Noise = 0 }, 0.3, 1, 2, nil, 1e-3},
 		{"noisy, ±B up-down", func(p *SweepParams) { p.Noise, p.BStart, p.UpDown = 1, -1, true }, 0.3, 1, 2, nil, 0.01},
 		{"1.5e11, higher mobility, 20 mK", func(p *SweepParams) {
 			p.Density, p.Temperature, p.QuantumLifetime, p.Noise, p.BEnd = 1.5e15, 0.02, 3e-12, 0.5, 0.6

@@ -30,15 +30,15 @@ type SymResult struct {
 
 // WarnOddPart is raised by Symmetrize when R_xx differs between +B and −B
 // by more than 5 % (RMS; common practice): a density gradient makes the two
-// edges of a Hall bar differ and they swap under field reversal (PRACTICE §2).
+// edges of a Hall bar differ and they swap under field reversal [src:PONOMARENKO2004].
 const WarnOddPart = "odd-part"
 
 // WarnNegative is raised when a symmetrised R_xx is negative somewhere
-// (REFERENCE §6): a wiring or offset problem.
+// (common practice): a wiring or offset problem.
 const WarnNegative = "negative-rxx"
 
 // Symmetrize returns R^sym(|B|) = [R(+B) + R(−B)]/2 of column ycol against
-// xcol (REFERENCE §2.8), the usual treatment of R_xx.
+// xcol (reciprocity, [src:BUTTIKER1986]), the usual treatment of R_xx.
 //
 // Method: the points with B > 0 and those with B < 0 are taken as two
 // branches (a point at B = 0 belongs to both); on each branch points with the
@@ -55,10 +55,10 @@ func Symmetrize(d *Dataset, xcol, ycol string) (*SymResult, error) {
 }
 
 // Antisymmetrize returns R^anti(|B|) = [R(+B) − R(−B)]/2 of column ycol
-// against xcol (REFERENCE §2.8), the usual treatment of R_xy: it removes the
+// against xcol ([src:BUTTIKER1986]), the usual treatment of R_xy: it removes the
 // R_xx pick-up of misaligned Hall probes. The method is that of Symmetrize.
 // It warns (WarnEvenPart) when the removed even part exceeds 1 % of the odd
-// part (RMS; REFERENCE §6 sets that bound for |R_xy(+B) + R_xy(−B)|).
+// part (RMS; the bound on |R_xy(+B) + R_xy(−B)| is common practice).
 func Antisymmetrize(d *Dataset, xcol, ycol string) (*SymResult, error) {
 	return symmetrize(d, xcol, ycol, -1)
 }
@@ -192,7 +192,7 @@ func symmetrize(d *Dataset, xcol, ycol string, sign float64) (*SymResult, error)
 		}
 	} else if res.RemovedRatio > 0.01 {
 		res.Warnings = append(res.Warnings, Warning{WarnEvenPart, fmt.Sprintf(
-			"%s has an even part of %.1f %% of the odd part (RMS; bound 1 %%, REFERENCE §6): %s",
+			"%s has an even part of %.1f %% of the odd part (RMS; bound 1 %%, common practice): %s",
 			yc.Name, 100*res.RemovedRatio, hint)})
 	}
 	return res, nil

@@ -18,7 +18,7 @@ func symSweep(noise float64, pickup float64) (*Dataset, SweepParams) {
 	return d, p
 }
 
-// TestSymmetrizeModel: on noise-free data (REFERENCE §2.8) the symmetrised
+// TestSymmetrizeModel: on noise-free data ([src:BUTTIKER1986]) the symmetrised
 // R_xx equals the model ρ_xx·squares and the antisymmetrised R_xy the model
 // ρ_xy, with the pick-up gone; only linear-interpolation error remains, which
 // is below 1e-3 relative for this grid (0.001 T spacing against SdH periods
@@ -68,7 +68,7 @@ func TestSymmetrizeModel(t *testing.T) {
 }
 
 // TestSymmetrizeProperties: swapping the sign of B leaves R^sym unchanged and
-// flips R^anti (property of the definitions, REFERENCE §2.8), and averaging
+// flips R^anti (property of the definitions), and averaging
 // up and down sweeps halves the noise variance.
 func TestSymmetrizeProperties(t *testing.T) {
 	t.Parallel()
@@ -98,7 +98,7 @@ func TestSymmetrizeProperties(t *testing.T) {
 
 func TestSymmetrizeWarningsAndErrors(t *testing.T) {
 	t.Parallel()
-	// R_xx 20 % larger at +B than at −B (a density gradient; PRACTICE §2).
+	// R_xx 20 % larger at +B than at −B (a density gradient; [src:PONOMARENKO2004]).
 	d, _ := symSweep(0, 0)
 	b, _ := d.Col("B")
 	rxx, _ := d.Col("Rxx")

@@ -71,7 +71,7 @@ func (p *SweepParams) defaults() SweepParams {
 
 // SdHFrequency returns the Shubnikov–de Haas frequency f_B = h n/(g_s g_v e), in
 // tesla, of a 2D channel of density n (m^-2): the oscillations are periodic in
-// 1/B with period 1/f_B (REFERENCE §2.11; Ando, Fowler, Stern, Rev. Mod. Phys.
+// 1/B with period 1/f_B (Ando, Fowler, Stern, Rev. Mod. Phys.
 // 54, 437 (1982)).
 func SdHFrequency(n, gs, gv float64) float64 { return hPl * n / (gs * gv * qe) }
 
@@ -82,14 +82,14 @@ func DensityFromSdH(f, gs, gv float64) float64 { return gs * gv * qe * f / hPl }
 // without pick-up or noise.
 //
 // Main channel: ρ_0 = 1/(n e μ) and ρ_xy = B/(q n) with q = −e for electrons,
-// +e for holes (B along +z, ρ_xy = E_y/j_x; REFERENCE §2.6). The oscillating part
+// +e for holes (B along +z, ρ_xy = E_y/j_x; [src:IHN2010]). The oscillating part
 // is the low-field form
 //
 //	Δρ_xx/ρ_0 = 4 (X/sinh X) exp(−π/(ω_c τ_q)) cos(2π E_F/(ħω_c) − π),
 //	X = 2π² k_B T/(ħω_c),  ω_c = e|B|/m*,  E_F/(ħω_c) = f_B/|B|,
 //
 // (Ando, J. Phys. Soc. Jpn. 37, 1233 (1974); Coleridge, Stoner & Fletcher, Phys.
-// Rev. B 39, 1120 (1989), from memory; REFERENCE §2.11). It holds while the
+// Rev. B 39, 1120 (1989), from memory; [src:CSF1989]). It holds while the
 // amplitude is small; the generator does not clip it.
 //
 // With Plateaus set, the sweep is instead a smoothed-step model — a model of the
@@ -195,9 +195,10 @@ func nuEffective(nu, w float64) (float64, float64) {
 
 // Sweep generates a synthetic sweep with columns B (T), Rxx (Ohm), Rxy (Ohm),
 // T (K), and Rxx_Y, Rxy_Y when OutOfPhase > 0. R_xx = ρ_xx·Squares, R_xy = ρ_xy
-// (REFERENCE §2.7). It is deterministic for a given Seed. The data set's Meta
-// records every parameter and its Hash is the hash of its WriteCSV output, so
-// that Read(WriteCSV(d)) has the same Hash.
+// (a Hall bar's ρ_xy needs no geometry factor, [src:IHN2010]). It is
+// deterministic for a given Seed. The data set's Meta records every parameter
+// and its Hash is the hash of its WriteCSV output, so that Read(WriteCSV(d))
+// has the same Hash.
 func Sweep(p SweepParams) (*Dataset, error) {
 	q := p.defaults()
 	switch {

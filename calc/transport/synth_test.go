@@ -1,7 +1,7 @@
 package transport
 
 // gaas returns sweep parameters for an invented GaAs/AlGaAs 2DEG: n = 3e11 cm^-2,
-// μ = 1e6 cm^2/(V s), m* = 0.067 m_e (REFERENCE §4, Vurgaftman et al. 2001),
+// μ = 1e6 cm^2/(V s), m* = 0.067 m_e [src:VURGAFTMAN2001],
 // τ_q = 1 ps, T = 1.5 K, a 100 × 500 µm Hall bar (5 squares), 0–1 T.
 func gaas() SweepParams {
 	return SweepParams{

@@ -12,11 +12,11 @@ import (
 type VdPHallResult struct {
 	Density  Estimate // n = B/(e|ΔR|), m^-2
 	DeltaR   Estimate // the Hall change of R_13,24 per field B, Ohm
-	Carriers string   // "electrons" when ΔR/B < 0, "holes" when > 0 (REFERENCE §2.6 convention)
+	Carriers string   // "electrons" when ΔR/B < 0, "holes" when > 0 (the convention of [src:IHN2010])
 }
 
 // VdPHallDensity returns n = B/(e |R_13,24(B) − R_13,24(0)|) (van der Pauw,
-// Philips Res. Rep. 13, 1 (1958); REFERENCE §2.9) with current through
+// Philips Res. Rep. 13, 1 (1958) [src:VDP1958]) with current through
 // contacts 1→3 and voltage across 2–4, from the resistance at field B (T)
 // and at zero field (Ohm, each with its standard uncertainty). The
 // uncertainties of the two readings are combined in quadrature.
@@ -26,7 +26,7 @@ func VdPHallDensity(B float64, rB, r0 Estimate) (VdPHallResult, error) {
 
 // VdPHallDensityPolarity returns n = 2B/(e |R_13,24(+B) − R_13,24(−B)|) from
 // readings at both field polarities (B > 0 is the magnitude, T), which
-// cancels the zero-field offset of misplaced contacts (REFERENCE §2.9).
+// cancels the zero-field offset of misplaced contacts [src:VDP1958].
 func VdPHallDensityPolarity(B float64, rPlus, rMinus Estimate) (VdPHallResult, error) {
 	return vdpHall(B, Estimate{(rPlus.Value - rMinus.Value) / 2, math.Hypot(rPlus.Uncertainty, rMinus.Uncertainty) / 2})
 }
@@ -60,7 +60,7 @@ type VdPSheetResult struct {
 // If the reciprocal readings R_34,12 and R_41,23 are given (non-zero), they
 // are averaged in and compared with R_A and R_B.
 //
-// Warnings (REFERENCE §6): R_A/R_B > 10 or < 1/10, and a reciprocity mismatch
+// Warnings (common practice): R_A/R_B > 10 or < 1/10, and a reciprocity mismatch
 // above 5 % (bad contacts or an inhomogeneous sample).
 func VdPSheet(rA, rB, rArecip, rBrecip Estimate) (*VdPSheetResult, error) {
 	res := &VdPSheetResult{}

@@ -7,7 +7,7 @@ import (
 )
 
 // TestVdPHall: n = 3e11 cm^-2 gives |ΔR_13,24| = B/(e n) = 2080.5 Ohm at 1 T
-// (REFERENCE §2.9 and row 12); both formulas must return the density, and the
+// ([src:VDP1958] and [src:W12]); both formulas must return the density, and the
 // polarity form must cancel a zero-field offset.
 func TestVdPHall(t *testing.T) {
 	t.Parallel()
@@ -41,7 +41,7 @@ func TestVdPHall(t *testing.T) {
 	}
 }
 
-// TestVdPSheet: REFERENCE §5 rows 13 and 14 (van der Pauw 1958): R_A = R_B =
+// TestVdPSheet: [src:W13] and [src:W14] (van der Pauw 1958): R_A = R_B =
 // 10 Ohm gives πR/ln 2 = 45.3236 Ohm; R_A = 10, R_B = 20 Ohm gives 65.285.
 func TestVdPSheet(t *testing.T) {
 	t.Parallel()

@@ -7,7 +7,7 @@ import (
 )
 
 // TestZeroField: the model R_xx at B = 0 is squares/(n e μ) = 5 × 20.805 Ohm
-// (REFERENCE §2.7 and row 12: 1/(e·3e15) = 2080.5 Ohm/T, /μ = 100), and R_xy(0)
+// ([src:W9], [src:W12]: 1/(e·3e15) = 2080.5 Ohm/T, /μ = 100), and R_xy(0)
 // equals 0 without pick-up. Tolerance 3σ of the local fit plus 1e-4 relative.
 func TestZeroField(t *testing.T) {
 	t.Parallel()
