@@ -173,10 +173,11 @@ func TestAnalysisArgumentErrors(t *testing.T) {
 	}
 }
 
-// expected_density on a delta-doped stack like REFERENCE §5 row 25's example (Al0.3Ga0.7As,
-// a Si sheet 30 nm above the interface, here under a 60 nm barrier and cap with a pinned
-// surface): deeper donors leave fewer electrons in the well (REFERENCE §3.3: n falls as E_D'
-// rises), and the self-consistent and analytic densities stay within 10 % of each other.
+// expected_density on a delta-doped stack with illustrative inputs (Al0.3Ga0.7As, a Si sheet
+// 30 nm above the interface, under a 50 nm barrier and cap with a pinned surface, on a 1 µm
+// buffer over a semi-insulating substrate): deeper donors leave fewer electrons in the well
+// (Stern, Appl. Phys. Lett. 43, 974 (1983): n falls as E_D' rises), and the self-consistent
+// and analytic densities stay within 10 % of each other.
 func TestExpectedDensityDonorDepth(t *testing.T) {
 	e := NewEnv()
 	stack := layerTable([][4]string{
@@ -184,11 +185,11 @@ func TestExpectedDensityDonorDepth(t *testing.T) {
 		{"barrier", "Al0.3Ga0.7As", "50 nm", ""},
 		{"delta", "Al0.3Ga0.7As", "1 nm", "Si delta 2.5e12 cm^-2"},
 		{"spacer", "Al0.3Ga0.7As", "30 nm", ""},
-		{"channel", "GaAs", "400 nm", "C 1e14 cm^-3"},
+		{"channel", "GaAs", "1 um", "C 1e14 cm^-3"},
 	})
 	e.Set("layers", stack)
 	prev := math.Inf(1)
-	for _, d := range []string{"0 eV", "0.05 eV", "0.1 eV", "0.15 eV"} {
+	for _, d := range []string{"0.03 eV", "0.06 eV", "0.1 eV", "0.15 eV"} {
 		v, err := e.Eval("expected_density(layers, donor_depth = " + d + ")")
 		if err != nil {
 			t.Fatalf("donor_depth %s: %v", d, err)

@@ -14,17 +14,20 @@ import (
 // and per-node potential energies (eV) from the given functions of position.
 func testGrid(n int, h float64, mass func(z float64) float64, pot func(j int, z float64) float64) *grid {
 	g := &grid{h: h, n: n, kT: kB * 4.2 / qe, maxSub: 10, cut: 0.5}
-	g.mInv = make([]float64, n)
-	g.mNode = make([]float64, n+1)
-	g.v0 = make([]float64, n+1)
-	for k := 0; k < n; k++ {
-		g.mInv[k] = 1 / mass((float64(k)+0.5)*h)
+	// One Γ valley; the others lie far above the cut, so the solver skips them.
+	for v := range g.val {
+		vg := vgrid{name: valleyNames[v], gv: 1, mInv: make([]float64, n), v0: make([]float64, n+1), md: make([]float64, n+1)}
+		for k := 0; k < n; k++ {
+			vg.mInv[k] = 1 / mass((float64(k)+0.5)*h)
+		}
+		for j := 0; j <= n; j++ {
+			z := float64(j) * h
+			vg.v0[j] = pot(j, z) + 1e3*float64(v)
+			vg.md[j] = mass(z)
+		}
+		g.val[v] = vg
 	}
-	for j := 0; j <= n; j++ {
-		z := float64(j) * h
-		g.v0[j] = pot(j, z)
-		g.mNode[j] = mass(z)
-	}
+	g.v0 = g.val[0].v0
 	return g
 }
 
@@ -32,9 +35,9 @@ func stateEnergies(g *grid, cut float64) []float64 {
 	tri := tridiag{d: make([]float64, g.n-1), e: make([]float64, g.n-2)}
 	t := hbar * hbar / (2 * me * g.h * g.h) / qe
 	for j := 1; j < g.n; j++ {
-		tri.d[j-1] = t*(g.mInv[j-1]+g.mInv[j]) + g.v0[j]
+		tri.d[j-1] = t*(g.val[0].mInv[j-1]+g.val[0].mInv[j]) + g.v0[j]
 		if j < g.n-1 {
-			tri.e[j-1] = -t * g.mInv[j]
+			tri.e[j-1] = -t * g.val[0].mInv[j]
 		}
 	}
 	vals, _ := tri.lowest(cut, 10, nil, -1)
@@ -45,7 +48,7 @@ func stateEnergies(g *grid, cut float64) []float64 {
 // L = 10 nm, m* = 0.067: E1 = 56.124 meV, E2 = 224.50 meV.
 func TestInfiniteWell(t *testing.T) {
 	g := testGrid(1000, 10e-9/1000, func(float64) float64 { return 0.067 }, func(int, float64) float64 { return 0 })
-	st := g.schrodinger(make([]float64, g.n+1), nil, -1)
+	st := g.schrodinger(make([]float64, g.n+1), nil)
 	want := []float64{56.124, 224.50}
 	for i, w := range want {
 		if relErr(st.e[i]*1e3, w) > 1e-4 {
@@ -160,7 +163,7 @@ func triangularEnergies(h float64) ([]float64, *grid, *states) {
 	const f, depth = 1e7, 80e-9
 	n := int(math.Round(depth / h))
 	g := testGrid(n, h, func(float64) float64 { return 0.067 }, func(_ int, z float64) float64 { return f * z })
-	st := g.schrodinger(make([]float64, n+1), nil, -1)
+	st := g.schrodinger(make([]float64, n+1), nil)
 	return st.e, g, st
 }
 

@@ -16,7 +16,7 @@ func deltaStack(spacer, sheet float64) Stack {
 		{Name: "delta", Material: "Al0.3Ga0.7As", Doping: Doping{Species: "Si", Sheet: true, Density: sheet}},
 		{Name: "spacer", Material: "Al0.3Ga0.7As", ThicknessM: spacer},
 		{Name: "buffer", Material: "GaAs", ThicknessM: 300e-9, Doping: Doping{Species: "C", Density: bufferAcceptors}},
-	}}
+	}, Bottom: Bottom{Kind: BottomZeroField}}
 }
 
 // bufferAcceptors is an invented p-type background in the buffer (5e14 cm^-3), so that the
@@ -47,9 +47,14 @@ func TestSolveAgainstAnalytic(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	// The surface terms by hand: A = ∫dz/ε over the 10 nm cap and 330 nm of Al0.3Ga0.7As,
+	// B = ∫Q/ε = N·30 nm/ε_b (every donor lies 30 nm above the interface).
 	want := AnalyticInput{DeltaEcEV: barrier.EcEV - gaas.EcEV, DonorDepthEV: 0.10, BarrierEpsR: barrier.EpsR,
-		SpacerM: 30e-9, ChannelMstar: gaas.Mstar, ChannelEpsR: gaas.EpsR, DeplM2: bufferAcceptors * 300e-9}
-	if in != want {
+		SpacerM: 30e-9, ChannelMstar: gaas.Mstar, ChannelEpsR: gaas.EpsR, DeplM2: bufferAcceptors * 300e-9,
+		Surface: true, SurfaceBarrierEV: DefaultPinningEV, DonorsM2: 3e16,
+		DepthOverEps:       10e-9/(gaas.EpsR*eps0) + 330e-9/(barrier.EpsR*eps0),
+		DonorMomentOverEps: 3e16 * 30e-9 / (barrier.EpsR * eps0)}
+	if !sameInput(in, want) {
 		t.Errorf("AnalyticInputFor = %+v, want %+v", in, want)
 	}
 	a, err := Analytic(in)
@@ -73,6 +78,14 @@ func TestSolveAgainstAnalytic(t *testing.T) {
 	if r.Subbands[1].E < 0 {
 		t.Errorf("second subband at %.3f meV is occupied", r.Subbands[1].E*1e3)
 	}
+}
+
+// sameInput compares analytic inputs to rounding (the integrals add up layer by layer).
+func sameInput(a, b AnalyticInput) bool {
+	close := func(x, y float64) bool { return math.Abs(x-y) <= 1e-12*math.Max(math.Abs(x), math.Abs(y)) }
+	a2, b2 := a, b
+	a2.DepthOverEps, a2.DonorMomentOverEps, b2.DepthOverEps, b2.DonorMomentOverEps = 0, 0, 0, 0
+	return a2 == b2 && close(a.DepthOverEps, b.DepthOverEps) && close(a.DonorMomentOverEps, b.DonorMomentOverEps)
 }
 
 // TestNeutrality: the converged solution is charge neutral to better than 1e7 cm^-2, a
@@ -110,7 +123,7 @@ func TestGateMonotone(t *testing.T) {
 	st := Stack{Layers: []Layer{
 		{Name: "barrier", Material: "Al0.3Ga0.7As", ThicknessM: 100e-9},
 		{Name: "channel", Material: "GaAs", ThicknessM: 300e-9},
-	}, Surface: Surface{Kind: SurfaceGate}}
+	}, Surface: Surface{Kind: SurfaceGate}, Bottom: Bottom{Kind: BottomZeroField}}
 	prev := -1.0
 	var ns []float64
 	// Ec at the gate is 0.8 eV − V_g; stay below V_g = 0.8 V so that no electrons gather
@@ -168,15 +181,15 @@ func TestAnalyticInputForErrors(t *testing.T) {
 		t.Errorf("no donors: %v, want ErrNoDoping", err)
 	}
 	below := Stack{Layers: []Layer{{Material: "Al0.3Ga0.7As", ThicknessM: 50e-9}, {Material: "GaAs", ThicknessM: 100e-9, Doping: Doping{Species: "Si", Density: 1e23}}}}
-	if _, err := AnalyticInputFor(below, 0); !errors.Is(err, ErrNoWell) {
-		t.Errorf("donors only below the junction: %v, want ErrNoWell", err)
+	if _, err := AnalyticInputFor(below, 0); !errors.Is(err, ErrNotApplicable) {
+		t.Errorf("donors only below the junction (a doped well, not a heterojunction): %v, want ErrNotApplicable", err)
 	}
 	uni := Stack{Layers: []Layer{
 		{Material: "GaAs", ThicknessM: 10e-9},
 		{Material: "Al0.3Ga0.7As", ThicknessM: 50e-9, Doping: Doping{Species: "Si", Density: 1e24}},
 		{Material: "Al0.3Ga0.7As", ThicknessM: 20e-9},
 		{Material: "GaAs", ThicknessM: 100e-9},
-	}}
+	}, Bottom: Bottom{Kind: BottomZeroField}}
 	in, err := AnalyticInputFor(uni, 0)
 	if err != nil {
 		t.Fatal(err)
@@ -197,7 +210,7 @@ func TestSolveErrors(t *testing.T) {
 		mention string
 	}{
 		{"unknown material", func() Stack { s := deltaStack(20e-9, 5e16); s.Layers[1].Material = "Unobtainium"; return s }(),
-			Options{}, ErrUnknownMaterial, "known: Al(x)Ga(1-x)As, AlAs, GaAs"},
+			Options{}, ErrUnknownMaterial, "known: Al(x)Ga(1-x)As, AlAs, AlSb"},
 		{"negative thickness", func() Stack { s := deltaStack(20e-9, 5e16); s.Layers[3].ThicknessM = -5e-9; return s }(),
 			Options{}, ErrBadThickness, "layer 4 (spacer)"},
 		{"zero thickness bulk layer", func() Stack { s := deltaStack(20e-9, 5e16); s.Layers[0].ThicknessM = 0; return s }(),
@@ -216,7 +229,7 @@ func TestSolveErrors(t *testing.T) {
 			return s
 		}(),
 			Options{}, nil, "not a finite number"},
-		{"unknown substrate", func() Stack { s := deltaStack(20e-9, 5e16); s.SubstrateMaterial = "InP"; return s }(),
+		{"unknown substrate", func() Stack { s := deltaStack(20e-9, 5e16); s.SubstrateMaterial = "GaN"; return s }(),
 			Options{}, ErrUnknownMaterial, "substrate"},
 	}
 	for _, tc := range tests {
