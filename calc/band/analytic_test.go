@@ -7,8 +7,9 @@ import (
 
 func relErr(got, want float64) float64 { return math.Abs(got-want) / math.Abs(want) }
 
-// TestFangHoward checks REFERENCE §5 row 21 (computed from Fang & Howard, PRL 16, 797 (1966),
-// with CODATA 2018 constants): GaAs m* = 0.067, eps_r = 12.9, n = 3e11 cm^-2.
+// TestFangHoward checks the Fang–Howard ground state (Fang & Howard, Phys. Rev. Lett. 16, 797
+// (1966); Ando, Fowler & Stern, Rev. Mod. Phys. 54, 437 (1982)), evaluated independently
+// with CODATA 2018 constants for GaAs m* = 0.067, eps_r = 12.9, n = 3e11 cm^-2.
 func TestFangHoward(t *testing.T) {
 	tests := []struct {
 		name      string
@@ -24,15 +25,15 @@ func TestFangHoward(t *testing.T) {
 		t.Run(tc.name, func(t *testing.T) {
 			e0, b := FangHoward(0.067, 12.9, 3e15, tc.nDepl)
 			if relErr(e0*1e3, tc.wantE0meV) > 1e-4 {
-				t.Errorf("E0 = %.5f meV, want %.5f (REFERENCE row 21)", e0*1e3, tc.wantE0meV)
+				t.Errorf("E0 = %.5f meV, want %.5f (independent evaluation)", e0*1e3, tc.wantE0meV)
 			}
 			if relErr(3/b*1e9, tc.wantZnm) > 1e-4 {
-				t.Errorf("<z> = %.5f nm, want %.5f (REFERENCE row 21)", 3/b*1e9, tc.wantZnm)
+				t.Errorf("<z> = %.5f nm, want %.5f (independent evaluation)", 3/b*1e9, tc.wantZnm)
 			}
 			if tc.wantB != 0 && relErr(b, tc.wantB) > 1e-4 {
 				t.Errorf("b = %.6g, want %.6g", b, tc.wantB)
 			}
-			// Without depletion charge E0 reduces to 5ħ²b²/(8m*) (REFERENCE §3.2).
+			// Without depletion charge E0 reduces to 5ħ²b²/(8m*) (Fang & Howard 1966).
 			if tc.nDepl == 0 {
 				closed := 5 * hbar * hbar * b * b / (8 * 0.067 * me) / qe
 				if relErr(e0, closed) > 1e-12 {
@@ -43,10 +44,11 @@ func TestFangHoward(t *testing.T) {
 	}
 }
 
-// TestAnalyticRow25 checks REFERENCE §5 row 25 (the tool's own formulas of §3.3 evaluated
-// with CODATA 2018; illustrative inputs): ΔEc = 0.25914 eV, E_D' = 0.10 eV, ε_b = 12.05,
-// GaAs channel m* = 0.067, ε = 12.9.
-func TestAnalyticRow25(t *testing.T) {
+// TestAnalyticBalance checks the energy balance of Stern, Appl. Phys. Lett. 43, 974 (1983),
+// evaluated independently with CODATA 2018 constants for illustrative inputs (not a
+// published structure): ΔEc = 0.25914 eV, E_D' = 0.10 eV, ε_b = 12.05, GaAs channel
+// m* = 0.067, ε = 12.9.
+func TestAnalyticBalance(t *testing.T) {
 	base := AnalyticInput{DeltaEcEV: 0.25914, DonorDepthEV: 0.10, BarrierEpsR: 12.05,
 		ChannelMstar: 0.067, ChannelEpsR: 12.9}
 	tests := []struct {
@@ -73,12 +75,12 @@ func TestAnalyticRow25(t *testing.T) {
 				t.Fatal(err)
 			}
 			if relErr(r.N2D/1e4, tc.wantN) > 2e-4 {
-				t.Errorf("n = %.5g cm^-2, want %.5g (REFERENCE row 25)", r.N2D/1e4, tc.wantN)
+				t.Errorf("n = %.5g cm^-2, want %.5g (independent evaluation)", r.N2D/1e4, tc.wantN)
 			}
 			if tc.wantE0 != 0 && relErr(r.E0EV*1e3, tc.wantE0) > 5e-4 {
-				t.Errorf("E0 = %.4f meV, want %.2f (REFERENCE row 25)", r.E0EV*1e3, tc.wantE0)
+				t.Errorf("E0 = %.4f meV, want %.2f (independent evaluation)", r.E0EV*1e3, tc.wantE0)
 			}
-			// The uniform closed form of REFERENCE §3.3 must agree with the bisection
+			// The closed form for uniform doping (Stern 1983) must agree with the bisection
 			// wherever E0 and E_F are dropped.
 			if in.BulkDonorsM3 > 0 && in.NoGroundState && in.NoFermiEnergy {
 				nd, d := in.BulkDonorsM3, in.SpacerM

@@ -453,6 +453,16 @@ func (g *grid) schrodinger(phi []float64, hint *hints) *states {
 	return st
 }
 
+// windowEV and windowPadM set the part of the grid a valley's eigenproblem is solved on:
+// the nodes where its band edge lies less than windowEV above the cut, widened by windowPadM
+// on each side. A state below the cut decays at least as e^{−κz} with κ ≥ √(2m·windowEV)/ħ
+// outside (κ ≥ 1.1 nm⁻¹ for m = 0.067 m_e), so the cut-off wavefunction is wrong by less
+// than e^{−22} of its peak.
+const (
+	windowEV   = 0.3
+	windowPadM = 20e-9
+)
+
 func (g *grid) schrodingerValley(v int, phi []float64, hint *hints, st *states) {
 	n := g.n
 	vg := &g.val[v]
@@ -460,21 +470,42 @@ func (g *grid) schrodingerValley(v int, phi []float64, hint *hints, st *states) 
 	if cut == 0 {
 		cut = 40*g.kT + 0.005
 	}
-	// A valley whose edge lies above the cut everywhere has no state below it.
-	lowest := math.Inf(1)
+	// A valley whose edge lies above the cut everywhere has no state below it; otherwise
+	// solve on the window around the nodes where it comes near the cut.
+	lo, hi := -1, -1
 	for j := 1; j < n; j++ {
-		lowest = math.Min(lowest, vg.v0[j]-phi[j])
+		if vg.v0[j]-phi[j] < cut+windowEV {
+			if lo < 0 {
+				lo = j
+			}
+			hi = j
+		}
 	}
-	if lowest >= cut {
+	if lo < 0 {
 		return
 	}
+	below := false
+	for j := lo; j <= hi; j++ {
+		if vg.v0[j]-phi[j] < cut {
+			below = true
+			break
+		}
+	}
+	if !below {
+		return
+	}
+	pad := int(math.Ceil(windowPadM / g.h))
+	lo, hi = max(1, lo-pad), min(n-1, hi+pad)
 	t := hbar * hbar / (2 * me * g.h * g.h) / qe // eV
-	m := n - 1
+	m := hi - lo + 1
+	if m < 2 {
+		return
+	}
 	tri := tridiag{d: make([]float64, m), e: make([]float64, m-1)}
-	for j := 1; j < n; j++ {
-		tri.d[j-1] = t*(vg.mInv[j-1]+vg.mInv[j]) + vg.v0[j] - phi[j]
-		if j < n-1 {
-			tri.e[j-1] = -t * vg.mInv[j]
+	for j := lo; j <= hi; j++ {
+		tri.d[j-lo] = t*(vg.mInv[j-1]+vg.mInv[j]) + vg.v0[j] - phi[j]
+		if j < hi {
+			tri.e[j-lo] = -t * vg.mInv[j]
 		}
 	}
 	var hv []float64
@@ -487,25 +518,25 @@ func (g *grid) schrodingerValley(v int, phi []float64, hint *hints, st *states) 
 	for i, vec := range vecs {
 		psi := make([]float64, n+1)
 		mm := 0.0
-		for j := 1; j < n; j++ {
-			psi[j] = vec[j-1] * sq
-			mm += vec[j-1] * vec[j-1] * vg.md[j]
+		for j := lo; j <= hi; j++ {
+			psi[j] = vec[j-lo] * sq
+			mm += vec[j-lo] * vec[j-lo] * vg.md[j]
 		}
 		peak := 0.0
-		for _, p := range psi {
-			peak = math.Max(peak, p*p)
+		for j := lo; j <= hi; j++ {
+			peak = math.Max(peak, psi[j]*psi[j])
 		}
-		lo, hi := 0, n
-		for lo < n && psi[lo]*psi[lo] < 1e-14*peak {
-			lo++
+		a, b := lo, hi
+		for a < hi && psi[a]*psi[a] < 1e-14*peak {
+			a++
 		}
-		for hi > 0 && psi[hi]*psi[hi] < 1e-14*peak {
-			hi--
+		for b > lo && psi[b]*psi[b] < 1e-14*peak {
+			b--
 		}
 		st.e = append(st.e, vals[i])
 		st.valley = append(st.valley, v)
-		st.lo = append(st.lo, lo)
-		st.hi = append(st.hi, hi)
+		st.lo = append(st.lo, a)
+		st.hi = append(st.hi, b)
 		st.psi = append(st.psi, psi)
 		st.m = append(st.m, mm)
 		st.dos = append(st.dos, float64(vg.gv)*mm*me/(math.Pi*hbar*hbar)*qe)

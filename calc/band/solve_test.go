@@ -30,8 +30,9 @@ func interfaceNode(r *Result, depth float64) int {
 }
 
 // TestSolveAgainstAnalytic compares a converged delta-doped heterojunction with the analytic
-// Fang–Howard estimate of REFERENCE §3.3 for the same inputs (ΔEc of Al0.3Ga0.7As from
-// Vurgaftman et al., E_D' = 0.10 eV as in REFERENCE row 25, 30 nm spacer). Fang–Howard is a
+// Fang–Howard estimate (Stern, Appl. Phys. Lett. 43, 974 (1983); Fang & Howard, Phys. Rev.
+// Lett. 16, 797 (1966)) for the same inputs (ΔEc of Al0.3Ga0.7As from Vurgaftman et al.,
+// an illustrative E_D' = 0.10 eV, 30 nm spacer). Fang–Howard is a
 // variational upper bound of E0, and the finite barrier lowers E0 further, so the
 // self-consistent density must be at least the analytic one, and close to it (one subband,
 // no depletion charge).
@@ -67,7 +68,7 @@ func TestSolveAgainstAnalytic(t *testing.T) {
 		t.Errorf("n = %.4g cm^-2, want within [0.99, 1.15] of the Fang–Howard estimate %.4g", well/1e4, a.N2D/1e4)
 	}
 	// Fang–Howard upper bound of the ground state, measured from the channel band edge at the
-	// interface (REFERENCE §3.2 and §3.8 item 8).
+	// interface (a variational upper bound: Fang & Howard 1966).
 	j := interfaceNode(r, 340e-9)
 	e0 := r.Subbands[0].E - r.Ec[j]
 	fh, _ := FangHoward(gaas.Mstar, gaas.EpsR, well, bufferAcceptors*300e-9)
@@ -89,8 +90,7 @@ func sameInput(a, b AnalyticInput) bool {
 }
 
 // TestNeutrality: the converged solution is charge neutral to better than 1e7 cm^-2, a
-// numerical tolerance of 1e-4 of the 2DEG density (the figure REFERENCE §3.8 item 7 quotes
-// as common practice), at temperatures from 0.3 K to 20 K.
+// numerical tolerance of 1e-4 of the 2DEG density (common practice), at temperatures from 0.3 K to 20 K.
 func TestNeutrality(t *testing.T) {
 	for _, temp := range []float64{0.3, 1.5, 4.2, 20} {
 		r, err := Solve(deltaStack(20e-9, 5e16), Options{TemperatureK: temp})
@@ -117,7 +117,8 @@ func TestNeutrality(t *testing.T) {
 }
 
 // TestGateMonotone: a more positive gate voltage can only add electrons (property), and the
-// slope dn/dV_g approaches ε/(e d_eff) (REFERENCE §3.4, row 24 form), with d_eff = gate
+// slope dn/dV_g approaches ε/(e d_eff) (parallel-plate capacitance with the quantum capacitance term; Ando, Fowler & Stern,
+// Rev. Mod. Phys. 54, 437 (1982)), with d_eff = gate
 // distance + ⟨z⟩ + a_B*/4; we check it lies between ε/(e (d + 30 nm)) and ε/(e d).
 func TestGateMonotone(t *testing.T) {
 	st := Stack{Layers: []Layer{
@@ -152,11 +153,10 @@ func TestGateMonotone(t *testing.T) {
 
 // TestPlausibleUniformDoping compares a uniformly doped Al0.3Ga0.7As/GaAs heterojunction (Si
 // 1e18 cm^-3, 20 nm spacer) with the density such wafers typically show, 2e11–8e11 cm^-2
-// (from memory, unverified; REFERENCE §6 gives 1–4e11 for typical modulation-doped wafers as
-// common practice). The tolerance is wide on purpose: this is a plausibility check, not the
+// (from memory, unverified; 1–4e11 cm^-2 for typical modulation-doped wafers is common
+// practice). The tolerance is wide on purpose: this is a plausibility check, not the
 // comparison with a published structure's density that is still missing (no source whose
-// stack and density could both be read was found), and REFERENCE row 25 (3.16e11 with
-// E_D' = 0.1 eV) sits inside it.
+// stack and density could both be read was found).
 func TestPlausibleUniformDoping(t *testing.T) {
 	st := Stack{Layers: []Layer{
 		{Name: "cap", Material: "GaAs", ThicknessM: 10e-9},
@@ -291,6 +291,42 @@ func TestSelfConsistentGridConvergence(t *testing.T) {
 		ratio := (ns[i-1] - ns[i-2]) / (ns[i] - ns[i-1])
 		if ratio < 3 || ratio > 5 {
 			t.Errorf("successive density changes %v: ratio %.3f, want ≈ 4", ns, ratio)
+		}
+	}
+}
+
+// dwStack is an invented high-mobility stack, surface first: a 30 nm GaAs quantum well
+// between Al0.24Ga0.76As spacers, doped from both sides by Si sheets in GaAs doping wells of
+// width wdw clad by 2 nm of AlAs, on a semi-insulating substrate; about 1 µm in all.
+func dwStack(wdw, sheet, spacer float64) Stack {
+	dw := func() []Layer {
+		return []Layer{
+			{Name: "cladding", Material: "AlAs", ThicknessM: 2e-9},
+			{Name: "doping well", Material: "GaAs", ThicknessM: wdw / 2},
+			{Name: "Si", Material: "GaAs", Doping: Doping{Species: "Si", Sheet: true, Density: sheet}},
+			{Name: "doping well", Material: "GaAs", ThicknessM: wdw / 2},
+			{Name: "cladding", Material: "AlAs", ThicknessM: 2e-9},
+		}
+	}
+	var ls []Layer
+	ls = append(ls, Layer{Name: "cap", Material: "GaAs", ThicknessM: 10e-9}, Layer{Name: "barrier", Material: "Al0.24Ga0.76As", ThicknessM: 100e-9})
+	ls = append(ls, dw()...)
+	ls = append(ls, Layer{Name: "spacer", Material: "Al0.24Ga0.76As", ThicknessM: spacer},
+		Layer{Name: "QW", Material: "GaAs", ThicknessM: 30e-9},
+		Layer{Name: "spacer", Material: "Al0.24Ga0.76As", ThicknessM: spacer})
+	ls = append(ls, dw()...)
+	ls = append(ls, Layer{Name: "barrier", Material: "Al0.24Ga0.76As", ThicknessM: 300e-9}, Layer{Name: "buffer", Material: "GaAs", ThicknessM: 400e-9})
+	return Stack{Layers: ls}
+}
+
+// BenchmarkSolve1um: the doping-well stack of dwStack (about 1 µm, Γ, X and L valleys all
+// holding or nearly holding electrons: Γ in the channel and doping wells, X in the AlAs
+// claddings) on the default 0.5 nm grid, solved to convergence.
+func BenchmarkSolve1um(b *testing.B) {
+	st := dwStack(2.8e-9, 1e16, 80e-9)
+	for b.Loop() {
+		if _, err := Solve(st, Options{}); err != nil {
+			b.Fatal(err)
 		}
 	}
 }
