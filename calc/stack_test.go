@@ -48,8 +48,12 @@ func TestExpectedDensitySurface(t *testing.T) {
 			t.Fatalf("%s: %v", tc.name, err)
 		}
 		r := v.(*Result)
-		if len(r.Warnings) != 0 {
-			t.Errorf("%s: warnings %q, want none", tc.name, r.Warnings)
+		for _, w := range r.Warnings {
+			// Shallow donors after illumination leave the excess of a generous delta
+			// layer on un-ionised donors: a warning of that state only.
+			if !strings.HasPrefix(w, "after illumination: parallel conduction") {
+				t.Errorf("%s: warning %q, want none in the dark", tc.name, w)
+			}
 		}
 		n := fieldValue(t, r, "n")
 		if (n < 1e12) != tc.zero {

@@ -74,9 +74,13 @@ type Region struct {
 	StartM, EndM          float64 // depth range, metres from the surface
 	EcEV                  float64 // lowest conduction edge of the material (flat band), eV on the common scale
 	Donors                bool    // some layer of the region has donors
-	N2D                   float64 // electrons in the region, m^-2
-	ValleyN2D             [NValleys]float64
-	Subbands              []int // indices into Result.Subbands
+	N2D                   float64 // electrons in the region's subbands, m^-2
+	// BoundN2D is the electrons on neutral shallow donors where their density exceeds the
+	// Mott density (an impurity band that conducts in parallel), m^-2. Electrons on deep
+	// (DX) donors are localised and not counted.
+	BoundN2D  float64
+	ValleyN2D [NValleys]float64
+	Subbands  []int // indices into Result.Subbands
 }
 
 // regionsOf groups the layers of a stack. bottomM is the depth of the end of the grid

@@ -202,6 +202,10 @@ type grid struct {
 	nd  []float64 // per node, donors m^-3
 	na  []float64 // per node, acceptors m^-3
 	eb  []float64 // per node, donor binding energy eV; +Inf for donors taken as ionised
+	// mott is, per node, the Mott density of shallow donors (m^-3) above which electrons on
+	// neutral donors form a conducting band; +Inf where the donors are deep (DX, or a given
+	// DonorDepthEV) and their electrons stay localised.
+	mott []float64
 	// boundaries
 	phi0     float64 // Dirichlet value of φ at the surface node
 	bottom   int     // BottomPinned, BottomBulk, BottomZeroField
@@ -273,9 +277,9 @@ func newGrid(s Stack, ps []Params, o Options) (*grid, error) {
 	start := 0
 	depth := 0.0
 	type sheet struct {
-		node int
-		d    Doping
-		eb   float64
+		node     int
+		d        Doping
+		eb, mott float64
 	}
 	var sheets []sheet
 	for i, l := range s.Layers {
@@ -290,7 +294,7 @@ func newGrid(s Stack, ps []Params, o Options) (*grid, error) {
 			layerOf[k] = i
 		}
 		if l.Doping.Sheet && l.Doping.Density > 0 {
-			sheets = append(sheets, sheet{node: int(math.Round((top + l.ThicknessM/2) / h)), d: l.Doping, eb: ebOf(i)})
+			sheets = append(sheets, sheet{node: int(math.Round((top + l.ThicknessM/2) / h)), d: l.Doping, eb: ebOf(i), mott: mottOf(ps[i], ebOf(i))})
 		}
 		start = end
 	}
@@ -301,6 +305,7 @@ func newGrid(s Stack, ps []Params, o Options) (*grid, error) {
 	ndI := make([]float64, n)
 	naI := make([]float64, n)
 	ebI := make([]float64, n)
+	mottI := make([]float64, n)
 	var ecI, mdI [NValleys][]float64
 	for v := range g.val {
 		g.val[v] = vgrid{name: valleyNames[v], gv: ps[0].Valleys[v].Gv, mInv: make([]float64, n)}
@@ -325,6 +330,7 @@ func newGrid(s Stack, ps []Params, o Options) (*grid, error) {
 				if d.Donor() {
 					ndI[k] = d.Density
 					ebI[k] = ebOf(li)
+					mottI[k] = mottOf(p, ebI[k])
 				} else if d.Acceptor() {
 					naI[k] = d.Density
 				}
@@ -340,6 +346,10 @@ func newGrid(s Stack, ps []Params, o Options) (*grid, error) {
 	g.nd = make([]float64, np)
 	g.na = make([]float64, np)
 	g.eb = make([]float64, np)
+	g.mott = make([]float64, np)
+	for j := range g.mott {
+		g.mott[j] = math.Inf(1)
+	}
 	for v := range g.val {
 		g.val[v].v0 = make([]float64, np)
 		g.val[v].md = make([]float64, np)
@@ -362,6 +372,9 @@ func newGrid(s Stack, ps []Params, o Options) (*grid, error) {
 			}
 			g.nd[j] += ndI[k] * h / 2 / g.w[j]
 			g.na[j] += naI[k] * h / 2 / g.w[j]
+			if ndI[k] > 0 {
+				g.mott[j] = math.Min(g.mott[j], mottI[k])
+			}
 			if ndI[k] > 0 {
 				if math.IsInf(ebI[k], 1) {
 					ion = true
@@ -391,6 +404,7 @@ func newGrid(s Stack, ps []Params, o Options) (*grid, error) {
 				g.eb[j] = (g.eb[j]*g.nd[j] + sh.eb*add) / (g.nd[j] + add)
 			}
 			g.nd[j] += add
+			g.mott[j] = math.Min(g.mott[j], sh.mott)
 		} else {
 			g.na[j] += add
 		}
@@ -408,6 +422,22 @@ func newGrid(s Stack, ps []Params, o Options) (*grid, error) {
 		g.ecBulk = sub.EcEV - (sub.VBOEV + acceptorEV)
 	}
 	return g, nil
+}
+
+// mottFactor is the Mott criterion n_c^{1/3} a_B* = 0.26 for the metal–insulator transition of
+// doped semiconductors (Edwards & Sienko, Phys. Rev. B 17, 2575 (1978)).
+const mottFactor = 0.26
+
+// mottOf is the Mott density (m^-3) of donors with binding energy eb in material p: shallow
+// hydrogenic donors have a_B* = a_0 ε_r/(m*/m_e); deeper (DX or given) levels get +Inf, their
+// electrons being localised.
+func mottOf(p Params, eb float64) float64 {
+	if eb != p.DonorEV {
+		return math.Inf(1)
+	}
+	a0 := 4 * math.Pi * eps0 * hbar * hbar / (me * qe * qe)
+	aB := a0 * p.EpsR / p.Mstar
+	return math.Pow(mottFactor/aB, 3)
 }
 
 // dxLayer reports whether Si in the layer forms DX centres: Al(x)Ga(1−x)As with
@@ -897,6 +927,16 @@ func (g *grid) result(phi []float64, it int, o Options, hint *hints) *Result {
 			res.ChannelN2D += rg.N2D
 		}
 	}
+	// Electrons on neutral shallow donors above the Mott density conduct.
+	for j := 0; j <= n; j++ {
+		if g.nd[j] == 0 || math.IsInf(g.eb[j], 1) {
+			continue
+		}
+		neutral := g.nd[j] - (q[j] + g.na[j] + nel[j]) // N_D − N_D⁺
+		if neutral > g.mott[j] {
+			res.Regions[regionAt(res.Regions, res.Z[j])].BoundN2D += neutral * g.w[j]
+		}
+	}
 	res.Density2D = wells(res.Z, nel, g.w)
 	res.Warnings = regionWarnings(res.Regions)
 	return res
@@ -947,6 +987,14 @@ func regionWarnings(rs []Region) []string {
 	for _, r := range rs {
 		if r.Kind == RegionChannel {
 			channel = true
+		}
+		if r.BoundN2D >= parasiticMinM2 {
+			where := "the doping layer"
+			if r.Kind == RegionCap {
+				where = "the cap"
+			}
+			out = append(out, fmt.Sprintf("parallel conduction in %s: %.3g cm^-2 electrons on un-ionised donors above the Mott density in %s at %.1f–%.1f nm",
+				where, r.BoundN2D*1e-4, r.Name, r.StartM*1e9, r.EndM*1e9))
 		}
 		if r.N2D < parasiticMinM2 {
 			continue
