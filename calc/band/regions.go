@@ -280,19 +280,33 @@ func regionAt(rs []Region, z float64) int {
 	return len(rs) - 1
 }
 
-// claddedWell returns the doping well that region k clads (a thin barrier next to a doping
-// well), or -1.
-func claddedWell(rs []Region, k int) int {
-	if rs[k].Kind == RegionDopingWell || rs[k].Kind == RegionChannel || rs[k].EndM-rs[k].StartM > claddingMaxM {
+// dopingWellReachM is how far from a doping well a state outside any well may peak and still
+// count with the well: its charge bends the neighbouring barrier into notches a few
+// nanometres wide, which hold some of its electrons (common practice).
+const dopingWellReachM = 20e-9
+
+// claddedWell returns the doping well that a state peaking at depth z in region k belongs to:
+// region k clads the well (a thin barrier next to it), or k is a barrier and the well lies
+// within dopingWellReachM of z. Otherwise -1.
+func claddedWell(rs []Region, k int, z float64) int {
+	switch rs[k].Kind {
+	case RegionDopingWell, RegionChannel, RegionCap, RegionWell:
 		return -1
 	}
-	switch {
-	case k > 0 && rs[k-1].Kind == RegionDopingWell:
-		return k - 1
-	case k+1 < len(rs) && rs[k+1].Kind == RegionDopingWell:
-		return k + 1
+	thin := rs[k].EndM-rs[k].StartM <= claddingMaxM
+	best, bestD := -1, math.Inf(1)
+	for _, w := range []int{k - 1, k + 1, k - 2, k + 2} {
+		if w < 0 || w >= len(rs) || rs[w].Kind != RegionDopingWell {
+			continue
+		}
+		d := math.Max(0, math.Max(rs[w].StartM-z, z-rs[w].EndM))
+		if (thin && (w == k-1 || w == k+1)) || d <= dopingWellReachM {
+			if d < bestD {
+				best, bestD = w, d
+			}
+		}
 	}
-	return -1
+	return best
 }
 
 // interfaceReachM is how far from a channel's interface a subband's electrons may lie and

@@ -902,7 +902,7 @@ func (g *grid) result(phi []float64, it int, o Options, hint *hints) *Result {
 			}
 		}
 		k := regionAt(res.Regions, res.Z[jp])
-		if w := claddedWell(res.Regions, k); w >= 0 {
+		if w := claddedWell(res.Regions, k, res.Z[jp]); w >= 0 {
 			k = w
 		}
 		if res.Regions[k].Kind == RegionChannel && !nearInterface(res.Regions, k, res.Z, sb.Psi, g.h) {
