@@ -50,6 +50,10 @@ type AnalyticInput struct {
 	// the donors give beyond those of the channel and the depletion charge (see [Analytic]).
 	Surface          bool
 	SurfaceBarrierEV float64
+	// SurfaceOffsetEV is the conduction edge of the surface layer above the channel's
+	// (the band offsets met on the way from the surface to the channel add up to it): 0 for a
+	// GaAs cap over a GaAs channel, ΔE_c when the barrier reaches the surface.
+	SurfaceOffsetEV float64
 	// DonorsM2 is every donor between the surface and the channel per area (m^-2).
 	DonorsM2 float64
 	// DepthOverEps is ∫dz/ε from the surface to the channel interface (m²/F), and
@@ -88,10 +92,11 @@ type AnalyticResult struct {
 // the donor level no longer pins E_F. Gauss's law from the surface (E_c = Φ_B, surface
 // charge −e(N − n − N_depl)) to the channel interface then gives
 //
-//	e n A + E0(n) + E_F(n) = ΔE_c − Φ_B + e(N − N_depl)A − eB,
+//	e n A + E0(n) + E_F(n) = ΔE_s − Φ_B + e(N − N_depl)A − eB,
 //
-// with N the donors above the channel, A = ∫dz/ε and B = ∫Q(z)/ε dz from the surface to the
-// interface (Q(z) the donors above z). The estimate is the smaller of the two densities (the
+// with ΔE_s the conduction edge of the surface layer above the channel's (the band offsets
+// met on the way), N the donors above the channel, A = ∫dz/ε and B = ∫Q(z)/ε dz from the
+// surface to the interface (Q(z) the donors above z). The estimate is the smaller of the two densities (the
 // donor level can only hold E_F while the donors are not all ionised), and n ≥ 0. Parallel
 // conduction and DX centres beyond E_D' are not modelled: the result is an estimate, not a
 // check of a wafer.
@@ -133,7 +138,7 @@ func Analytic(in AnalyticInput) (AnalyticResult, error) {
 	// surface: every donor ionised, the rest of their electrons on the surface.
 	surface := func(n float64) float64 {
 		e0, ef, _ := sub(n)
-		rhs := in.DeltaEcEV - in.SurfaceBarrierEV + qe*(in.DonorsM2-in.DeplM2)*in.DepthOverEps - qe*in.DonorMomentOverEps
+		rhs := in.SurfaceOffsetEV - in.SurfaceBarrierEV + qe*(in.DonorsM2-in.DeplM2)*in.DepthOverEps - qe*in.DonorMomentOverEps
 		return qe*n*in.DepthOverEps + e0 + ef - rhs
 	}
 	nPin, err := root(pinned)
@@ -311,6 +316,9 @@ func AnalyticInputFor(s Stack, donorDepthEV float64) (AnalyticInput, error) {
 	// Surface: donors above the channel and the integrals A = ∫dz/ε, B = ∫Q/ε.
 	in.Surface = true
 	in.SurfaceBarrierEV = s.Surface.barrier()
+	if top := nextThick(s, -1); top >= 0 && top < len(s.Layers) {
+		in.SurfaceOffsetEV = ps[top].EcEV - ps[channel].EcEV
+	}
 	q := 0.0
 	for i := 0; i < channel; i++ {
 		l := s.Layers[i]
