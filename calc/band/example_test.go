@@ -90,3 +90,46 @@ func ExampleAnalyticInputFor() {
 	// Output:
 	// spacer 20 nm, ΔEc 259.1 meV, n ≈ 2.12e+11 cm^-2
 }
+
+// A quantum well doped from both sides through doping wells: Si sheets in 2.8 nm GaAs wells
+// clad by 2 nm of AlAs. Expect solves it in the dark and after illumination (the same here:
+// Si in GaAs forms no DX centres) and lists where the electrons are.
+func ExampleExpect() {
+	dw := func() []band.Layer {
+		return []band.Layer{
+			{Name: "cladding", Material: "AlAs", ThicknessM: 2e-9},
+			{Name: "doping well", Material: "GaAs", ThicknessM: 1.4e-9},
+			{Name: "Si", Material: "GaAs", Doping: band.Doping{Species: "Si", Sheet: true, Density: 1e16}},
+			{Name: "doping well", Material: "GaAs", ThicknessM: 1.4e-9},
+			{Name: "cladding", Material: "AlAs", ThicknessM: 2e-9},
+		}
+	}
+	layers := []band.Layer{{Name: "cap", Material: "GaAs", ThicknessM: 10e-9}, {Name: "barrier", Material: "Al0.24Ga0.76As", ThicknessM: 100e-9}}
+	layers = append(layers, dw()...)
+	layers = append(layers, band.Layer{Name: "spacer", Material: "Al0.24Ga0.76As", ThicknessM: 80e-9},
+		band.Layer{Name: "QW", Material: "GaAs", ThicknessM: 30e-9},
+		band.Layer{Name: "spacer", Material: "Al0.24Ga0.76As", ThicknessM: 80e-9})
+	layers = append(layers, dw()...)
+	layers = append(layers, band.Layer{Name: "barrier", Material: "Al0.24Ga0.76As", ThicknessM: 300e-9},
+		band.Layer{Name: "buffer", Material: "GaAs", ThicknessM: 400e-9})
+	ex, err := band.Expect(band.Stack{Layers: layers}, band.Options{})
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	r := ex.Dark
+	for _, g := range r.Regions {
+		if g.N2D > 1e12 {
+			fmt.Printf("%-36s %5.1f–%5.1f nm  %.2f e11 cm^-2, %.0f %% in X\n", g.Name, g.StartM*1e9, g.EndM*1e9, g.N2D/1e15,
+				100*(g.ValleyN2D[1]+g.ValleyN2D[2])/g.N2D)
+		}
+	}
+	fmt.Println("same after illumination:", ex.Illuminated == ex.Dark)
+	fmt.Println(ex.AnalyticNote)
+	// Output:
+	// doping well 1 (doping well, Si)      112.0–114.8 nm  2.74 e11 cm^-2, 0 % in X
+	// channel (QW)                         196.8–226.8 nm  3.39 e11 cm^-2, 0 % in X
+	// doping well 2 (doping well, Si)      308.8–311.6 nm  7.29 e11 cm^-2, 100 % in X
+	// same after illumination: true
+	// the analytic heterojunction estimate does not apply: the donors sit in doping wells (doping well 1 (doping well, Si))
+}
