@@ -183,6 +183,26 @@ func regionsOf(s Stack, ps []Params, bottomM float64) []Region {
 			rs[k].Kind = RegionBarrier
 		}
 	}
+	// Short-period superlattice doping: thin undoped wells joined to a doping well through
+	// thin barriers (the undoped GaAs layers of a GaAs/AlAs superlattice around the doped
+	// ones) belong to the doping structure.
+	for changed := true; changed; {
+		changed = false
+		for k := range rs {
+			if rs[k].Kind != RegionWell || rs[k].EndM-rs[k].StartM > dopingWellMaxM {
+				continue
+			}
+			for _, d := range []int{-1, 1} {
+				b, w := k+d, k+2*d
+				if w < 0 || w >= len(rs) || rs[w].Kind != RegionDopingWell || rs[b].EndM-rs[b].StartM > claddingMaxM {
+					continue
+				}
+				rs[k].Kind = RegionDopingWell
+				changed = true
+				break
+			}
+		}
+	}
 	if !named {
 		// The undoped well nearest the donors (nearest the surface without donors).
 		best, bestD := -1, math.Inf(1)
