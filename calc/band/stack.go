@@ -368,9 +368,9 @@ func (s Stack) substrate() string {
 
 // Validate checks the stack and returns every problem found, joined: unknown materials (the
 // message lists the known ones), thicknesses that are not positive (zero is allowed for a
-// delta-doped layer), negative or non-finite densities, a stack with no donors (unless a gate
-// is present), and a stack with no well — no layer whose conduction band lies below that of
-// a neighbouring layer.
+// delta-doped layer), negative or non-finite densities, an unknown surface or bottom kind, a
+// stack with no donors (unless a gate is present), and a stack with no well — no layer whose
+// lowest conduction band lies below that of a neighbouring layer.
 func (s Stack) Validate() error {
 	_, err := s.params()
 	return err

@@ -24,12 +24,12 @@ func (r *Result) Summary() string {
 	for _, w := range r.Warnings {
 		fmt.Fprintf(&b, "warning: %s\n", w)
 	}
-	fmt.Fprintf(&b, "%-4s %-5s %10s %12s %8s %8s  %s\n", "sub", "valley", "E-EF/meV", "n/cm^-2", "<z>/nm", "m*/me", "region")
+	fmt.Fprintf(&b, "%-4s %-6s %10s %12s %8s %8s  %s\n", "sub", "valley", "E-EF/meV", "n/cm^-2", "<z>/nm", "m*/me", "region")
 	for i, s := range r.Subbands {
 		if s.E > 0.010 {
 			break
 		}
-		fmt.Fprintf(&b, "%-4d %-5s %10.3f %12s %8.2f %8.4f  %s\n", i, s.Valley, s.E*1e3, density(s.N2D), s.MeanZ*1e9, s.Mstar,
+		fmt.Fprintf(&b, "%-4d %-6s %10.3f %12s %8.2f %8.4f  %s\n", i, s.Valley, s.E*1e3, density(s.N2D), s.MeanZ*1e9, s.Mstar,
 			r.Regions[s.Region].Kind)
 	}
 	return b.String()
