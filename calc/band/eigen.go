@@ -76,9 +76,9 @@ func (t tridiag) lowest(cut float64, maxN int, hint []float64, spread float64) (
 		return nil, nil
 	}
 	scale := math.Max(math.Abs(glo), math.Abs(ghi))
-	// Bisection stops at 1e-11 of the matrix scale; the Rayleigh quotient of the inverse-
+	// Bisection stops at 1e-8 of the matrix scale; the Rayleigh quotient of the inverse-
 	// iteration vector then refines each eigenvalue to rounding level.
-	tol := 1e-11 * scale
+	tol := 1e-8 * scale
 	lo := make([]float64, k)
 	hi := make([]float64, k)
 	for i := range lo {
@@ -132,7 +132,10 @@ func (t tridiag) lowest(cut float64, maxN int, hint []float64, spread float64) (
 		}
 		shift := vals[i]
 		nudges := 0
-		for iter := 0; iter < 2; iter++ {
+		// Inverse iteration until the Rayleigh quotient settles (at least two steps, at
+		// most six): the shift is only within tol of the eigenvalue.
+		rq, prevRQ := math.NaN(), math.NaN()
+		for iter := 0; iter < 6; iter++ {
 			copy(dl, t.e)
 			copy(du, t.e)
 			for j := range dd {
@@ -153,6 +156,10 @@ func (t tridiag) lowest(cut float64, maxN int, hint []float64, spread float64) (
 				}
 			}
 			normalise(x)
+			prevRQ, rq = rq, t.rayleigh(x)
+			if iter >= 1 && math.Abs(rq-prevRQ) <= 1e-13*scale {
+				break
+			}
 		}
 		// sign convention: largest component positive
 		imax := 0
@@ -167,23 +174,28 @@ func (t tridiag) lowest(cut float64, maxN int, hint []float64, spread float64) (
 			}
 		}
 		vecs[i] = x
-		// Rayleigh quotient xᵀTx (x has unit norm)
-		rq := 0.0
-		for j := 0; j < n; j++ {
-			tx := t.d[j] * x[j]
-			if j > 0 {
-				tx += t.e[j-1] * x[j-1]
-			}
-			if j < n-1 {
-				tx += t.e[j] * x[j+1]
-			}
-			rq += x[j] * tx
-		}
 		if math.Abs(rq-vals[i]) <= 2*tol {
 			vals[i] = rq
 		}
 	}
 	return vals, vecs
+}
+
+// rayleigh is the Rayleigh quotient xᵀTx of a unit vector x.
+func (t tridiag) rayleigh(x []float64) float64 {
+	n := len(t.d)
+	rq := 0.0
+	for j := 0; j < n; j++ {
+		tx := t.d[j] * x[j]
+		if j > 0 {
+			tx += t.e[j-1] * x[j-1]
+		}
+		if j < n-1 {
+			tx += t.e[j] * x[j+1]
+		}
+		rq += x[j] * tx
+	}
+	return rq
 }
 
 func dot(a, b []float64) float64 {

@@ -14,17 +14,20 @@ import (
 // and per-node potential energies (eV) from the given functions of position.
 func testGrid(n int, h float64, mass func(z float64) float64, pot func(j int, z float64) float64) *grid {
 	g := &grid{h: h, n: n, kT: kB * 4.2 / qe, maxSub: 10, cut: 0.5}
-	g.mInv = make([]float64, n)
-	g.mNode = make([]float64, n+1)
-	g.v0 = make([]float64, n+1)
-	for k := 0; k < n; k++ {
-		g.mInv[k] = 1 / mass((float64(k)+0.5)*h)
+	// One Γ valley; the others lie far above the cut, so the solver skips them.
+	for v := range g.val {
+		vg := vgrid{name: valleyNames[v], gv: 1, mInv: make([]float64, n), v0: make([]float64, n+1), md: make([]float64, n+1)}
+		for k := 0; k < n; k++ {
+			vg.mInv[k] = 1 / mass((float64(k)+0.5)*h)
+		}
+		for j := 0; j <= n; j++ {
+			z := float64(j) * h
+			vg.v0[j] = pot(j, z) + 1e3*float64(v)
+			vg.md[j] = mass(z)
+		}
+		g.val[v] = vg
 	}
-	for j := 0; j <= n; j++ {
-		z := float64(j) * h
-		g.v0[j] = pot(j, z)
-		g.mNode[j] = mass(z)
-	}
+	g.v0 = g.val[0].v0
 	return g
 }
 
@@ -32,24 +35,24 @@ func stateEnergies(g *grid, cut float64) []float64 {
 	tri := tridiag{d: make([]float64, g.n-1), e: make([]float64, g.n-2)}
 	t := hbar * hbar / (2 * me * g.h * g.h) / qe
 	for j := 1; j < g.n; j++ {
-		tri.d[j-1] = t*(g.mInv[j-1]+g.mInv[j]) + g.v0[j]
+		tri.d[j-1] = t*(g.val[0].mInv[j-1]+g.val[0].mInv[j]) + g.v0[j]
 		if j < g.n-1 {
-			tri.e[j-1] = -t * g.mInv[j]
+			tri.e[j-1] = -t * g.val[0].mInv[j]
 		}
 	}
 	vals, _ := tri.lowest(cut, 10, nil, -1)
 	return vals
 }
 
-// TestInfiniteWell: E_n = n²π²ħ²/(2m*L²) (closed form); REFERENCE §5 row 22:
+// TestInfiniteWell: E_n = n²π²ħ²/(2m*L²) (closed form), with CODATA 2018 constants:
 // L = 10 nm, m* = 0.067: E1 = 56.124 meV, E2 = 224.50 meV.
 func TestInfiniteWell(t *testing.T) {
 	g := testGrid(1000, 10e-9/1000, func(float64) float64 { return 0.067 }, func(int, float64) float64 { return 0 })
-	st := g.schrodinger(make([]float64, g.n+1), nil, -1)
+	st := g.schrodinger(make([]float64, g.n+1), nil)
 	want := []float64{56.124, 224.50}
 	for i, w := range want {
 		if relErr(st.e[i]*1e3, w) > 1e-4 {
-			t.Errorf("E%d = %.5f meV, want %.3f (REFERENCE row 22)", i+1, st.e[i]*1e3, w)
+			t.Errorf("E%d = %.5f meV, want %.3f (closed form)", i+1, st.e[i]*1e3, w)
 		}
 		closed := float64((i+1)*(i+1)) * math.Pi * math.Pi * hbar * hbar / (2 * 0.067 * me * 1e-16) / qe
 		if relErr(st.e[i], closed) > 1e-5 {
@@ -66,7 +69,8 @@ func TestInfiniteWell(t *testing.T) {
 	}
 }
 
-// finiteWellRoot solves the BenDaniel–Duke matching conditions of REFERENCE §3.7 by
+// finiteWellRoot solves the BenDaniel–Duke matching conditions (BenDaniel & Duke, Phys. Rev.
+// 152, 683 (1966): ψ and ψ'/m continuous) by
 // bisection: even states (k/m_w) tan(kL/2) = κ/m_b, odd states −(k/m_w) cot(kL/2) = κ/m_b.
 func finiteWellRoot(v0, l, mw, mb float64, odd bool) float64 {
 	f := func(e float64) float64 {
@@ -97,14 +101,15 @@ func finiteWellRoot(v0, l, mw, mb float64, odd bool) float64 {
 	return 0.5 * (lo + hi)
 }
 
-// TestFiniteWell: V0 = 0.25 eV, L = 10 nm, GaAs well m* = 0.067; REFERENCE §5 row 23:
+// TestFiniteWell: V0 = 0.25 eV, L = 10 nm, GaAs well m* = 0.067; roots of the matching
+// conditions evaluated independently with CODATA 2018 constants:
 // equal masses E1 = 32.772, E2 = 125.90 meV; BenDaniel–Duke with barrier mass 0.0919
 // E1 = 30.547, E2 = 120.04 meV (BenDaniel & Duke, Phys. Rev. 152, 683 (1966)).
 func TestFiniteWell(t *testing.T) {
 	tests := []struct {
 		name   string
 		mb     float64
-		e1, e2 float64 // meV, REFERENCE row 23
+		e1, e2 float64 // meV, independent evaluation
 	}{
 		{"equal masses", 0.067, 32.772, 125.90},
 		{"BenDaniel-Duke", 0.0919, 30.547, 120.04},
@@ -139,7 +144,7 @@ func TestFiniteWell(t *testing.T) {
 			}
 			for i, want := range []float64{tc.e1, tc.e2} {
 				if relErr(e[i]*1e3, want) > 3e-4 {
-					t.Errorf("E%d = %.4f meV, want %.3f (REFERENCE row 23)", i+1, e[i]*1e3, want)
+					t.Errorf("E%d = %.4f meV, want %.3f (independent evaluation)", i+1, e[i]*1e3, want)
 				}
 				exact := finiteWellRoot(v0, l, 0.067, tc.mb, i == 1)
 				if relErr(e[i], exact) > 3e-4 {
@@ -150,7 +155,7 @@ func TestFiniteWell(t *testing.T) {
 	}
 }
 
-// Zeros of Ai: Abramowitz & Stegun Table 10.13 and NIST DLMF §9.9 (REFERENCE §3.1, values
+// Zeros of Ai: Abramowitz & Stegun Table 10.13 and NIST DLMF §9.9 (values
 // computed with mpmath airyaizero).
 var airyZeros = []float64{2.33810741046, 4.08794944413, 5.52055982810, 6.78670809007, 7.94413358712}
 
@@ -160,17 +165,18 @@ func triangularEnergies(h float64) ([]float64, *grid, *states) {
 	const f, depth = 1e7, 80e-9
 	n := int(math.Round(depth / h))
 	g := testGrid(n, h, func(float64) float64 { return 0.067 }, func(_ int, z float64) float64 { return f * z })
-	st := g.schrodinger(make([]float64, n+1), nil, -1)
+	st := g.schrodinger(make([]float64, n+1), nil)
 	return st.e, g, st
 }
 
-// TestTriangularWell: E_n = (ħ²/2m*)^{1/3}(eF)^{2/3}|a_{n+1}| (REFERENCE §3.1), scale
-// 38.4547 meV at F = 1e7 V/m; row 20: E0 = 89.911, E1 = 157.20, E2 = 212.29 meV, ⟨z⟩0 = 5.9941 nm.
+// TestTriangularWell: E_n = (ħ²/2m*)^{1/3}(eF)^{2/3}|a_{n+1}| (Airy solution of the
+// triangular well; Ando, Fowler & Stern, Rev. Mod. Phys. 54, 437 (1982)), scale 38.4547 meV
+// at F = 1e7 V/m with CODATA 2018 constants: E0 = 89.911, E1 = 157.20, E2 = 212.29 meV, ⟨z⟩0 = 5.9941 nm.
 func TestTriangularWell(t *testing.T) {
 	e, g, st := triangularEnergies(0.01e-9)
 	scale := math.Cbrt(hbar*hbar/(2*0.067*me)) * math.Pow(qe*1e7, 2.0/3) / qe
 	if relErr(scale*1e3, 38.4547) > 1e-5 {
-		t.Errorf("scale %.6f meV, want 38.4547 (REFERENCE row 20)", scale*1e3)
+		t.Errorf("scale %.6f meV, want 38.4547 (closed form)", scale*1e3)
 	}
 	for i, a := range airyZeros {
 		if relErr(e[i], scale*a) > 1e-4 {
@@ -179,7 +185,7 @@ func TestTriangularWell(t *testing.T) {
 	}
 	for i, want := range []float64{89.911, 157.20, 212.29} {
 		if relErr(e[i]*1e3, want) > 1e-4 {
-			t.Errorf("E%d = %.4f meV, want %.3f (REFERENCE row 20)", i, e[i]*1e3, want)
+			t.Errorf("E%d = %.4f meV, want %.3f (Airy zeros × scale)", i, e[i]*1e3, want)
 		}
 	}
 	mz := 0.0
@@ -187,7 +193,7 @@ func TestTriangularWell(t *testing.T) {
 		mz += p * p * float64(j) * g.h * g.h
 	}
 	if relErr(mz*1e9, 5.9941) > 1e-4 {
-		t.Errorf("<z>0 = %.5f nm, want 5.9941 (REFERENCE row 20)", mz*1e9)
+		t.Errorf("<z>0 = %.5f nm, want 5.9941 ((2/3)E0/(eF))", mz*1e9)
 	}
 }
 

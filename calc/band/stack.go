@@ -234,12 +234,74 @@ const (
 )
 
 // DefaultPinningEV is the conduction-band height of an oxidised GaAs surface above E_F:
-// midgap pinning, about 0.7 eV (range 0.6–0.8 eV; from memory, unverified — REFERENCE §3.5).
+// pinning near midgap, about 0.7 eV (range 0.6–0.8 eV; from memory, unverified; the
+// midgap picture is the unified defect model of Spicer et al., Phys. Rev. Lett. 44, 420
+// (1980), journal reference from memory).
 const DefaultPinningEV = 0.7
 
 // DefaultSchottkyEV is the Schottky barrier of a metal gate on GaAs, 0.8 eV (middle of the
-// 0.7–0.9 eV range; from memory, unverified — REFERENCE §3.5).
+// 0.7–0.9 eV range; from memory, unverified).
 const DefaultSchottkyEV = 0.8
+
+// Bottom boundary kinds (Stack.Bottom.Kind).
+const (
+	// BottomPinned is a semi-insulating substrate: the Fermi level is pinned PinEV below the
+	// conduction band at the top of the substrate, where the grid ends.
+	BottomPinned = iota
+	// BottomBulk is a p-type background (acceptors BackgroundM3 in every layer without
+	// intentional doping and in the substrate): the grid runs SubstrateM into the substrate
+	// and joins the neutral bulk through a depletion layer (depletion approximation, see
+	// [Bottom]).
+	BottomBulk
+	// BottomZeroField ends the grid SubstrateM below the last layer with zero electric
+	// field: a flat band edge deep in an undoped buffer, which can hold electrons that a real
+	// sample does not have. Kept for comparisons.
+	BottomZeroField
+)
+
+// DefaultSubstratePinEV is the depth of the Fermi level below the conduction band of
+// semi-insulating GaAs: pinned at the EL2 deep donor near midgap, E_c − 0.75 eV (from
+// memory, unverified; EL2 after Martin, Mitonneau and Mircea, Electron. Lett. 13, 191
+// (1977), reference from memory).
+const DefaultSubstratePinEV = 0.75
+
+// DefaultBackgroundM3 is the p-type background of undoped MBE GaAs and AlGaAs that
+// BottomBulk assumes when none is given: 1e14 cm^-3 of carbon acceptors (common practice).
+const DefaultBackgroundM3 = 1e20
+
+// acceptorEV is the depth of the background acceptor level above the valence band that
+// fixes E_F in the neutral p-type bulk: carbon in GaAs, about 26 meV (from memory,
+// unverified).
+const acceptorEV = 0.026
+
+// Bottom is the boundary condition below the stack.
+//
+// BottomBulk joins the grid to the neutral p-type bulk through a depletion layer: with ΔV
+// the band still to rise from the end of the grid to the bulk position E_c − E_F =
+// E_g − 26 meV, the acceptors beyond the grid carry e·N_A·W per area with
+// W = √(2εΔV/(e N_A)) (depletion approximation).
+type Bottom struct {
+	Kind  int     // BottomPinned (the zero value), BottomBulk or BottomZeroField
+	PinEV float64 // BottomPinned: E_c − E_F at the top of the substrate, eV; 0 selects DefaultSubstratePinEV
+	// BackgroundM3 is a density of acceptors (m^-3) added to every layer without
+	// intentional doping and to the substrate. For BottomBulk 0 selects
+	// DefaultBackgroundM3; for the other kinds 0 means none.
+	BackgroundM3 float64
+}
+
+func (b Bottom) pin() float64 {
+	if b.PinEV == 0 {
+		return DefaultSubstratePinEV
+	}
+	return b.PinEV
+}
+
+func (b Bottom) background() float64 {
+	if b.BackgroundM3 == 0 && b.Kind == BottomBulk {
+		return DefaultBackgroundM3
+	}
+	return b.BackgroundM3
+}
 
 // Surface is the boundary condition at the top of the stack.
 type Surface struct {
@@ -264,10 +326,15 @@ func (s Surface) barrier() float64 {
 }
 
 // Stack is a wafer's layer sequence from the surface down, its surface and its substrate.
+//
+// Layers are taken as grown coherently on the lattice of the last layer of the table (the
+// buffer, taken as relaxed): a layer of another lattice constant is strained, which shifts its
+// Γ edge (see Params.StrainShiftEV).
 type Stack struct {
 	Layers            []Layer
 	Surface           Surface
 	SubstrateMaterial string // "GaAs" when empty
+	Bottom            Bottom // the boundary below the stack; the zero value is a semi-insulating substrate
 }
 
 // LayerError locates a problem in one layer of a stack. Layer is 1-based from the surface;
@@ -301,9 +368,9 @@ func (s Stack) substrate() string {
 
 // Validate checks the stack and returns every problem found, joined: unknown materials (the
 // message lists the known ones), thicknesses that are not positive (zero is allowed for a
-// delta-doped layer), negative or non-finite densities, a stack with no donors (unless a gate
-// is present), and a stack with no well — no layer whose conduction band lies below that of
-// a neighbouring layer.
+// delta-doped layer), negative or non-finite densities, an unknown surface or bottom kind, a
+// stack with no donors (unless a gate is present), and a stack with no well — no layer whose
+// lowest conduction band lies below that of a neighbouring layer.
 func (s Stack) Validate() error {
 	_, err := s.params()
 	return err
@@ -355,8 +422,24 @@ func (s Stack) params() ([]Params, error) {
 	if b := s.Surface.barrier(); math.IsNaN(b) || math.IsInf(b, 0) {
 		errs = append(errs, errors.New("surface: barrier or gate voltage is not a finite number"))
 	}
+	if b := s.Bottom; b.Kind != BottomPinned && b.Kind != BottomBulk && b.Kind != BottomZeroField {
+		errs = append(errs, fmt.Errorf("bottom: unknown kind %d (want BottomPinned, BottomBulk or BottomZeroField)", b.Kind))
+	} else if !(b.PinEV >= 0 && b.PinEV < 5) || !(b.BackgroundM3 >= 0 && b.BackgroundM3 < 1e26) {
+		errs = append(errs, fmt.Errorf("bottom: pinning %g eV or background %g m^-3 is not a finite, non-negative number of a sensible size", b.PinEV, b.BackgroundM3))
+	}
 	if errs != nil {
 		return nil, errors.Join(errs...)
+	}
+	// Strain: every layer coherent on the lattice of the last layer with a thickness.
+	aRef := 0.0
+	for i := len(s.Layers) - 1; i >= 0; i-- {
+		if s.Layers[i].ThicknessM > 0 {
+			aRef = ps[i].LatticeA
+			break
+		}
+	}
+	for i := range s.Layers {
+		ps[i] = ps[i].strained(aRef)
 	}
 	if !anyDonor && s.Surface.Kind != SurfaceGate {
 		errs = append(errs, fmt.Errorf("%w: no layer has donors, and there is no gate to induce carriers", ErrNoDoping))

@@ -17,12 +17,16 @@ import (
 // estimate beside it.
 func bandFuncs() []calc.Func {
 	eV := quantity.MustUnit("eV")
+	dVol := quantity.Length.Pow(-3)
 	return []calc.Func{{Name: "expected_density",
-		Doc: "the 2D density a self-consistent Schrödinger–Poisson solution of the layer table expects (surface pinned at `barrier` below the conduction band, or a gate at `gate` volts; donors shallow and hydrogenic unless `donor_depth` gives an effective deep level such as a DX centre), with the subbands and the analytic heterojunction estimate",
+		Doc: "the 2D channel density a self-consistent Schrödinger–Poisson solution of the layer table expects, dark (Si in Al-rich AlGaAs at the DX level, or at `donor_depth`) and illuminated (shallow donors), in the Γ, X and L valleys, with the surface pinned at `barrier` below the conduction band (or a gate at `gate` volts) and the substrate `bottom` = \"semi-insulating\" (E_F pinned `substrate_pin` below the conduction band), \"p-type\" (acceptor `background`) or \"zero-field\"; gives the subbands, the wells (channel, doping wells, parasitic channels) with their electrons, warnings for electrons outside the channel, and the analytic heterojunction estimate where it applies",
 		Params: []calc.Param{{Name: "layers"}, {Name: "T", Default: calc.Q(quantity.New(1.5, dTemp)), Dim: dimp(dTemp)},
 			{Name: "barrier", Default: calc.Q(quantity.New(band.DefaultPinningEV, eV.D).Scale(eV.Scale)), Dim: dimp(eV.D)},
 			{Name: "gate", Default: calc.String("none")},
-			{Name: "donor_depth", Default: calc.Q(quantity.New(0, eV.D)), Dim: dimp(eV.D)}},
+			{Name: "donor_depth", Default: calc.Q(quantity.New(0, eV.D)), Dim: dimp(eV.D)},
+			{Name: "bottom", Default: calc.String("semi-insulating")},
+			{Name: "substrate_pin", Default: calc.Q(quantity.New(band.DefaultSubstratePinEV, eV.D).Scale(eV.Scale)), Dim: dimp(eV.D)},
+			{Name: "background", Default: calc.Q(quantity.New(0, dVol)), Dim: dimp(dVol)}},
 		Call: func(_ *calc.Env, a []calc.Value) (calc.Value, error) {
 			layers, err := stackArg(a, 0)
 			if err != nil {
@@ -45,7 +49,22 @@ func bandFuncs() []calc.Func {
 			if depth < 0 {
 				return nil, &calc.ArgError{Arg: 4, Err: fmt.Errorf("%w: donor_depth must be positive (an energy below the conduction band)", calc.ErrArgument)}
 			}
-			res, err := band.Solve(st, band.Options{TemperatureK: qa(a, 1).Value(), DonorDepthEV: depth})
+			switch b := textOf(a[5]); b {
+			case "semi-insulating":
+				st.Bottom.Kind = band.BottomPinned
+			case "p-type":
+				st.Bottom.Kind = band.BottomBulk
+			case "zero-field":
+				st.Bottom.Kind = band.BottomZeroField
+			default:
+				return nil, &calc.ArgError{Arg: 5, Err: fmt.Errorf("%w: bottom must be \"semi-insulating\", \"p-type\" or \"zero-field\", found %q", calc.ErrArgument, b)}
+			}
+			st.Bottom.PinEV = qa(a, 6).Value() / eV.Scale
+			st.Bottom.BackgroundM3 = qa(a, 7).Value()
+			if st.Bottom.PinEV <= 0 || st.Bottom.BackgroundM3 < 0 {
+				return nil, &calc.ArgError{Arg: 6, Err: fmt.Errorf("%w: substrate_pin must be positive and background not negative", calc.ErrArgument)}
+			}
+			ex, err := band.Expect(st, band.Options{TemperatureK: qa(a, 1).Value(), DonorDepthEV: depth})
 			if err != nil {
 				var ce *band.ConvergenceError
 				if errors.As(err, &ce) {
@@ -53,7 +72,7 @@ func bandFuncs() []calc.Func {
 				}
 				return nil, err
 			}
-			return bandValue(st, res, depth), nil
+			return bandValue(st, ex), nil
 		}}}
 }
 
@@ -116,49 +135,65 @@ func textOf(v calc.Value) string {
 	return calc.Display(v)
 }
 
-// bandValue is the language's view of a solved stack.
-func bandValue(st band.Stack, res *band.Solution, donorDepthEV float64) *calc.AnalysisResult {
+// bandValue is the language's view of a solved stack: the dark state's channel is `n`.
+func bandValue(st band.Stack, ex *band.Expectation) *calc.AnalysisResult {
 	meV := quantity.MustUnit("meV")
+	energy := func(ev float64) calc.Value { return calc.Q(quantity.New(ev*meV.Scale*1e3, meV.D)) }
+	dens := func(m2 float64) calc.Value { return calc.Q(quantity.New(m2, dDensity)) }
+	res := ex.Dark
 	var subs calc.List
-	occupied := 0
 	for _, s := range res.Subbands {
-		if s.E < 0 { // below the Fermi level; thermal tails above it do not count
-			occupied++
-		}
-		subs = append(subs, calc.NewRecord("", "E", calc.Q(quantity.New(s.E*meV.Scale*1e3, meV.D)), "n", calc.Q(quantity.New(s.N2D, dDensity)),
-			"mean_z", calc.Q(quantity.New(s.MeanZ, quantity.Length))))
-		if len(subs) == 4 {
+		subs = append(subs, calc.NewRecord("", "E", energy(s.E), "n", dens(s.N2D), "mean_z", calc.Q(quantity.New(s.MeanZ, quantity.Length)),
+			"valley", calc.String(s.Valley), "region", calc.String(res.Regions[s.Region].Kind.String())))
+		if len(subs) == 6 {
 			break
 		}
 	}
 	var wells calc.List
-	for _, w := range res.Density2D {
-		wells = append(wells, calc.NewRecord("", "from", calc.Q(quantity.New(w.StartM, quantity.Length)), "to", calc.Q(quantity.New(w.EndM, quantity.Length)),
-			"n", calc.Q(quantity.New(w.N2D, dDensity))))
+	for _, g := range res.Regions {
+		if g.N2D < 1e4 && g.Kind != band.RegionChannel && g.Kind != band.RegionDopingWell {
+			continue
+		}
+		wells = append(wells, calc.NewRecord("", "name", calc.String(g.Name), "kind", calc.String(g.Kind.String()),
+			"from", calc.Q(quantity.New(g.StartM, quantity.Length)), "to", calc.Q(quantity.New(g.EndM, quantity.Length)),
+			"n", dens(g.N2D), "n_Gamma", dens(g.ValleyN2D[0]), "n_X", dens(g.ValleyN2D[1]+g.ValleyN2D[2]), "n_L", dens(g.ValleyN2D[3])))
+	}
+	occ := res.Occupied()
+	var freqs calc.List
+	for _, i := range occ {
+		freqs = append(freqs, calc.Q(quantity.New(res.Subbands[i].SdHFrequency(), dField)))
 	}
 	r := newResult("expected_density", "n", []string{"occupied", "analytic"},
-		"n", calc.Q(quantity.New(res.TotalN2D, dDensity)),
-		"occupied", calc.String(fmt.Sprintf("%d subband(s) below E_F", occupied)),
+		"n", dens(res.ChannelN2D),
+		"n_dark", dens(res.ChannelN2D),
+		"n_illuminated", dens(ex.Illuminated.ChannelN2D),
+		"n_total", dens(res.TotalN2D),
+		"occupied", calc.String(fmt.Sprintf("%d subband(s) below E_F", len(occ))),
 		"subbands", subs,
 		"wells", wells,
+		"sdh_frequencies", freqs,
 		"iterations", num(float64(res.Iterations)),
-		"neutrality_error", calc.Q(quantity.New(res.NeutralityError, dDensity)),
+		"neutrality_error", dens(res.NeutralityError),
 	)
-	if len(res.Subbands) > 0 {
-		r.Rec.Fields = append(r.Rec.Fields, calc.RecordField{Name: "E0", Value: calc.Q(quantity.New(res.Subbands[0].E*1e3*meV.Scale, meV.D))})
+	if ch := res.ChannelSubbands(); len(ch) > 0 {
+		r.Rec.Fields = append(r.Rec.Fields, calc.RecordField{Name: "E0", Value: energy(res.Subbands[ch[0]].E)})
+		if len(ch) > 1 {
+			r.Rec.Fields = append(r.Rec.Fields, calc.RecordField{Name: "subband_separation", Value: energy(res.Subbands[ch[1]].E - res.Subbands[ch[0]].E)})
+		}
 	}
 	r.Rec.Fields = append(r.Rec.Fields, calc.RecordField{Name: "profile", Value: profileData(res)})
-	if in, err := band.AnalyticInputFor(st, donorDepthEV); err == nil {
-		if an, err := band.Analytic(in); err == nil {
-			r.Rec.Fields = append(r.Rec.Fields, calc.RecordField{Name: "analytic", Value: calc.Q(quantity.New(an.N2D, dDensity))})
-			// The analytic estimate assumes a doped layer thick enough to supply any density
-			// and no surface; when it asks for more electrons than the stack has donors,
-			// it does not describe this stack.
-			if nd := donorSheet(st); an.N2D > nd {
-				r.Warnings = append(r.Warnings, fmt.Sprintf("the analytic estimate %.3g cm^-2 exceeds the %.3g cm^-2 donors of the stack: its thick-doped-layer, no-surface model does not apply here",
-					an.N2D*1e-4, nd*1e-4))
-			}
-		}
+	r.Warnings = append(r.Warnings, ex.Warnings...)
+	if ex.AnalyticNote != "" {
+		r.Rec.Fields = append(r.Rec.Fields, calc.RecordField{Name: "analytic", Value: calc.String("analytic: not applicable (" + ex.AnalyticNote + ")")})
+		return r
+	}
+	an := ex.Analytic
+	r.Rec.Fields = append(r.Rec.Fields, calc.RecordField{Name: "analytic", Value: dens(an.N2D)})
+	// The analytic estimate assumes a heterojunction; when it asks for more electrons than
+	// the stack has donors, it does not describe this stack.
+	if nd := donorSheet(st); an.N2D > nd {
+		r.Warnings = append(r.Warnings, fmt.Sprintf("the analytic estimate %.3g cm^-2 exceeds the %.3g cm^-2 donors of the stack: its model does not apply here",
+			an.N2D*1e-4, nd*1e-4))
 	}
 	return r
 }

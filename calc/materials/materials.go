@@ -133,20 +133,78 @@ func inas() Material {
 	}
 }
 
-// In0.53Ga0.47As lattice-matched to InP. Mass from Vurgaftman's bowing:
-// 0.53*0.026 + 0.47*0.067 - 0.53*0.47*0.0091 = 0.0430.
-func ingaas() Material {
-	const x = 0.53
-	return Material{
-		Name: "In0.53Ga0.47As", X: x, Mstar: x*0.026 + (1-x)*0.067 - x*(1-x)*0.0091, EpsR: 13.9, G: -4.07,
-		Gs: 2, Gv: 1, Carrier: "electron",
+// InGaAs returns In(x)Ga(1-x)As at In fraction x (0 <= x <= 1): m*/m_e = 0.026x +
+// 0.067(1-x) - 0.0091x(1-x) (Γ masses and bowing of Vurgaftman et al.) and ε_r = 15.1 -
+// 2.87(1-x) + 0.67(1-x)² (Ioffe handbook formula for Ga(y)In(1-y)As with y = 1-x; from
+// memory), which gives 13.9 at the composition lattice-matched to InP, In0.53Ga0.47As,
+// whose g* = -4.07 is tabulated; other compositions have no g*.
+func InGaAs(x float64) (Material, error) {
+	if !(x >= 0 && x <= 1) {
+		return Material{}, fmt.Errorf("materials: In fraction %g outside [0, 1]", x)
+	}
+	y := 1 - x
+	m := Material{
+		Name: alloyName("In", "Ga", "As", x), X: x, Mstar: x*0.026 + (1-x)*0.067 - x*(1-x)*0.0091,
+		EpsR: 15.1 - 2.87*y + 0.67*y*y, G: math.NaN(), Gs: 2, Gv: 1, Carrier: "electron",
 		Sources: map[string]string{
-			"Mstar": "0.0430 from the bowing parameter 0.0091 of " + srcVurgaftman + " with InAs 0.026; commonly quoted 0.041-0.043",
-			"EpsR":  "about 13.9 (from memory, unverified)",
-			"G":     srcInGaAsG,
+			"Mstar": "0.026x + 0.067(1-x) - 0.0091x(1-x), bowing of " + srcVurgaftman + " (InAs 0.026 from memory, unverified); at x = 0.53: 0.0430, commonly quoted 0.041-0.043",
+			"EpsR":  "15.1 - 2.87y + 0.67y² with y = 1-x the Ga fraction, " + srcIoffe + " (formula from memory, unverified); 13.9 at x = 0.53",
+			"G":     "not tabulated except at x = 0.53",
 			"Gs":    srcSpin,
 			"Gv":    srcGammaValley,
-			"X":     "lattice-matched to InP",
+			"X":     "alloy fraction as written (In)",
+		},
+	}
+	if math.Abs(x-0.53) <= fractionTol {
+		m.G = -4.07
+		m.Sources["G"] = "-4.07 for In0.53Ga0.47As lattice-matched to InP, " + srcInGaAsG
+	}
+	return m, nil
+}
+
+// InAlAs returns In(x)Al(1-x)As at In fraction x: m*/m_e = 0.026x + 0.15(1-x) - 0.049x(1-x)
+// (Γ masses and bowing of Vurgaftman et al.; InAs 0.026 from memory) and ε_r linear between
+// AlAs 10.06 and InAs 15.15 (linear interpolation, common practice).
+func InAlAs(x float64) (Material, error) {
+	if !(x >= 0 && x <= 1) {
+		return Material{}, fmt.Errorf("materials: In fraction %g outside [0, 1]", x)
+	}
+	return Material{
+		Name: alloyName("In", "Al", "As", x), X: x, Mstar: x*0.026 + (1-x)*mAlAsGamma - x*(1-x)*0.049,
+		EpsR: x*15.15 + (1-x)*(algaasEps0+algaasEpsX), G: math.NaN(), Gs: 2, Gv: 1, Carrier: "electron",
+		Sources: map[string]string{
+			"Mstar": "0.026x + 0.15(1-x) - 0.049x(1-x), Γ masses and bowing of " + srcVurgaftman + " (InAs 0.026 from memory, unverified)",
+			"EpsR":  "linear between AlAs 10.06 and InAs 15.15 (" + srcIoffe + "); linear interpolation is common practice",
+			"G":     "not tabulated",
+			"Gs":    srcSpin,
+			"Gv":    srcGammaValley,
+			"X":     "alloy fraction as written (In)",
+		},
+	}, nil
+}
+
+func inp() Material {
+	return Material{
+		Name: "InP", X: math.NaN(), Mstar: 0.0795, EpsR: 12.5, G: math.NaN(), Gs: 2, Gv: 1, Carrier: "electron",
+		Sources: map[string]string{
+			"Mstar": srcVurgaftman,
+			"EpsR":  "12.5, " + srcIoffe + " (from memory, unverified)",
+			"G":     "not tabulated",
+			"Gs":    srcSpin,
+			"Gv":    srcGammaValley,
+		},
+	}
+}
+
+func alsb() Material {
+	return Material{
+		Name: "AlSb", X: math.NaN(), Mstar: 0.14, EpsR: 12.04, G: math.NaN(), Gs: 2, Gv: 1, Carrier: "electron",
+		Sources: map[string]string{
+			"Mstar": "Γ valley 0.14, " + srcVurgaftman + "; the lowest conduction band is X (indirect gap)",
+			"EpsR":  "12.04, " + srcIoffe + " (from memory, unverified)",
+			"G":     "not tabulated",
+			"Gs":    srcSpin,
+			"Gv":    srcGammaValley,
 		},
 	}
 }
@@ -211,6 +269,8 @@ var fixed = map[string]func() Material{
 	"AlAs":      alas,
 	"InAs":      inas,
 	"InSb":      insb,
+	"InP":       inp,
+	"AlSb":      alsb,
 	"Si":        si100,
 	"Si(100)":   si100,
 	"Ge":        geHoles,
@@ -222,15 +282,15 @@ var fixed = map[string]func() Material{
 // composition such as Al0.33Ga0.67As; "Si" and "Ge" are accepted as short forms of
 // "Si(100)" and "Ge(holes)".
 func Names() []string {
-	out := []string{"Al<x>Ga<1-x>As", "AlAs", "GaAs", "Ge(holes)", "In0.53Ga0.47As", "InAs", "InSb", "Si(100)", "graphene"}
+	out := []string{"Al<x>Ga<1-x>As", "AlAs", "AlSb", "GaAs", "Ge(holes)", "In<x>Al<1-x>As", "In<x>Ga<1-x>As", "InAs", "InP", "InSb", "Si(100)", "graphene"}
 	sort.Strings(out)
 	return out
 }
 
 // Lookup returns the material with the given name. Element symbols are case-sensitive.
 // Alloys need their composition written out: "Al0.33Ga0.67As" or "Al(0.33)Ga(0.67)As";
-// "AlGaAs" and "AlxGa1-xAs" are errors. Of InGaAs only the composition lattice-matched to
-// InP, In0.53Ga0.47As, is tabulated. Each call returns a fresh Sources map.
+// "AlGaAs" and "AlxGa1-xAs" are errors. In(x)Ga(1-x)As and In(x)Al(1-x)As take any
+// composition. Each call returns a fresh Sources map.
 func Lookup(name string) (Material, error) {
 	name = strings.TrimSpace(name)
 	if f, ok := fixed[name]; ok {
@@ -247,11 +307,10 @@ func Lookup(name string) (Material, error) {
 	case elements == "AlGaAs" && !math.IsNaN(x):
 		return AlGaAs(x)
 	case elements == "InGaAs" && !math.IsNaN(x):
-		if math.Abs(x-0.53) > fractionTol {
-			return Material{}, fmt.Errorf("%w: %q: only lattice-matched In0.53Ga0.47As is tabulated", ErrUnknownMaterial, name)
-		}
-		return ingaas(), nil
-	case math.IsNaN(x) && (elements == "AlGaAs" || elements == "InGaAs"):
+		return InGaAs(x)
+	case elements == "InAlAs" && !math.IsNaN(x):
+		return InAlAs(x)
+	case math.IsNaN(x) && (elements == "AlGaAs" || elements == "InGaAs" || elements == "InAlAs"):
 		return Material{}, fmt.Errorf("%w: %q is an alloy: write its composition, e.g. Al0.33Ga0.67As", ErrUnknownMaterial, name)
 	}
 	hint := caseHint(name)
