@@ -5,7 +5,10 @@ import (
 	"crypto/sha256"
 	"encoding/binary"
 	"errors"
+	"fmt"
+	"hash/fnv"
 	"io/fs"
+	"maps"
 	"os"
 	"path/filepath"
 	"sort"
@@ -17,18 +20,20 @@ import (
 )
 
 // Cache keeps, for each Markdown file, the results of its last evaluation with the key of its
-// own inputs and every dependency it recorded (see the `deps` type). It lives in one file, read
-// whole when a run opens it and rewritten whole (atomically) by Save, so a check of ten
-// thousand files reads one file. A damaged or foreign file reads as an empty cache; deleting it
-// changes no result, only the time a run takes. Several processes may use one cache: the last
-// Save wins, and what it loses only costs time.
+// own inputs and every dependency it recorded (see the `deps` type), and what runs learnt about
+// each file at its stamp (see fileRec). It lives in a few files (shards by path), read whole
+// when a run opens it; Save rewrites (atomically) only the shards that changed, so a check of
+// ten thousand files reads a few files and a run that changed one file writes one. A damaged or
+// foreign shard reads as empty; deleting the cache changes no result, only the time a run
+// takes. Several processes may use one cache: the last Save of a shard wins, and what it loses
+// only costs time.
 type Cache struct {
-	file string
+	dir string
 
 	mu    sync.Mutex
 	old   map[string]*cacheRec // as read
 	cur   map[string]*cacheRec // answered or stored by this run
-	dirty bool
+	dirty [cacheShards]bool
 
 	// What earlier runs learnt about each file, valid while its stamp (see Scan) is the same.
 	files    map[string]*fileRec // as read
@@ -62,22 +67,47 @@ type depValue struct{ name, value string }
 
 const cacheHeader = "cleave-engine-cache 2\n"
 
-// OpenCache opens the cache kept in dir (created by Save when missing).
-func OpenCache(dir string) *Cache {
-	c := &Cache{file: filepath.Join(dir, "results"), cur: map[string]*cacheRec{}, curFiles: map[string]*fileRec{}}
-	c.old, c.files = readCache(c.file)
-	return c
+// cacheShards is how many files the cache is kept in.
+const cacheShards = 16
+
+// shardOf is the shard of the cache that holds what concerns the file at path p.
+func shardOf(p string) int {
+	h := fnv.New32a()
+	h.Write([]byte(p))
+	return int(h.Sum32() % cacheShards)
 }
 
-// readCache decodes the cache file; any problem gives an empty cache.
-func readCache(file string) (map[string]*cacheRec, map[string]*fileRec) {
-	data, err := os.ReadFile(file)
-	if err == nil {
-		if m, f, err := decodeCache(data); err == nil {
-			return m, f
-		}
+func (c *Cache) shardFile(i int) string { return filepath.Join(c.dir, fmt.Sprintf("results.%02x", i)) }
+
+// OpenCache opens the cache kept in dir (created by Save when missing).
+func OpenCache(dir string) *Cache {
+	c := &Cache{dir: dir, old: map[string]*cacheRec{}, cur: map[string]*cacheRec{},
+		files: map[string]*fileRec{}, curFiles: map[string]*fileRec{}}
+	type shard struct {
+		m map[string]*cacheRec
+		f map[string]*fileRec
 	}
-	return map[string]*cacheRec{}, map[string]*fileRec{}
+	shards := make([]shard, cacheShards)
+	var wg sync.WaitGroup
+	for i := range cacheShards {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			data, err := os.ReadFile(c.shardFile(i))
+			if err != nil {
+				return
+			}
+			if m, f, err := decodeCache(data); err == nil {
+				shards[i] = shard{m, f}
+			}
+		}()
+	}
+	wg.Wait()
+	for _, sh := range shards {
+		maps.Copy(c.old, sh.m)
+		maps.Copy(c.files, sh.f)
+	}
+	return c
 }
 
 // fileAt returns what is known of the file at path p at stamp (never for an empty stamp).
@@ -114,7 +144,7 @@ func (c *Cache) learn(p, stamp string, f func(r *fileRec)) {
 		c.curFiles[p] = r
 	}
 	f(r)
-	c.dirty = true
+	c.dirty[shardOf(p)] = true
 }
 
 // knownSummary is the notebook.LoadOptions.Known of a run with these stamps.
@@ -162,13 +192,13 @@ func (c *Cache) store(path, key string, rec deps, outs []calcblock.Outcome) {
 	sort.Slice(r.deps, func(i, j int) bool { return r.deps[i].name < r.deps[j].name })
 	c.mu.Lock()
 	c.cur[path] = r
-	c.dirty = true
+	c.dirty[shardOf(path)] = true
 	c.mu.Unlock()
 }
 
-// Save writes the cache: the files this run answered or evaluated, and those it did not look
-// at that are still Markdown files of nb. Like every write of the tool's own files, it may fail
-// without harm.
+// Save writes the shards of the cache that changed: what this run answered or evaluated,
+// and what it did not look at that still concerns a Markdown file of nb (or a data file).
+// Like every write of the tool's own files, it may fail without harm.
 func (c *Cache) Save(nb *notebook.Notebook) error {
 	c.mu.Lock()
 	defer c.mu.Unlock()
@@ -176,30 +206,49 @@ func (c *Cache) Save(nb *notebook.Notebook) error {
 	for p, r := range c.old {
 		if _, ok := nb.File(p); ok {
 			all[p] = r
+		} else {
+			c.dirty[shardOf(p)] = true
 		}
 	}
-	for p, r := range c.cur {
-		all[p] = r
-	}
+	maps.Copy(all, c.cur)
 	files := make(map[string]*fileRec, len(c.files)+len(c.curFiles))
 	for p, r := range c.files {
-		files[p] = r
+		if _, ok := nb.File(p); ok || r.sum == nil {
+			files[p] = r
+		} else {
+			c.dirty[shardOf(p)] = true
+		}
 	}
-	for p, r := range c.curFiles {
-		files[p] = r
+	maps.Copy(files, c.curFiles)
+	var errs []error
+	for i := range cacheShards {
+		if !c.dirty[i] {
+			continue
+		}
+		m, f := map[string]*cacheRec{}, map[string]*fileRec{}
+		for p, r := range all {
+			if shardOf(p) == i {
+				m[p] = r
+			}
+		}
+		for p, r := range files {
+			if shardOf(p) == i {
+				f[p] = r
+			}
+		}
+		if err := os.MkdirAll(c.dir, 0o755); err != nil {
+			return err
+		}
+		if err := calcblock.ReplaceFile(c.shardFile(i), encodeCache(m, f)); err != nil {
+			errs = append(errs, err)
+			continue
+		}
+		c.dirty[i] = false
 	}
-	if !c.dirty && len(all) == len(c.old) {
-		return nil
-	}
-	if err := os.MkdirAll(filepath.Dir(c.file), 0o755); err != nil {
-		return err
-	}
-	if err := calcblock.ReplaceFile(c.file, encodeCache(all, files)); err != nil {
-		return err
-	}
-	c.old, c.cur, c.dirty = all, map[string]*cacheRec{}, false
+	c.old, c.cur = all, map[string]*cacheRec{}
 	c.files, c.curFiles = files, map[string]*fileRec{}
-	return nil
+	os.Remove(filepath.Join(c.dir, "results")) // the single file of an earlier version
+	return errors.Join(errs...)
 }
 
 // The file: the header line, the SHA-256 of the rest, then for each file (in path order) its

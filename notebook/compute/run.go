@@ -363,8 +363,13 @@ func (rs *runState) keepReport(f *notebook.File, fr *calcblock.FileReport, outs 
 	if rs.cache == nil || fr == nil || len(fr.Stale) > 0 || fr.Changed {
 		return
 	}
-	rep := &storedReport{key: outsKey(outs), code: fr.Code, errors: fr.Errors}
-	rs.cache.learn(f.Path, rs.stamps[f.Path], func(r *fileRec) { r.report = rep })
+	stamp := rs.stamps[f.Path]
+	key := outsKey(outs)
+	if r := rs.cache.fileAt(f.Path, stamp); r != nil && r.report != nil && r.report.key == key && r.report.code == fr.Code && len(r.report.errors) == len(fr.Errors) {
+		return // known already
+	}
+	rep := &storedReport{key: key, code: fr.Code, errors: fr.Errors}
+	rs.cache.learn(f.Path, stamp, func(r *fileRec) { r.report = rep })
 }
 
 // outsKey hashes a file's outcomes.
