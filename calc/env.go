@@ -276,6 +276,7 @@ func (e *Env) EvalLine(line string, lineNo int) LineResult {
 		if r, ok := v.(*Record); ok && r.Path != "" {
 			e.addDep("field:"+r.Path, "")
 		}
+		err = finiteValue(v, st.Expr.Position())
 	}
 	if err != nil {
 		if st.Kind == Assign {
@@ -289,6 +290,21 @@ func (e *Env) EvalLine(line string, lineNo int) LineResult {
 	res.Value = v
 	res.Display = Display(v)
 	return res
+}
+
+// finiteValue refuses a quantity whose value or uncertainty is not a finite number (read from
+// a field written as "Inf", say): it would be written as a result no later line can trust.
+// The operators and functions refuse what they would make non-finite themselves, with their
+// own positions.
+func finiteValue(v Value, p Pos) error {
+	q, ok := v.(Quantity)
+	if !ok {
+		return nil
+	}
+	if x, u := q.Q.Value(), q.Q.Uncertainty(); math.IsNaN(x) || math.IsInf(x, 0) || math.IsNaN(u) || math.IsInf(u, 0) {
+		return posErr(p, ErrNotFinite, "the result %s is not a finite number", Display(v))
+	}
+	return nil
 }
 
 // forget undefines a name whose definition on line lineNo failed, so that later lines do
@@ -348,6 +364,9 @@ func (e *Env) Eval(expr string) (Value, error) {
 	}
 	if r, ok := v.(*Record); ok && r.Path != "" {
 		e.addDep("field:"+r.Path, "")
+	}
+	if err := finiteValue(v, x.Position()); err != nil {
+		return nil, err
 	}
 	return v, nil
 }

@@ -203,18 +203,84 @@ func (e *Env) evalQuantity(n Node, what string) (quantity.Quantity, error) {
 	return q.Q, nil
 }
 
+// chainOp reports whether op is left-associative and may therefore repeat along a left spine
+// as long as the line: a + b + c + … or a * b * c * ….
+func chainOp(op string) bool { return op == "+" || op == "-" || op == "*" || op == "/" }
+
+// evalBinary evaluates n. A run of left-associative operators (a + b - c + …) makes a tree
+// as deep as the run is long, so the left spine is walked in a loop, not by recursion: the
+// depth of the evaluator's recursion stays bounded by the parser's nesting limit, whatever
+// the length of the line. Operands are still evaluated left to right, and errors are the
+// same as the recursive form gave.
 func (e *Env) evalBinary(n *Binary) (Value, error) {
-	x, err := e.evalQuantity(n.X, "the left operand of "+n.Op)
+	if !chainOp(n.Op) {
+		x, err := e.evalQuantity(n.X, "the left operand of "+n.Op)
+		if err != nil {
+			return nil, err
+		}
+		return e.binaryRight(n, x)
+	}
+	spine := []*Binary{n}
+	for {
+		b, ok := spine[len(spine)-1].X.(*Binary)
+		if !ok || !chainOp(b.Op) {
+			break
+		}
+		spine = append(spine, b)
+	}
+	first := spine[len(spine)-1]
+	x, err := e.evalQuantity(first.X, "the left operand of "+first.Op)
 	if err != nil {
 		return nil, err
 	}
+	var v Value
+	for i := len(spine) - 1; i >= 0; i-- {
+		if v, err = e.binaryRight(spine[i], x); err != nil {
+			return nil, err
+		}
+		x = v.(Quantity).Q
+	}
+	return v, nil
+}
+
+// binaryRight evaluates the right operand of n and applies n's operator to x and it. A
+// result that overflows to an infinity, or a product or quotient of two non-zero numbers that
+// underflows to zero, is an error at the operator: it would otherwise be written as a result.
+func (e *Env) binaryRight(n *Binary, x quantity.Quantity) (Value, error) {
 	y, err := e.evalQuantity(n.Y, "the right operand of "+n.Op)
 	if err != nil {
 		return nil, err
 	}
+	r, err := applyBinary(n, x, y)
+	if err != nil {
+		return nil, err
+	}
+	if err := finiteResult(n, x, y, r.(Quantity).Q); err != nil {
+		return nil, err
+	}
+	return r, nil
+}
+
+// finiteResult checks the outcome r of x op y.
+func finiteResult(n *Binary, x, y, r quantity.Quantity) error {
+	v, u := r.Value(), r.Uncertainty()
+	switch {
+	case math.IsInf(v, 0) || math.IsNaN(v):
+		return posErr(n.Pos, ErrNotFinite, "%g %s %g overflows: the result is beyond the largest number (about 1.8e308 in SI units)", x.Value(), n.Op, y.Value())
+	case math.IsInf(u, 0) || math.IsNaN(u):
+		return posErr(n.Pos, ErrNotFinite, "the uncertainty of %g %s %g overflows: it is beyond the largest number (about 1.8e308 in SI units)", x.Value(), n.Op, y.Value())
+	case v == 0 && n.Op != "+" && n.Op != "-" && x.Value() != 0 && (n.Op == "^" || y.Value() != 0):
+		return posErr(n.Pos, ErrNotFinite, "%g %s %g underflows to zero: the result is below the smallest number (about 4.9e-324 in SI units)", x.Value(), n.Op, y.Value())
+	}
+	return nil
+}
+
+// applyBinary applies n's operator to its evaluated operands.
+func applyBinary(n *Binary, x, y quantity.Quantity) (Value, error) {
 	switch n.Op {
 	case "+", "-":
 		var r quantity.Quantity
+		var err error
 		if n.Op == "+" {
 			r, err = quantity.Add(x, y)
 		} else {
@@ -244,8 +310,11 @@ func (e *Env) evalBinary(n *Binary) (Value, error) {
 		if err != nil {
 			return nil, posErr(n.Pos, err, "cannot raise %s to the power %g: %v", DimName(x.Dim()), y.Value(), err)
 		}
-		if math.IsNaN(r.Value()) || math.IsInf(r.Value(), 0) {
-			return nil, posErr(n.Pos, nil, "%g ^ %g is not a finite real number", x.Value(), y.Value())
+		switch {
+		case math.IsNaN(r.Value()):
+			return nil, posErr(n.Pos, ErrNotFinite, "%g ^ %g is not a real number", x.Value(), y.Value())
+		case math.IsInf(r.Value(), 0) && x.Value() == 0:
+			return nil, posErr(n.Pos, ErrNotFinite, "0 ^ %g is a division by zero", y.Value())
 		}
 		return Q(r), nil
 	}
@@ -297,11 +366,31 @@ func convertValue(v Value, u quantity.Unit, n *Convert) (Value, error) {
 	return nil, posErr(n.ArrowAt, ErrType, "-> needs a quantity, range or list, found a %s", v.Type())
 }
 
+// evalField evaluates x.a.b.…: like a run of operators (see evalBinary), the chain of field
+// names is walked in a loop.
 func (e *Env) evalField(n *FieldAccess) (Value, error) {
-	x, err := e.eval(n.X)
+	spine := []*FieldAccess{n}
+	for {
+		f, ok := spine[len(spine)-1].X.(*FieldAccess)
+		if !ok {
+			break
+		}
+		spine = append(spine, f)
+	}
+	x, err := e.eval(spine[len(spine)-1].X)
 	if err != nil {
 		return nil, err
 	}
+	for i := len(spine) - 1; i >= 0; i-- {
+		if x, err = e.field(spine[i], x); err != nil {
+			return nil, err
+		}
+	}
+	return x, nil
+}
+
+// field reads the field n.Name of x.
+func (e *Env) field(n *FieldAccess, x Value) (Value, error) {
 	f, ok := x.(Fielder)
 	if !ok {
 		return nil, posErr(n.Pos, ErrType, "a %s has no fields (found .%s)", x.Type(), n.Name)
@@ -447,8 +536,13 @@ func (e *Env) evalCall(n *Call) (Value, error) {
 		}
 		return nil, posErr(n.Pos, err, "%s: %v", n.Func, err)
 	}
-	if q, ok := v.(Quantity); ok && (math.IsNaN(q.Q.Value()) || math.IsInf(q.Q.Value(), 0)) {
-		return nil, posErr(n.Pos, nil, "%s: the result is not a finite number", n.Func)
+	if q, ok := v.(Quantity); ok {
+		if x := q.Q.Value(); math.IsNaN(x) || math.IsInf(x, 0) {
+			return nil, posErr(n.Pos, ErrNotFinite, "%s: the result is not a finite number", n.Func)
+		}
+		if u := q.Q.Uncertainty(); math.IsNaN(u) || math.IsInf(u, 0) {
+			return nil, posErr(n.Pos, ErrNotFinite, "%s: the uncertainty of the result is not a finite number", n.Func)
+		}
 	}
 	return v, nil
 }

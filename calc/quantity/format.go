@@ -212,12 +212,7 @@ func formatUncertain(v, u float64) string {
 		// The uncertainty is below float64 resolution of v.
 		return formatExact(v) + " ± " + formatExact(u)
 	}
-	var n float64
-	if last < 0 {
-		n = math.Round(math.Abs(v) * math.Pow10(-last))
-	} else {
-		n = math.Round(math.Abs(v) / math.Pow10(last))
-	}
+	n := math.Round(scale10(math.Abs(v), -last))
 	vdigits := strconv.FormatFloat(n, 'f', 0, 64)
 	e := eu
 	if n != 0 {
@@ -237,6 +232,21 @@ func formatUncertain(v, u float64) string {
 		return vs + " ± " + uss
 	}
 	return "(" + vs + " ± " + uss + ")e" + strconv.Itoa(x)
+}
+
+// scale10 returns x·10^k without overflowing on the way when the result is finite: a
+// subnormal uncertainty (1e-310) puts its last digit near 10^-311, and 10^311 alone is
+// beyond the largest float64, so the power is applied in steps.
+func scale10(x float64, k int) float64 {
+	for k > 300 {
+		x *= 1e300
+		k -= 300
+	}
+	for k < -300 {
+		x *= 1e-300
+		k += 300
+	}
+	return x * math.Pow10(k)
 }
 
 // placePoint writes the integer digits times 10^k in positional notation.

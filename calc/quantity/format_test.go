@@ -59,6 +59,12 @@ func TestFormatUncertain(t *testing.T) {
 		{5e6, 5e6, "(5.0 ± 5.0)e6"},
 		{1, 1e-18, "1.0000 ± 1.0000e-18"},
 		{1, math.Inf(1), "1.0000 ± Inf"},
+		// Subnormal numbers (below 2.2e-308): the last printed digit sits beyond 10^-308,
+		// whose inverse power overflows (issue 13: "(N.aN ± 0.10)e-309").
+		{0, 1e-310, "(0.0 ± 1.0)e-310"},
+		{1e-310, 1e-311, "(1.00 ± 0.10)e-310"},
+		{-3e-315, 2e-316, "(-3.00 ± 0.20)e-315"},
+		{1e308, 1e307, "(1.00 ± 0.10)e308"},
 	}
 	for _, tt := range tests {
 		if got := formatUncertain(tt.v, tt.u); got != tt.want {
