@@ -334,6 +334,9 @@ func (c *cli) recompute(name string, args []string, write bool) int {
 	if err != nil {
 		return c.fail(name, err)
 	}
+	for _, p := range res.Removed {
+		fmt.Fprintf(c.err, "cleave %s: removed %s, a temporary file an interrupted calc left\n", name, p)
+	}
 	if res.Unchanged {
 		fmt.Fprintf(c.err, "cleave %s: nothing changed since the last check that found no problem\n", name)
 		return 0

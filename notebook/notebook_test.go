@@ -339,6 +339,12 @@ func TestCheckNewAndDefaultPath(t *testing.T) {
 		{KindCooldown, "C9", []string{"W23-017-a"}, ErrWrongKind, "expected a device"},
 		{KindWafer, "W9", []string{"W23-017"}, ErrWrongKind, "has no parents"},
 		{KindPiece, "bad id", []string{"W23-017"}, ErrBadID, "bad id"},
+		// Issue 13: these made hidden files (wafers/..md) the loader never reads.
+		{KindWafer, ".", nil, ErrBadID, "do not start with '.'"},
+		{KindWafer, "..", nil, ErrBadID, "do not start with '.'"},
+		{KindWafer, ".hidden", nil, ErrBadID, "do not start with '.'"},
+		{KindWafer, "", nil, ErrBadID, "invalid id"},
+		{KindWafer, "W24.1", nil, nil, ""},
 		// a piece and a device cannot exist without the sample they were cut from
 		{KindPiece, "P10", nil, ErrNoParent, "needs --from with the id of a wafer or piece"},
 		{KindDevice, "D10", nil, ErrNoParent, "needs --from with the id of a piece"},

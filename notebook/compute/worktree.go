@@ -71,6 +71,7 @@ const digestFile = "last-good-check"
 type Scan struct {
 	Stamps map[string]string // slash path → stamp (mode, size, modification time, inode); "" when racy
 	Racy   bool              // a file was modified less than a second before the scan began
+	Temps  []string          // WriteAtomic's temporary files (calcblock.IsTempName), not in the digest
 	digest string
 }
 
@@ -81,7 +82,7 @@ func (w WorkTree) Scan() (*Scan, error) {
 	start := time.Now()
 	// Folders are listed one by one (cheap), the files' stat data is read by parallel workers
 	// (one system call each: the bulk of the time).
-	var files []string
+	var files, temps []string
 	var walk func(rel string) error
 	walk = func(rel string) error {
 		ents, err := os.ReadDir(filepath.Join(w.Root, filepath.FromSlash(rel)))
@@ -99,6 +100,8 @@ func (w WorkTree) Scan() (*Scan, error) {
 				if err := walk(p); err != nil {
 					return err
 				}
+			case calcblock.IsTempName(d.Name()):
+				temps = append(temps, p)
 			default:
 				files = append(files, p)
 			}
@@ -147,7 +150,7 @@ func (w WorkTree) Scan() (*Scan, error) {
 	if err := failed.Load(); err != nil {
 		return nil, *err
 	}
-	sc := &Scan{Stamps: make(map[string]string, len(files)), Racy: racy.Load()}
+	sc := &Scan{Stamps: make(map[string]string, len(files)), Racy: racy.Load(), Temps: temps}
 	h := sha256.New()
 	fmt.Fprintf(h, "%s\n", saltIn(w.StateDir))
 	for i, f := range files {
@@ -240,6 +243,7 @@ type CheckOptions struct {
 type CheckResult struct {
 	*Report
 	Unchanged     bool     // nothing changed since the last good check: nothing was run
+	Removed       []string // temporary files an interrupted calc left, removed (slash paths)
 	Written       []string // files rewritten on disk
 	WriteFailures []error  // files that could not be written
 }
@@ -274,13 +278,15 @@ func (w WorkTree) Check(opt CheckOptions) (*CheckResult, error) {
 	if err != nil {
 		return nil, err
 	}
+	removed := w.removeStaleTemps(sc.Temps)
 	if !opt.NoCache && whole && w.GoodCheck(sc.Digest()) {
-		return &CheckResult{Unchanged: true}, nil
+		return &CheckResult{Unchanged: true, Removed: removed}, nil
 	}
 	res, err := w.run(opt, sc)
 	if err != nil {
 		return nil, err
 	}
+	res.Removed = removed
 	switch {
 	case res.Bad(opt.Write) > 0:
 		w.ForgetGoodCheck()
@@ -317,4 +323,22 @@ func (w WorkTree) run(opt CheckOptions, sc *Scan) (*CheckResult, error) {
 		res.Written, res.WriteFailures = w.Write(rep)
 	}
 	return res, nil
+}
+
+// removeStaleTemps removes the temporary files (slash paths) a killed WriteAtomic left and
+// returns those it removed.
+func (w WorkTree) removeStaleTemps(temps []string) []string {
+	if len(temps) == 0 {
+		return nil
+	}
+	full := make([]string, len(temps))
+	for i, p := range temps {
+		full[i] = filepath.Join(w.Root, filepath.FromSlash(p))
+	}
+	var out []string
+	for _, p := range calcblock.RemoveStaleTemps(full) {
+		rel, _ := filepath.Rel(w.Root, p)
+		out = append(out, filepath.ToSlash(rel))
+	}
+	return out
 }
