@@ -399,6 +399,9 @@ func (nb *Notebook) checkDataFiles(e *Entry) []Problem {
 			}
 			ps = append(ps, Problem{Path: e.Path, Line: d.Line, Col: max(d.Col, 1),
 				Msg: fmt.Sprintf("data: %s is %s, not a data file", full, what)})
+		case fi.Size() > calc.MaxDataBytes:
+			ps = append(ps, Problem{Path: e.Path, Line: d.Line, Col: max(d.Col, 1),
+				Msg: fmt.Sprintf("data: %s: %v", full, calc.DataSizeError(fi.Size()))})
 		}
 	}
 	return ps
