@@ -198,7 +198,8 @@ func (w WorkTree) ForgetGoodCheck() {
 }
 
 // Rel turns command-line paths (absolute, or relative to the working directory) into the slash
-// paths Options.Paths takes, refusing a path outside the notebook or one that does not exist.
+// paths Options.Paths takes, refusing a path outside the notebook, one that does not exist,
+// and one that goes through a symbolic link (which the run would not follow).
 func (w WorkTree) Rel(paths []string) ([]string, error) {
 	var out []string
 	for _, p := range paths {
@@ -211,6 +212,9 @@ func (w WorkTree) Rel(paths []string) ([]string, error) {
 		}
 		if _, err := os.Stat(p); err != nil {
 			return nil, fmt.Errorf("%s: %w", p, errors.Unwrap(err))
+		}
+		if err := throughLink(w.Root, p, rel); err != nil {
+			return nil, err
 		}
 		out = append(out, rel)
 	}
