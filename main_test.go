@@ -26,6 +26,11 @@ func cleave(t *testing.T, args ...string) (int, string, string) {
 var demoDir, scratch string
 
 func TestMain(m *testing.M) {
+	// The test binary doubles as the cleave binary for tests that need a process of their
+	// own (to kill it): see cleaveProcess.
+	if os.Getenv(asCLI) == "1" {
+		os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+	}
 	flag.Parse()
 	var err error
 	scratch, err = os.MkdirTemp("", "cleave-test-")

@@ -286,3 +286,25 @@ func TestRemoveStaleTemps(t *testing.T) {
 		t.Errorf("removed a fresh file: %v", removed)
 	}
 }
+
+// TestReadFileDoesNotBlockOnFIFO: a FIFO where a file was expected (swapped in after a check
+// that it was a regular file) reads as empty instead of blocking forever.
+func TestReadFileDoesNotBlockOnFIFO(t *testing.T) {
+	if runtime.GOOS == "windows" {
+		t.Skip("no FIFOs")
+	}
+	p := filepath.Join(t.TempDir(), "pipe.csv")
+	if err := mkfifo(p); err != nil {
+		t.Skip("mkfifo:", err)
+	}
+	done := make(chan error, 1)
+	go func() {
+		_, err := ReadFile(p)
+		done <- err
+	}()
+	select {
+	case <-done:
+	case <-time.After(10 * time.Second):
+		t.Fatal("ReadFile blocked on a FIFO")
+	}
+}
