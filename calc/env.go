@@ -320,6 +320,9 @@ func (e *Env) forget(name string, lineNo int) {
 // assignedName reports the name on the left of a line that has the shape "name = ...",
 // even when the rest does not parse.
 func assignedName(line string) (string, bool) {
+	if i := strings.IndexByte(line, '='); i >= 0 {
+		line = line[:i+1] // all that matters, however long the line
+	}
 	lx := &lexer{src: []rune(line)}
 	lx.skipSpace()
 	if lx.i >= len(lx.src) || !isIdentStart(lx.src[lx.i]) {
