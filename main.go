@@ -14,6 +14,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"runtime/debug"
 	"sort"
 	"strings"
 	"time"
@@ -55,7 +56,12 @@ type cli struct {
 	out, err io.Writer
 }
 
-func main() { os.Exit(run(os.Args[1:], os.Stdout, os.Stderr)) }
+func main() {
+	// A run is short and allocates mostly what it keeps until the end (the notebook, the
+	// cache): collecting garbage less often saves time at a modest cost in memory.
+	debug.SetGCPercent(200)
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+}
 
 func run(args []string, stdout, stderr io.Writer) int {
 	c := &cli{out: stdout, err: stderr}

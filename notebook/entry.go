@@ -74,6 +74,7 @@ type Entry struct {
 	src    *mdsrc.Source
 	meta   *yaml.Node // the front-matter mapping node
 	layers []LayerRow
+	lk     []Link // the links, read at load (nil for an entry known from a summary)
 }
 
 // load fills the front matter and the layer table of an entry known from a summary.
@@ -205,10 +206,18 @@ func (e *Entry) Quantity(path ...string) (quantity.Quantity, error) {
 
 // Links returns the entry's links in schema order (from, mask, process,
 // pieces, devices), each list in written order.
-func (e *Entry) Links() []Link {
+func (e *Entry) Links() []Link { return slices.Clone(e.links()) }
+
+// links is Links without the copy, for the package's own reading.
+func (e *Entry) links() []Link {
 	if e.sum != nil {
-		return slices.Clone(e.sum.Links)
+		return e.sum.Links
 	}
+	return e.lk
+}
+
+// readLinks reads the links from the front matter (once, when the entry is loaded).
+func (e *Entry) readLinks() []Link {
 	var out []Link
 	for _, f := range linkFields(e.Kind) {
 		n, ok := e.Field(f.Name)

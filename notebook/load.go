@@ -202,6 +202,7 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 		if e != nil {
 			e.file = f
 			e.once.Do(func() {}) // loaded now
+			e.lk = e.readLinks()
 			f.Entry = e
 			if e.Kind == KindWafer {
 				probs = append(probs, e.readLayers()...)

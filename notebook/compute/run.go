@@ -236,6 +236,17 @@ type runState struct {
 	mu     sync.Mutex
 	parsed map[string]*parsedFile
 	values map[string]string // current values of dependencies (see current)
+	vals   sync.Map          // records made from entries, shared by the files of the run (see shared)
+}
+
+// shared returns the value made by mk for key, made once per run: the record of an entry's
+// front matter, a geometry. Such values are never changed after they are made.
+func (rs *runState) shared(key string, mk func() calc.Value) calc.Value {
+	if v, ok := rs.vals.Load(key); ok {
+		return v.(calc.Value)
+	}
+	v, _ := rs.vals.LoadOrStore(key, mk())
+	return v.(calc.Value)
 }
 
 type parsedFile struct {
@@ -316,7 +327,7 @@ func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileRepo
 		// Not read this run: its bytes are those of its last report. When its results are
 		// still good, so is that report.
 		if r := cache.fileAt(f.Path, rs.stamps[f.Path]); r != nil && r.report != nil {
-			if outs, ok := cache.lookup(rs, f.Path, rs.key(f), r.report.code); ok && outsKey(outs) == r.report.key {
+			if rec, ok := cache.find(rs, f.Path, rs.key(f), r.report.code); ok && rec.okey == r.report.key {
 				return &calcblock.FileReport{Path: f.Path, Errors: r.report.errors, Code: r.report.code}, true, nil
 			}
 		}
