@@ -43,10 +43,30 @@ func (w WorkTree) Cache() *Cache {
 // Write brings the files the report found changed up to date on disk. A file that changed
 // since it was read is left alone and reported.
 func (w WorkTree) Write(rep *Report) (written []string, failures []error) {
-	for _, f := range rep.Changed() {
-		full := filepath.Join(w.Root, filepath.FromSlash(f.Path))
-		if err := calcblock.WriteAtomic(full, f.NewBytes, f.Original); err != nil {
-			failures = append(failures, fmt.Errorf("%s: %w", f.Path, err))
+	files := rep.Changed()
+	errs := make([]error, len(files))
+	// Each write waits for the disk (fsync of the file and its folder): several at a time.
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(8, len(files)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := int(next.Add(1)) - 1
+				if i >= len(files) {
+					return
+				}
+				f := files[i]
+				full := filepath.Join(w.Root, filepath.FromSlash(f.Path))
+				errs[i] = calcblock.WriteAtomic(full, f.NewBytes, f.Original)
+			}
+		}()
+	}
+	wg.Wait()
+	for i, f := range files {
+		if errs[i] != nil {
+			failures = append(failures, fmt.Errorf("%s: %w", f.Path, errs[i]))
 			continue
 		}
 		written = append(written, f.Path)
