@@ -50,12 +50,13 @@ type fileRec struct {
 	report *storedReport     // a Markdown file with calc blocks: the report of its last run
 }
 
-// storedReport is a file's report when it had nothing stale: its failed lines (which stay
-// failed while neither the file nor any of its inputs change).
+// storedReport is a file's report: its stale and its failed lines, which stay what they are
+// while neither the file nor any of its inputs change.
 type storedReport struct {
 	key    string // the results' key it was made with
 	code   int
 	errors []calcblock.Change
+	stale  []calcblock.Change
 }
 
 type cacheRec struct {
@@ -67,7 +68,7 @@ type cacheRec struct {
 
 type depValue struct{ name, value string }
 
-const cacheHeader = "cleave-engine-cache 3\n"
+const cacheHeader = "cleave-engine-cache 4\n"
 
 // cacheShards is how many files the cache is kept in.
 const cacheShards = 16

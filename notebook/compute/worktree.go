@@ -325,7 +325,7 @@ func (w WorkTree) run(opt CheckOptions, sc *Scan) (*CheckResult, error) {
 	if err != nil {
 		return nil, err
 	}
-	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths, Salt: saltIn(w.StateDir), Stamps: stamps})
+	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths, Salt: saltIn(w.StateDir), Stamps: stamps, Write: opt.Write})
 	if err != nil {
 		return nil, err
 	}
