@@ -34,8 +34,8 @@ type LineKind int
 // Kinds of calc lines.
 const (
 	Blank   LineKind = iota // nothing but blanks (possibly followed by a result region)
-	Comment             // first non-blank character is '#'
-	Code                // anything else: evaluated
+	Comment                 // first non-blank character is '#'
+	Code                    // anything else: evaluated
 )
 
 // Kind reports whether the line is blank, a comment or code.
