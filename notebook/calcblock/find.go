@@ -70,7 +70,7 @@ func Find(s *mdsrc.Source) ([]Block, error) {
 	var blocks []Block
 	var err error
 	var claimed map[int]bool
-	ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+	ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 		if !entering {
 			return ast.WalkContinue, nil
 		}
@@ -236,7 +236,7 @@ func claimedLines(s *mdsrc.Source) map[int]bool {
 			claimed[ln] = true
 		}
 	}
-	ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+	ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 		if !entering || n.Type() != ast.TypeBlock {
 			return ast.WalkContinue, nil
 		}

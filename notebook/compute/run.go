@@ -279,7 +279,9 @@ func (rs *runState) parse(f *notebook.File) *parsedFile {
 	}
 	rs.mu.Unlock()
 	p.once.Do(func() {
-		p.blocks, p.err = calcblock.Find(f.Source())
+		if f.MayHoldBlock() { // a file without the fence's word has no block to find
+			p.blocks, p.err = calcblock.Find(f.Source())
+		}
 		if p.err != nil {
 			p.blocks = nil
 		}

@@ -65,10 +65,19 @@ type Source struct {
 	FrontMatter     Span     // the YAML text between the delimiter lines (without them)
 	FrontMatterLine int      // 1-based line number of the first YAML line (0 without front matter)
 	Body            int      // offset where the Markdown body starts (after the closing delimiter line)
-	Doc             ast.Node // goldmark (GFM) parse of Masked(); all offsets are offsets into Raw
 
 	masked     []byte
 	lineStarts []int // offset of the first byte of each line; lineStarts[0] == 0
+	docOnce    sync.Once
+	doc        ast.Node
+}
+
+// Doc is the goldmark (GFM) parse of Masked(); all offsets are offsets into Raw. It is made
+// on the first call (a file whose blocks and tables nobody asks for is never parsed), and
+// safe to call from several goroutines.
+func (s *Source) Doc() ast.Node {
+	s.docOnce.Do(func() { s.doc = markdownParser().Parse(text.NewReader(s.masked)) })
+	return s.doc
 }
 
 // PosError reports a problem at a position in the file.
@@ -96,8 +105,8 @@ func markdownParser() parser.Parser {
 	return md.Parser()
 }
 
-// Parse splits raw into BOM, front matter and body and parses the body with
-// goldmark. raw is kept as Source.Raw and never modified; callers must not
+// Parse splits raw into BOM, front matter and body; [Source.Doc] parses the
+// body with goldmark when first asked. raw is kept as Source.Raw and never modified; callers must not
 // modify it either while the Source is in use.
 //
 // The only error is a *PosError for front matter that is opened but never
@@ -137,7 +146,6 @@ func Parse(raw []byte) (*Source, error) {
 			s.masked[i] = ' '
 		}
 	}
-	s.Doc = markdownParser().Parse(text.NewReader(s.masked))
 	return s, perr
 }
 

@@ -14,7 +14,7 @@ import (
 func fences(t *testing.T, s *Source) []string {
 	t.Helper()
 	var out []string
-	ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+	ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 		if fc, ok := n.(*ast.FencedCodeBlock); ok && entering {
 			info := ""
 			if fc.Info != nil {
@@ -157,9 +157,9 @@ func TestParse(t *testing.T) {
 				t.Errorf("fenced blocks = %q, want %q", got, tc.wantFences)
 			}
 			if tc.wantHeading {
-				h, ok := s.Doc.FirstChild().(*ast.Heading)
+				h, ok := s.Doc().FirstChild().(*ast.Heading)
 				if !ok || h.Level != 1 {
-					t.Errorf("first body node is %T, want a level-1 heading", s.Doc.FirstChild())
+					t.Errorf("first body node is %T, want a level-1 heading", s.Doc().FirstChild())
 				}
 			}
 		})
@@ -187,7 +187,7 @@ func TestFencePosition(t *testing.T) {
 		t.Fatal(err)
 	}
 	var pos = -1
-	ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+	ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 		if fc, ok := n.(*ast.FencedCodeBlock); ok && entering {
 			pos = fc.Pos()
 			seg := fc.Lines().At(0)
@@ -295,7 +295,7 @@ func FuzzParse(f *testing.F) {
 			}
 		}
 		// Every content segment goldmark reports lies inside Raw.
-		ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+		ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 			if entering && n.Type() == ast.TypeBlock {
 				lines := n.Lines()
 				for i := 0; i < lines.Len(); i++ {
