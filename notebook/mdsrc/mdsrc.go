@@ -59,12 +59,12 @@ func (s Span) Len() int { return s.End - s.Start }
 
 // Source is one Markdown file, parsed, with its raw bytes kept unchanged.
 type Source struct {
-	Raw             []byte   // the file as read, never modified
-	BOM             int      // 3 if Raw starts with a UTF-8 BOM, else 0
-	HasFrontMatter  bool     // true if a closed front-matter block was found
-	FrontMatter     Span     // the YAML text between the delimiter lines (without them)
-	FrontMatterLine int      // 1-based line number of the first YAML line (0 without front matter)
-	Body            int      // offset where the Markdown body starts (after the closing delimiter line)
+	Raw             []byte // the file as read, never modified
+	BOM             int    // 3 if Raw starts with a UTF-8 BOM, else 0
+	HasFrontMatter  bool   // true if a closed front-matter block was found
+	FrontMatter     Span   // the YAML text between the delimiter lines (without them)
+	FrontMatterLine int    // 1-based line number of the first YAML line (0 without front matter)
+	Body            int    // offset where the Markdown body starts (after the closing delimiter line)
 
 	masked     []byte
 	lineStarts []int // offset of the first byte of each line; lineStarts[0] == 0
