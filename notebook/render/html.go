@@ -165,7 +165,9 @@ func Markup(text string) string {
 }
 
 func isDigit(c byte) bool { return c >= '0' && c <= '9' }
-func isWord(c byte) bool  { return c == '_' || c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || isDigit(c) }
+func isWord(c byte) bool {
+	return c == '_' || c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || isDigit(c)
+}
 
 // numberEnd is the end of a decimal number starting at i (sign, digits, point, exponent).
 func numberEnd(s string, i int) int {
