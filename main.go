@@ -7,15 +7,20 @@
 package main
 
 import (
+	"context"
 	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
 	"io"
+	"net"
+	"net/http"
 	"os"
+	"os/signal"
 	"path/filepath"
 	"sort"
 	"strings"
+	"syscall"
 	"time"
 	"unicode/utf8"
 
@@ -25,6 +30,7 @@ import (
 	"cleave/notebook"
 	"cleave/notebook/compute"
 	"cleave/notebook/plotfiles"
+	"cleave/notebook/site"
 	"cleave/templates"
 )
 
@@ -47,6 +53,8 @@ func init() {
 		{"check", "[PATH...]", "recompute without writing; list stale results and errors as path:line: old → new", runCheck},
 		{"eval", "[--in FILE] [--json|--csv] EXPR", "evaluate one expression, in the context of an entry with --in", runEval},
 		{"plot", "[--in FILE] EXPR -o OUT.svg", "draw a value (a data set, a fit, a band result, a scorecard, a mask) as an SVG file", runPlot},
+		{"site", "DIR", "write the notebook as a static HTML site into DIR (new, empty, or a site written before)", runSite},
+		{"serve", "[--addr 127.0.0.1:PORT]", "preview the notebook's site locally; rebuilds what changed and reloads the page", runServe},
 		{"demo", "[DIR]", "write the demo notebook (to DIR or a new temp folder) and run everything on it", runDemo},
 		{"version", "", "print the version", runVersion},
 	}
@@ -521,6 +529,84 @@ func runPlot(c *cli, args []string) int {
 	}
 	if *out != "-" {
 		fmt.Fprintf(c.out, "wrote %s\n", *out)
+	}
+	return 0
+}
+
+func runSite(c *cli, args []string) int {
+	pos, err := parse(c.flags("site"), args)
+	if err != nil || len(pos) != 1 {
+		return c.usageErr("site", flagMsg(err, "need the folder to write the site into"))
+	}
+	root, err := c.root()
+	if err != nil {
+		return c.fail("site", err)
+	}
+	s, err := site.Build(root, site.Options{})
+	if err != nil {
+		return c.fail("site", err)
+	}
+	dir := c.path(pos[0])
+	if err := s.Write(dir); err != nil {
+		return c.fail("site", err)
+	}
+	abs, _ := filepath.Abs(filepath.Join(dir, "index.html"))
+	fmt.Fprintf(c.out, "wrote %d files; open file://%s\n", len(s.Files), filepath.ToSlash(abs))
+	return 0
+}
+
+// serveReady, when set (by tests), hears the address the preview listens on.
+var serveReady func(addr string)
+
+// serveStop, when set (by tests), ends the preview.
+var serveStop context.Context
+
+func runServe(c *cli, args []string) int {
+	fs := c.flags("serve")
+	addr := fs.String("addr", "127.0.0.1:8765", "listen on `HOST:PORT` (loopback by default)")
+	pos, err := parse(fs, args)
+	if err != nil || len(pos) > 0 {
+		return c.usageErr("serve", flagMsg(err, "takes no arguments"))
+	}
+	root, err := c.root()
+	if err != nil {
+		return c.fail("serve", err)
+	}
+	if host, _, err := net.SplitHostPort(*addr); err != nil {
+		return c.usageErr("serve", fmt.Sprintf("--addr %q: %v", *addr, err))
+	} else if ip := net.ParseIP(host); host != "localhost" && (ip == nil || !ip.IsLoopback()) {
+		fmt.Fprintf(c.err, "cleave serve: warning: %s is not a loopback address; the notebook is visible to other machines\n", host)
+	}
+	srv, err := site.NewServer(root)
+	if err != nil {
+		return c.fail("serve", err)
+	}
+	ln, err := net.Listen("tcp", *addr)
+	if err != nil {
+		return c.fail("serve", err)
+	}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	if serveStop != nil {
+		var cancel context.CancelFunc
+		ctx, cancel = context.WithCancel(ctx)
+		go func() { <-serveStop.Done(); cancel() }()
+	}
+	go srv.Watch(ctx, 500*time.Millisecond, func(changed bool, err error) {
+		if err != nil {
+			fmt.Fprintf(c.err, "cleave serve: rebuild failed: %v\n", err)
+		} else if changed {
+			fmt.Fprintln(c.err, "cleave serve: rebuilt")
+		}
+	})
+	hs := &http.Server{Handler: srv, ReadHeaderTimeout: 10 * time.Second}
+	go func() { <-ctx.Done(); _ = hs.Close() }()
+	fmt.Fprintf(c.out, "serving the notebook at http://%s/ (Ctrl-C stops)\n", ln.Addr())
+	if serveReady != nil {
+		serveReady(ln.Addr().String())
+	}
+	if err := hs.Serve(ln); err != nil && !errors.Is(err, http.ErrServerClosed) {
+		return c.fail("serve", err)
 	}
 	return 0
 }

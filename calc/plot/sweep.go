@@ -43,7 +43,7 @@ func drawDataSet(d *transport.Dataset, opt Options) (*figure, error) {
 // filling factor ν = h n/(e B) inside the field range is marked by a dotted line, labelled
 // where the marks are far enough apart, and the R_xy panel shows R_K/ν for the same ν.
 func drawSweep(d *transport.Dataset, b []float64, rxx, rxy *transport.Column, opt Options) *figure {
-	title := "R_xx and R_xy: " + shorten(d.Name, 70)
+	title := "R_xx and R_xy: " + shorten(d.Name, 48)
 	bmin, bmax := extent(b)
 	var panels []*gplot.Plot
 	type panel struct {
