@@ -17,6 +17,7 @@ const head = `<!DOCTYPE html>
 <meta name="referrer" content="no-referrer">
 <title>{{.Title}}</title>
 <link rel="stylesheet" href="{{.Base}}_cleave/style.css">
+<link rel="icon" href="{{.Base}}_cleave/icon.svg">
 </head>
 <body>
 <header class="top"><a href="{{.Base}}index.html">notebook</a>

@@ -187,7 +187,7 @@ func (st *build) put(p string, data []byte) {
 func (st *build) run() error {
 	st.used = map[string]bool{}
 	st.rasters = map[string]bool{}
-	for _, name := range []string{"style.css", "search.js", "live.js"} {
+	for _, name := range []string{"style.css", "search.js", "live.js", "icon.svg"} {
 		data, err := assets.ReadFile("assets/" + name)
 		if err != nil {
 			return err

@@ -38,7 +38,7 @@ func TestGolden(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	want := []string{"_cleave/search-index.js", "_cleave/search.js", "_cleave/style.css", "cooldowns/C1.html", "cooldowns/plots/C1/fan.svg",
+	want := []string{"_cleave/icon.svg", "_cleave/search-index.js", "_cleave/search.js", "_cleave/style.css", "cooldowns/C1.html", "cooldowns/plots/C1/fan.svg",
 		"devices/D1.html", "index.html", "kinds/cooldown.html", "kinds/device.html", "kinds/mask.html", "kinds/piece.html", "kinds/process.html",
 		"kinds/wafer.html", "masks/M1.html", "masks/plots/M1/bar.svg", "notes/plan.html", "pieces/W1-A.html", "wafers/W1.html"}
 	if got := strings.Join(s.Paths(), "\n"); got != strings.Join(want, "\n") {
