@@ -25,12 +25,12 @@ func appendBlock(t *testing.T, file, block string) {
 func TestPlotLines(t *testing.T) {
 	dir := copyDemo(t)
 	cd := filepath.Join(dir, "cooldowns", "CD24-001.md")
-	appendBlock(t, cd, "p_rxx = plot(d, \"rxx\", n = n_SdH)\nplot(sdh)\n")
+	appendBlock(t, cd, "p_rxx = plot(d, \"rxx\", n = n_SdH)\nplot(sdh, \"spec2\")\n")
 	code, out, errs := cleave(t, "-C", dir, "calc")
 	if code != 0 {
 		t.Fatalf("calc: exit %d\n%s\n%s", code, out, errs)
 	}
-	for _, p := range []string{"cooldowns/plots/CD24-001/rxx.svg", "cooldowns/plots/CD24-001/spectrum.svg"} {
+	for _, p := range []string{"cooldowns/plots/CD24-001/rxx.svg", "cooldowns/plots/CD24-001/spec2.svg"} {
 		if !strings.Contains(out, "drew "+p) {
 			t.Errorf("calc did not report drawing %s:\n%s", p, out)
 		}
@@ -73,16 +73,16 @@ func TestPlotLines(t *testing.T) {
 	lines := strings.Split(string(text), "\n")
 	var kept []string
 	for _, l := range lines {
-		if !strings.HasPrefix(l, "plot(sdh)") {
+		if !strings.HasPrefix(l, "plot(sdh, \"spec2\")") {
 			kept = append(kept, l)
 		}
 	}
 	os.WriteFile(cd, []byte(strings.Join(kept, "\n")), 0o644)
 	code, out, _ = cleave(t, "-C", dir, "calc")
-	if code != 0 || !strings.Contains(out, "removed cooldowns/plots/CD24-001/spectrum.svg") {
+	if code != 0 || !strings.Contains(out, "removed cooldowns/plots/CD24-001/spec2.svg") {
 		t.Fatalf("calc after removing a plot line: %d\n%s", code, out)
 	}
-	if _, err := os.Stat(filepath.Join(dir, "cooldowns", "plots", "CD24-001", "spectrum.svg")); err == nil {
+	if _, err := os.Stat(filepath.Join(dir, "cooldowns", "plots", "CD24-001", "spec2.svg")); err == nil {
 		t.Error("the spectrum's file is still there")
 	}
 	// Two lines drawing one name are reported.

@@ -1,7 +1,6 @@
 package plot
 
 import (
-	"errors"
 	"fmt"
 	"image/color"
 	"math"
@@ -153,14 +152,19 @@ func drawHallBar(r *calc.Record, opt Options) (*figure, error) {
 	// the extent, with room for the labels; the canvas keeps the aspect ratio (to scale)
 	x0, x1 := -pad, L+pad
 	y0, y1 := -(W/2 + arm + 1.1*W), W/2+arm+1.1*W
-	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = x0, x1, y0, y1
+	// The canvas keeps the aspect ratio of the drawing (to scale); a long, narrow bar gets
+	// a taller y range rather than a canvas too flat to read.
 	f := newFigure("hallbar", p)
-	aspect := (y1 - y0) / (x1 - x0)
 	title := vg.Points(22)
-	f.height = vg.Length(float64(f.width)*aspect) + title
-	if f.height < vg.Points(120) {
-		return nil, errors.New("the Hall bar is too long for its width to be drawn to scale")
+	minH := vg.Points(160)
+	h := vg.Length(float64(f.width)*(y1-y0)/(x1-x0)) + title
+	if h < minH {
+		extra := ((x1-x0)*float64(minH-title)/float64(f.width) - (y1 - y0)) / 2
+		y0, y1 = y0-extra, y1+extra
+		h = minH
 	}
+	f.height = h
+	p.X.Min, p.X.Max, p.Y.Min, p.Y.Max = x0, x1, y0, y1
 	return f, nil
 }
 
