@@ -16,6 +16,7 @@ import (
 
 	"cleave/calc"
 	"cleave/calc/library"
+	"cleave/calc/plot"
 	"cleave/notebook"
 	"cleave/notebook/calcblock"
 	"cleave/notebook/mdsrc"
@@ -452,6 +453,7 @@ func newEnv(v *view, f *notebook.File, depth int) *calc.Env {
 	r := newResolver(v, f.Entry, depth)
 	env := library.NewEnv(calc.WithFS(recFS{fsys: v.run.fsys, rec: v.rec}, path.Dir(f.Path)), calc.WithResolver(r))
 	r.register(env)
+	env.Register(plot.Func(f.Path)) // draws in memory; `cleave calc` writes the file (notebook/plotfiles)
 	return env
 }
 
