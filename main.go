@@ -355,7 +355,7 @@ func (c *cli) recompute(name string, args []string, write bool) int {
 		fmt.Fprintf(c.err, "cleave %s: nothing changed since the last check that found no problem\n", name)
 		return 0
 	}
-	plotProbs, err := c.plotFiles(wt, rel, write)
+	plotProbs, err := c.plotFiles(wt, rel, write, res.Notebook)
 	if err != nil {
 		return c.fail(name, err)
 	}
@@ -399,8 +399,24 @@ func (c *cli) recompute(name string, args []string, write bool) int {
 
 // plotFiles brings the plot files of plot(...) lines up to date (calc) or reports those that
 // are missing or differ from their result regions (check).
-func (c *cli) plotFiles(wt compute.WorkTree, rel []string, write bool) ([]plotfiles.Problem, error) {
-	sel := selectPaths(rel)
+func (c *cli) plotFiles(wt compute.WorkTree, rel []string, write bool, nb *notebook.Notebook) ([]plotfiles.Problem, error) {
+	in := selectPaths(rel)
+	// Only files that may draw a plot need a look, the others are not read again: for a check,
+	// those holding a plot result; for calc, which has just written results, those with a
+	// calc block.
+	sel := func(p string) bool {
+		if in != nil && !in(p) {
+			return false
+		}
+		f, ok := nb.File(p)
+		if !ok {
+			return true
+		}
+		if write {
+			return f.MayHoldBlock()
+		}
+		return f.MayHoldPlot()
+	}
 	if !write {
 		return plotfiles.Verify(wt.Root, sel)
 	}

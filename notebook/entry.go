@@ -26,6 +26,7 @@ type File struct {
 
 	problems []Problem // found in this file alone (see Summary.Problems)
 	fence    bool      // may hold a calc block
+	plots    bool      // may hold the result of a plot line
 	data     []DataRef // the data files a cooldown lists
 
 	fsys     fs.FS
@@ -55,6 +56,14 @@ func (f *File) Source() *mdsrc.Source {
 // MayHoldBlock reports whether the file contains the word that opens a calc block's fence
 // (a cheap test: false means it has none).
 func (f *File) MayHoldBlock() bool { return f.fence }
+
+// PlotMarker begins the result text of a plot(...) line (package calc/plot writes it; package
+// plotfiles checks the files): a file without it draws no plot.
+const PlotMarker = "plot plots/"
+
+// MayHoldPlot reports whether the file contains PlotMarker (a cheap test: false means it draws
+// no plot).
+func (f *File) MayHoldPlot() bool { return f.plots }
 
 // Known reports whether the file was known from a summary and has not been read.
 func (f *File) Known() bool { return f.fromSumm }

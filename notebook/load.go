@@ -180,6 +180,7 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 		return f, f.problems
 	}
 	f.fence = bytes.Contains(raw, []byte("cleave"))
+	f.plots = bytes.Contains(raw, []byte(PlotMarker))
 	src, err := mdsrc.Parse(raw)
 	f.src = src
 	var probs []Problem
@@ -217,7 +218,7 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 
 // knownFile makes a file from its summary, to be read when asked.
 func knownFile(fsys fs.FS, s *Summary) *File {
-	f := &File{Path: s.Path, fsys: fsys, fromSumm: true, problems: s.Problems, fence: s.Fence, data: s.Data}
+	f := &File{Path: s.Path, fsys: fsys, fromSumm: true, problems: s.Problems, fence: s.Fence, plots: s.Plots, data: s.Data}
 	if s.Entry {
 		f.Entry = &Entry{ID: s.ID, Kind: s.Kind, Path: s.Path, file: f, sum: s}
 	}

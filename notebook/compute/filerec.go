@@ -51,6 +51,7 @@ func appendFileRec(b []byte, r *fileRec) []byte {
 			b = appendStr(appendPos(b, notebook.Pos{Line: p.Line, Col: p.Col}), p.Msg)
 		}
 		b = appendBool(b, s.Fence)
+		b = appendBool(b, s.Plots)
 	}
 	if r.digest != "" {
 		b = appendStr(b, r.digest)
@@ -120,6 +121,7 @@ func (d *decoder) fileRec(p string) *fileRec {
 			s.Problems = append(s.Problems, notebook.Problem{Path: p, Line: pos.Line, Col: pos.Col, Msg: d.str()})
 		}
 		s.Fence = d.bool()
+		s.Plots = d.bool()
 		r.sum = s
 	}
 	if flags&hasDigest != 0 {

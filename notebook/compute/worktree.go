@@ -259,6 +259,7 @@ type CheckOptions struct {
 // CheckResult is what a check or calc of a work tree did.
 type CheckResult struct {
 	*Report
+	Notebook      *notebook.Notebook // the notebook as the run loaded it (nil when Unchanged)
 	Unchanged     bool     // nothing changed since the last good check: nothing was run
 	Written       []string // files rewritten on disk
 	WriteFailures []error  // files that could not be written
@@ -332,7 +333,7 @@ func (w WorkTree) run(opt CheckOptions, sc *Scan) (*CheckResult, error) {
 	if cache != nil {
 		_ = cache.Save(nb) // the cache only saves time
 	}
-	res := &CheckResult{Report: rep}
+	res := &CheckResult{Report: rep, Notebook: nb}
 	if opt.Write {
 		res.Written, res.WriteFailures = w.Write(rep)
 	}

@@ -40,7 +40,7 @@ type Line struct {
 	Input  string // the code, without the result region and trailing blanks
 	Result string // the text after `#~`, trimmed; "" when none
 	HasRes bool   // the line has a result region
-	Kind   calcblock.Kind
+	Kind   calcblock.LineKind
 }
 
 // Failed reports whether the result is an error.
