@@ -260,9 +260,9 @@ type CheckOptions struct {
 type CheckResult struct {
 	*Report
 	Notebook      *notebook.Notebook // the notebook as the run loaded it (nil when Unchanged)
-	Unchanged     bool     // nothing changed since the last good check: nothing was run
-	Written       []string // files rewritten on disk
-	WriteFailures []error  // files that could not be written
+	Unchanged     bool               // nothing changed since the last good check: nothing was run
+	Written       []string           // files rewritten on disk
+	WriteFailures []error            // files that could not be written
 }
 
 // Bad counts the problems: stale results (for a check), failed lines, invalid entries, files
