@@ -16,6 +16,8 @@ import (
 	"cleave/hooks"
 	"cleave/notebook"
 	"cleave/notebook/compute"
+	"cleave/notebook/plotfiles"
+	"cleave/notebook/site"
 )
 
 // demoStep is one commit of the demo notebook's story.
@@ -135,6 +137,14 @@ func Run(scenario fs.FS, dir string, out io.Writer) error {
 		if fails := append(rep.Failures, rep.WriteFailures...); len(fails) > 0 {
 			return fmt.Errorf("demo step %d: %w", i+1, errors.Join(fails...))
 		}
+		// `cleave calc` also draws the plots its plot(...) lines name.
+		pr, err := plotfiles.Sync(abs, nil)
+		if err != nil {
+			return err
+		}
+		if len(pr.Problems) > 0 {
+			return fmt.Errorf("demo step %d: %w", i+1, pr.Problems[0])
+		}
 		stale := 0
 		for _, f := range rep.Files {
 			for _, c := range f.Stale {
@@ -203,6 +213,19 @@ func demoSummary(dir string, out io.Writer) error {
 		}
 		fmt.Fprintln(out)
 	}
+	siteDir := filepath.Join(dir, ".git", "cleave", "site")
+	if state, err := hooks.StateDir(dir); err == nil {
+		siteDir = filepath.Join(state, "site")
+	}
+	st, err := site.Build(dir, site.Options{})
+	if err != nil {
+		return err
+	}
+	if err := st.Write(siteDir); err != nil {
+		return err
+	}
+	fmt.Fprintf(out, "\n$ cleave site %s\nopen file://%s in a browser: every entry with its plots, the lineage as navigation, a search box\n",
+		filepath.ToSlash(siteDir), filepath.ToSlash(filepath.Join(siteDir, "index.html")))
 	fmt.Fprintf(out, `
 What to look at next:
   cd %s
@@ -213,6 +236,7 @@ What to look at next:
   cleave eval --in cooldowns/CD24-001.md 'mu -> cm^2/(V s)'
   cleave check                        what CI runs: exits 1 on a stale result or an invalid entry
   edit a width in masks/HB100.md, then: cleave check; cleave calc
+  cleave serve                        a live preview of the site at http://127.0.0.1:8765/
 `, dir)
 	if len(probs) > 0 || !rep.OK() {
 		return errors.New("the demo notebook has problems (listed above)")

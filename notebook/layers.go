@@ -31,7 +31,7 @@ type Cell struct {
 // a `Layers` heading without such a table, an empty material and a thickness
 // that is not a length with a unit.
 func (e *Entry) readLayers() []Problem {
-	if e.src == nil || e.src.Doc == nil {
+	if e.src == nil || e.src.Doc() == nil {
 		return nil
 	}
 	var probs []Problem
@@ -43,7 +43,7 @@ func (e *Entry) readLayers() []Problem {
 	var sectionTable *east.Table // the first table in the Layers section
 	var table *east.Table
 	var header []Cell
-	for n := e.src.Doc.FirstChild(); n != nil; n = n.NextSibling() {
+	for n := e.src.Doc().FirstChild(); n != nil; n = n.NextSibling() {
 		switch n := n.(type) {
 		case *ast.Heading:
 			if layersHeading == nil && strings.EqualFold(strings.TrimSpace(e.inlineText(n)), "layers") {

@@ -181,6 +181,7 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 		return f, f.problems
 	}
 	f.fence = bytes.Contains(raw, []byte("cleave"))
+	f.plots = bytes.Contains(raw, []byte(PlotMarker))
 	src, err := mdsrc.Parse(raw)
 	f.src = src
 	var probs []Problem
@@ -203,6 +204,7 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 		if e != nil {
 			e.file = f
 			e.once.Do(func() {}) // loaded now
+			e.lk = e.readLinks()
 			f.Entry = e
 			if e.Kind == KindWafer {
 				probs = append(probs, e.readLayers()...)
@@ -217,7 +219,7 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 
 // knownFile makes a file from its summary, to be read when asked.
 func knownFile(fsys fs.FS, s *Summary) *File {
-	f := &File{Path: s.Path, fsys: fsys, fromSumm: true, problems: s.Problems, fence: s.Fence, data: s.Data}
+	f := &File{Path: s.Path, fsys: fsys, fromSumm: true, problems: s.Problems, fence: s.Fence, plots: s.Plots, data: s.Data}
 	if s.Entry {
 		f.Entry = &Entry{ID: s.ID, Kind: s.Kind, Path: s.Path, file: f, sum: s}
 	}

@@ -60,7 +60,7 @@ func (nb *Notebook) Validate() []Problem {
 		if !ok {
 			continue // an unknown kind: reported with the file's own problems
 		}
-		for _, l := range e.Links() {
+		for _, l := range e.links() {
 			f, _ := lookupField(fields, l.Field)
 			t, ok := nb.byID[l.ID]
 			switch {
@@ -90,7 +90,7 @@ func (nb *Notebook) Validate() []Problem {
 		e, next := cyc[0], cyc[1%len(cyc)]
 		p := e.metaPos()
 		line, col := p.Line, p.Col
-		for _, l := range e.Links() {
+		for _, l := range e.links() {
 			if l.ID == next.ID {
 				line, col = l.Line, l.Col
 				break

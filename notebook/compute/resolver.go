@@ -48,7 +48,8 @@ func (r *resolver) lookup(name string) calc.Value {
 	for _, k := range notebook.Kinds() {
 		if string(k) == name {
 			if a, ok := r.v.nearest(r.e, k); ok {
-				return entryRecord(a, name)
+				// Records are never changed once made, so the files of a run share them.
+				return r.v.run.shared(a.Path+"\x00"+name, func() calc.Value { return entryRecord(a, name) })
 			}
 			return nil
 		}
@@ -62,12 +63,26 @@ func (r *resolver) lookup(name string) calc.Value {
 
 // geometry is the Hall-bar geometry calculations use: the device's as-built width and
 // probes where given, otherwise the mask's drawn ones.
-func (r *resolver) geometry() (*calc.Record, error) {
+func (r *resolver) geometry() (calc.Value, error) {
 	src := geometrySources(r.v, r.e)
 	dev, hasDev, mask := src.dev, src.hasDev, src.mask
 	if mask == nil && !hasDev {
 		return nil, errors.New("geometry: no device or mask in this entry's lineage")
 	}
+	key := "geometry\x00"
+	if hasDev {
+		key += dev.Path
+	}
+	key += "\x00"
+	if mask != nil {
+		key += mask.Path
+	}
+	return r.v.run.shared(key, func() calc.Value { return buildGeometry(src) }), nil
+}
+
+// buildGeometry makes the geometry record of a device and its mask.
+func buildGeometry(src geomSources) calc.Value {
+	dev, hasDev, mask := src.dev, src.hasDev, src.mask
 	g := &calc.Record{Path: "geometry"}
 	pick := func(field string) {
 		if hasDev {
@@ -85,7 +100,7 @@ func (r *resolver) geometry() (*calc.Record, error) {
 	for _, f := range []string{"width", "length", "probes"} {
 		pick(f)
 	}
-	return g, nil
+	return g
 }
 
 // geomSources names the entries the geometry of an entry is read from: the nearest device

@@ -43,10 +43,30 @@ func (w WorkTree) Cache() *Cache {
 // Write brings the files the report found changed up to date on disk. A file that changed
 // since it was read is left alone and reported.
 func (w WorkTree) Write(rep *Report) (written []string, failures []error) {
-	for _, f := range rep.Changed() {
-		full := filepath.Join(w.Root, filepath.FromSlash(f.Path))
-		if err := calcblock.WriteAtomic(full, f.NewBytes, f.Original); err != nil {
-			failures = append(failures, fmt.Errorf("%s: %w", f.Path, err))
+	files := rep.Changed()
+	errs := make([]error, len(files))
+	// Each write waits for the disk (fsync of the file and its folder): several at a time.
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(8, len(files)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := int(next.Add(1)) - 1
+				if i >= len(files) {
+					return
+				}
+				f := files[i]
+				full := filepath.Join(w.Root, filepath.FromSlash(f.Path))
+				errs[i] = calcblock.WriteAtomic(full, f.NewBytes, f.Original)
+			}
+		}()
+	}
+	wg.Wait()
+	for i, f := range files {
+		if errs[i] != nil {
+			failures = append(failures, fmt.Errorf("%s: %w", f.Path, errs[i]))
 			continue
 		}
 		written = append(written, f.Path)
@@ -246,10 +266,11 @@ type CheckOptions struct {
 // CheckResult is what a check or calc of a work tree did.
 type CheckResult struct {
 	*Report
-	Unchanged     bool     // nothing changed since the last good check: nothing was run
-	Removed       []string // temporary files an interrupted calc left, removed (slash paths)
-	Written       []string // files rewritten on disk
-	WriteFailures []error  // files that could not be written
+	Notebook      *notebook.Notebook // the notebook as the run loaded it (nil when Unchanged)
+	Unchanged     bool               // nothing changed since the last good check: nothing was run
+	Removed       []string           // temporary files an interrupted calc left, removed (slash paths)
+	Written       []string           // files rewritten on disk
+	WriteFailures []error            // files that could not be written
 }
 
 // Bad counts the problems: stale results (for a check), failed lines, invalid entries, files
@@ -315,14 +336,14 @@ func (w WorkTree) run(opt CheckOptions, sc *Scan) (*CheckResult, error) {
 	if err != nil {
 		return nil, err
 	}
-	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths, Salt: saltIn(w.StateDir), Stamps: stamps})
+	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths, Salt: saltIn(w.StateDir), Stamps: stamps, Write: opt.Write})
 	if err != nil {
 		return nil, err
 	}
 	if cache != nil {
 		_ = cache.Save(nb) // the cache only saves time
 	}
-	res := &CheckResult{Report: rep}
+	res := &CheckResult{Report: rep, Notebook: nb}
 	if opt.Write {
 		res.Written, res.WriteFailures = w.Write(rep)
 	}

@@ -59,16 +59,25 @@ func (s Span) Len() int { return s.End - s.Start }
 
 // Source is one Markdown file, parsed, with its raw bytes kept unchanged.
 type Source struct {
-	Raw             []byte   // the file as read, never modified
-	BOM             int      // 3 if Raw starts with a UTF-8 BOM, else 0
-	HasFrontMatter  bool     // true if a closed front-matter block was found
-	FrontMatter     Span     // the YAML text between the delimiter lines (without them)
-	FrontMatterLine int      // 1-based line number of the first YAML line (0 without front matter)
-	Body            int      // offset where the Markdown body starts (after the closing delimiter line)
-	Doc             ast.Node // goldmark (GFM) parse of Masked(); all offsets are offsets into Raw
+	Raw             []byte // the file as read, never modified
+	BOM             int    // 3 if Raw starts with a UTF-8 BOM, else 0
+	HasFrontMatter  bool   // true if a closed front-matter block was found
+	FrontMatter     Span   // the YAML text between the delimiter lines (without them)
+	FrontMatterLine int    // 1-based line number of the first YAML line (0 without front matter)
+	Body            int    // offset where the Markdown body starts (after the closing delimiter line)
 
 	masked     []byte
 	lineStarts []int // offset of the first byte of each line; lineStarts[0] == 0
+	docOnce    sync.Once
+	doc        ast.Node
+}
+
+// Doc is the goldmark (GFM) parse of Masked(); all offsets are offsets into Raw. It is made
+// on the first call (a file whose blocks and tables nobody asks for is never parsed), and
+// safe to call from several goroutines.
+func (s *Source) Doc() ast.Node {
+	s.docOnce.Do(func() { s.doc = markdownParser().Parse(text.NewReader(s.masked)) })
+	return s.doc
 }
 
 // PosError reports a problem at a position in the file.
@@ -96,15 +105,17 @@ func markdownParser() parser.Parser {
 	return md.Parser()
 }
 
-// Parse splits raw into BOM, front matter and body and parses the body with
-// goldmark. raw is kept as Source.Raw and never modified; callers must not
+// Parse splits raw into BOM, front matter and body; [Source.Doc] parses the
+// body with goldmark when first asked. raw is kept as Source.Raw and never modified; callers must not
 // modify it either while the Source is in use.
 //
 // The only errors are *PosError values: for front matter that is opened but
 // never closed (the returned Source is then still complete, with the front
 // matter treated as Markdown body), and for a file larger than [MaxFileBytes]
-// or with lists or block quotes nested deeper than [MaxNesting] (the Source
-// then has an empty Doc: nothing of the body is read).
+// or with lists or block quotes nested deeper than [MaxNesting] (the Source's
+// Doc is then an empty document: nothing of the body is read). The nesting is
+// checked here, with one pass over the starts of the lines, so that the error
+// comes with the file even though Doc parses later.
 func Parse(raw []byte) (*Source, error) {
 	s := &Source{Raw: raw}
 	if bytes.HasPrefix(raw, bom) {
@@ -140,20 +151,22 @@ func Parse(raw []byte) (*Source, error) {
 		}
 	}
 	if len(raw) > MaxFileBytes {
-		s.Doc = ast.NewDocument()
+		s.noBody()
 		return s, &PosError{Line: 1, Col: 1, Msg: fmt.Sprintf(
 			"file of %.1f MiB: the Markdown of files larger than %d MiB is not read (its calc blocks are not evaluated); keep large tables in data files", float64(len(raw))/(1<<20), MaxFileBytes>>20)}
 	}
 	if line, col, ok := tooDeep(s.masked); ok {
 		// goldmark's time grows with the square of the nesting (a list nested 50,000 deep
 		// took 15 s): such a body is not parsed at all.
-		s.Doc = ast.NewDocument()
+		s.noBody()
 		return s, &PosError{Line: line, Col: col, Msg: fmt.Sprintf(
 			"lists and block quotes nested more than %d deep: the Markdown of this file is not read (its calc blocks are not evaluated); nest less", MaxNesting)}
 	}
-	s.Doc = markdownParser().Parse(text.NewReader(s.masked))
 	return s, perr
 }
+
+// noBody makes Doc an empty document: the body is never parsed.
+func (s *Source) noBody() { s.docOnce.Do(func() { s.doc = ast.NewDocument() }) }
 
 // MaxFileBytes is the largest file whose Markdown [Parse] reads: goldmark parses between 0.5
 // and 4 MB/s on a slow machine and keeps a tree many times the size of its input, and a note

@@ -15,7 +15,7 @@ import (
 func fences(t *testing.T, s *Source) []string {
 	t.Helper()
 	var out []string
-	ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+	ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 		if fc, ok := n.(*ast.FencedCodeBlock); ok && entering {
 			info := ""
 			if fc.Info != nil {
@@ -158,9 +158,9 @@ func TestParse(t *testing.T) {
 				t.Errorf("fenced blocks = %q, want %q", got, tc.wantFences)
 			}
 			if tc.wantHeading {
-				h, ok := s.Doc.FirstChild().(*ast.Heading)
+				h, ok := s.Doc().FirstChild().(*ast.Heading)
 				if !ok || h.Level != 1 {
-					t.Errorf("first body node is %T, want a level-1 heading", s.Doc.FirstChild())
+					t.Errorf("first body node is %T, want a level-1 heading", s.Doc().FirstChild())
 				}
 			}
 		})
@@ -188,7 +188,7 @@ func TestFencePosition(t *testing.T) {
 		t.Fatal(err)
 	}
 	var pos = -1
-	ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+	ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 		if fc, ok := n.(*ast.FencedCodeBlock); ok && entering {
 			pos = fc.Pos()
 			seg := fc.Lines().At(0)
@@ -296,7 +296,7 @@ func FuzzParse(f *testing.F) {
 			}
 		}
 		// Every content segment goldmark reports lies inside Raw.
-		ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+		ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 			if entering && n.Type() == ast.TypeBlock {
 				lines := n.Lines()
 				for i := 0; i < lines.Len(); i++ {
@@ -351,7 +351,7 @@ func TestNestingBound(t *testing.T) {
 				if err != nil {
 					t.Fatalf("unexpected error %v", err)
 				}
-				if s.Doc.ChildCount() == 0 {
+				if s.Doc().ChildCount() == 0 {
 					t.Error("the body was not parsed")
 				}
 				return
@@ -363,7 +363,7 @@ func TestNestingBound(t *testing.T) {
 			if pe.Line != tc.line+3 || pe.Col != tc.col || !strings.Contains(pe.Msg, "nested more than 32") {
 				t.Errorf("got %d:%d %s, want %d:%d", pe.Line, pe.Col, pe.Msg, tc.line+3, tc.col)
 			}
-			if s.Doc.ChildCount() != 0 {
+			if s.Doc().ChildCount() != 0 {
 				t.Error("the body was parsed")
 			}
 			if !s.HasFrontMatter {
@@ -382,7 +382,7 @@ func TestSizeBound(t *testing.T) {
 	if !errors.As(err, &pe) || pe.Line != 1 || !strings.Contains(pe.Msg, "larger than 4 MiB") {
 		t.Fatalf("err = %v", err)
 	}
-	if !s.HasFrontMatter || s.Doc.ChildCount() != 0 || !bytes.Equal(s.Raw, src) {
+	if !s.HasFrontMatter || s.Doc().ChildCount() != 0 || !bytes.Equal(s.Raw, src) {
 		t.Error("want the front matter, the raw bytes and no body")
 	}
 }
@@ -394,8 +394,10 @@ func BenchmarkParseDeep(b *testing.B) {
 	src := []byte(strings.Repeat(line, (1<<20)/len(line)))
 	b.SetBytes(int64(len(src)))
 	for b.Loop() {
-		if _, err := Parse(src); err != nil {
+		s, err := Parse(src)
+		if err != nil {
 			b.Fatal(err)
 		}
+		s.Doc()
 	}
 }
