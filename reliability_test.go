@@ -61,6 +61,16 @@ func bombYAML() string {
 }
 
 var hostileCases = []hostileCase{
+	{name: "a plot file that is a FIFO",
+		files: map[string]string{"notes/fifo-plot.md": "```cleave\nf = plot(magnetic_length(1 T), \"x\")  #~ plot plots/fifo-plot/x.svg sha256:0123456789ab\n```\n"},
+		setup: func(t *testing.T, dir string) bool {
+			d := filepath.Join(dir, "notes", "plots", "fifo-plot")
+			if err := os.MkdirAll(d, 0o755); err != nil {
+				t.Fatal(err)
+			}
+			return mkfifo(filepath.Join(d, "x.svg")) == nil
+		},
+		want: []string{"notes/fifo-plot.md:2: plot notes/plots/fifo-plot/x.svg is not a regular file"}},
 	{name: "300,000 terms on one line (1.5 MB)",
 		files: map[string]string{"notes/long-sum.md": "# Long\n\n```cleave\nx = " + repeatJoin("1 T", " + ", 300_000) + "\ny = 2 T\n```\n"},
 		want:  []string{"notes/long-sum.md:4:16385: error: line of 1800001 bytes"}},
@@ -204,7 +214,7 @@ func TestHostileNotebook(t *testing.T) {
 			t.Errorf("calc changed the demo's %s", p)
 		}
 	}
-	if after["notes/conflict.md"] != hostileCases[8].files["notes/conflict.md"] {
+	if after["notes/conflict.md"] != hostileCases[9].files["notes/conflict.md"] {
 		t.Error("calc wrote into a file with conflict markers")
 	}
 	for _, l := range []string{"y = 2 T  #~ 2.0000 T", "sub = 0 ± 1e-310  #~ (0.0 ± 1.0)e-310"} {

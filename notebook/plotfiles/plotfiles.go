@@ -108,7 +108,12 @@ func Verify(root string, sel func(string) bool) ([]Problem, error) {
 
 // state says what is wrong with a plot file ("" when it matches its result region).
 func state(root string, r Ref) string {
-	b, err := os.ReadFile(filepath.Join(root, filepath.FromSlash(r.Path)))
+	full := filepath.Join(root, filepath.FromSlash(r.Path))
+	if fi, err := os.Lstat(full); err == nil && !fi.Mode().IsRegular() {
+		// A FIFO would block the read for ever; a link or a folder is no plot the tool wrote.
+		return fmt.Sprintf("plot %s is not a regular file (a folder, a link or a special file): remove it, and `cleave calc` draws it again", r.Path)
+	}
+	b, err := os.ReadFile(full)
 	switch {
 	case errors.Is(err, fs.ErrNotExist):
 		return fmt.Sprintf("plot %s is missing (`cleave calc` writes it)", r.Path)
