@@ -227,6 +227,10 @@ func (st *build) run() error {
 		}
 	}
 	for p := range st.rasters {
+		// Only regular files: a FIFO named like an image would block the build for ever.
+		if fi, err := fs.Stat(st.fsys, p); err != nil || !fi.Mode().IsRegular() {
+			continue
+		}
 		data, err := fs.ReadFile(st.fsys, p)
 		if err == nil && isRaster(data) {
 			st.put(p, data)
