@@ -69,6 +69,9 @@ func TestFunctionsThroughLanguage(t *testing.T) {
 		{"min of list", "min([3 T, 1 T, 2 T])", "T", 1, 0},
 		{"max of args", "max(3 T, 1 T, 2 T)", "T", 3, 0},
 		{"mean", "mean(1 T, 2 T, 6 T)", "T", 3, 1e-15},
+		// Absolute temperatures in °C: the mean is meaningful (T/K = t/°C + 273.15, [src:SI2019]).
+		{"mean of °C", "mean(580 °C, 600 °C, 610 °C)", "°C", 596.66666666666667, 1e-13},
+		{"min of °C", "min(580 °C, 600 °C)", "K", 853.15, 1e-15},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

@@ -25,6 +25,9 @@ var evalSeeds = []string{
 	`fermi_energy(n, m=GaAs.mstar, gs=1)`, "E_F -> meV", "5 T / B", "(3.070 ± 0.040)e11 cm^-2",
 	"Si(100).gv", `hall_density(data("raw/a.csv"), 0 T .. 1 T)`, `symmetrize(data("raw/a.csv"))`,
 	`material("GaAs").mstar`, "expected_density([])", "landau_fan([1 T], [1])",
+	// temperatures in °C and growth units
+	"-20 °C", "20 °C + 30 °C", "2*(20 °C)", "(115 °C - 110 °C) -> degC", "mean(580 °C, 600 °C)",
+	"0.8 ML(GaAs)/s", "ML(Al(0.3)Ga(0.7)As)", "5 ML(GaAs", "4000 rpm * 2", "1 ℃ -> K",
 }
 
 // fuzzResolver is a notebook stand-in: an invented device with a width and a mask.

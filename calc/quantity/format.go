@@ -59,7 +59,23 @@ var displayTable = []struct {
 	{dimCapacit, displayRule{steps: []step{{1e-9, "pF"}, {1e-6, "nF"}, {inf, "uF"}}, zero: "pF"}},
 	{dimCapacit.Div(Length.Pow(2)), fixed("nF/cm^2")},
 	{dimCapacit.Div(Length), fixed("F/m")},
-	{Length.Div(Time), fixed("m/s")},
+	// Velocities: growth and etch rates (below 1 mm/s) in nm/s, everything faster (a Fermi
+	// velocity) in m/s. Å/s, um/h and nm/min are asked for with `->`.
+	{Length.Div(Time), displayRule{steps: []step{{1e-3, "nm/s"}, {inf, "m/s"}}, zero: "m/s"}},
+	// Field sweep rates, temperature ramps.
+	{dimField.Div(Time), fixed("T/min")},
+	{Temperature.Div(Time), fixed("K/min")},
+	// Light intensity, exposure dose, e-beam dose.
+	{dimPower.Div(Length.Pow(2)), fixed("mW/cm^2")},
+	{dimEnergy.Div(Length.Pow(2)), fixed("mJ/cm^2")},
+	{dimCharge.Div(Length.Pow(2)), fixed("uC/cm^2")},
+	// Specific contact resistivity. (Contact resistance times width, R_c W, has the
+	// dimension of a resistivity, shown in Ohm cm; a TLM result asks for Ohm mm itself.)
+	{dimResistance.Mul(Length.Pow(2)), fixed("Ohm cm^2")},
+	// Volumes of chemicals, gas flows, the magnetic field strength H.
+	{Length.Pow(3), displayRule{steps: []step{{1e-6, "uL"}, {1e-3, "mL"}, {inf, "L"}}, zero: "mL"}},
+	{Amount.Div(Time), fixed("sccm")},
+	{Current.Div(Length), fixed("A/m")},
 	{dimVoltage.Div(Length), fixed("V/m")},
 	{dimEnergy.Div(dimField), fixed("meV/T")},
 	{dimEnergy.Div(Temperature), fixed("meV/K")},
@@ -83,10 +99,13 @@ var displayRules = func() map[Dim]displayRule {
 	return m
 }()
 
+// celsiusSymbol is how an absolute temperature in °C is written.
+const celsiusSymbol = "°C"
+
 // parsedDisplay caches the parsed display units.
 var parsedDisplay = func() map[string]Unit {
 	// The empty symbol is the dimensionless unit 1, which ParseUnit spells "1".
-	m := map[string]Unit{"": {Symbol: "", Scale: 1}}
+	m := map[string]Unit{"": {Symbol: "", Scale: 1}, celsiusSymbol: MustUnit(celsiusSymbol)}
 	for _, r := range displayRules {
 		for _, s := range append(r.steps, step{sym: r.zero}) {
 			if _, ok := m[s.sym]; !ok {
@@ -104,7 +123,12 @@ var parsedDisplay = func() map[string]Unit {
 // out of range that it would overflow or fall into the subnormal range in
 // the customary unit: 1e300 g is about 1e327 electron masses, beyond the
 // largest float64, but prints as 1e297 kg.
+//
+// An absolute temperature written in °C ([TempCelsius]) is shown in °C.
 func Customary(q Quantity) Unit {
+	if q.temp == TempCelsius {
+		return parsedDisplay[celsiusSymbol]
+	}
 	si := Unit{Symbol: q.d.String(), Scale: 1, D: q.d}
 	r, ok := displayRules[q.d]
 	if !ok {
@@ -402,10 +426,20 @@ func ParseQuantity(s string) (Quantity, error) {
 				}
 				sigma = toSI(fromSI(sigma, u.Scale), su.Scale)
 			}
-			return Uncertain(toSI(v, u.Scale), sigma, u.D), nil
+			return inUnit(v, sigma, u), nil
 		}
 	}
-	return Uncertain(toSI(v, u.Scale), toSI(sigma, u.Scale), u.D), nil
+	return inUnit(v, toSI(sigma, u.Scale), u), nil
+}
+
+// inUnit is the quantity v (in unit u) with standard uncertainty sigma (SI): an absolute
+// temperature marked TempCelsius when u is °C.
+func inUnit(v, sigma float64, u Unit) Quantity {
+	q := Uncertain(toSI(v, u.Scale)+u.Offset, sigma, u.D)
+	if u.Offset != 0 {
+		q = q.Marked(TempCelsius)
+	}
+	return q
 }
 
 // parseUnitIn parses the unit text found at byte offset off of s, with
