@@ -3,33 +3,20 @@ package notebook
 import (
 	"bytes"
 	"errors"
-	"flag"
 	"os"
 	"path/filepath"
 	"slices"
 	"strings"
 	"testing"
 	"testing/fstest"
+
+	"cleave/internal/testutil"
 )
 
-var update = flag.Bool("update", false, "rewrite golden files")
-
-// golden compares got with the file at path, or rewrites it with -update.
+// golden compares got with the file at path, or rewrites it with -update (testutil's flag).
 func golden(t *testing.T, path string, got []byte) {
 	t.Helper()
-	if *update {
-		if err := os.WriteFile(path, got, 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if !bytes.Equal(got, want) {
-		t.Errorf("%s differs:\n--- got\n%s--- want\n%s", path, got, want)
-	}
+	testutil.Golden(t, path, got)
 }
 
 func loadGood(t testing.TB) *Notebook {

@@ -75,6 +75,8 @@ var displayTable = []struct {
 	// Volumes of chemicals, gas flows, the magnetic field strength H.
 	{Length.Pow(3), displayRule{steps: []step{{1e-6, "uL"}, {1e-3, "mL"}, {inf, "L"}}, zero: "mL"}},
 	{Amount.Div(Time), fixed("sccm")},
+	// Dopant fluxes from a cell.
+	{Length.Pow(-2).Div(Time), fixed("cm^-2 s^-1")},
 	{Current.Div(Length), fixed("A/m")},
 	{dimVoltage.Div(Length), fixed("V/m")},
 	{dimEnergy.Div(dimField), fixed("meV/T")},

@@ -76,13 +76,49 @@ func layersValue(rows []notebook.LayerRow, path string) calc.List {
 		if row.ThicknessQ.Dim() == quantity.Length {
 			th = calc.Q(row.ThicknessQ)
 		}
-		l = append(l, &calc.Record{Path: path, Fields: []calc.RecordField{
+		rec := &calc.Record{Path: path, Fields: []calc.RecordField{
 			{Name: "index", Value: calc.Q(quantity.Scalar(float64(i + 1)))},
 			{Name: "layer", Value: calc.String(row.Layer)},
 			{Name: "material", Value: calc.String(row.Material)},
 			{Name: "thickness", Value: th},
 			{Name: "doping", Value: calc.String(row.Doping)},
-		}})
+		}}
+		rec.Fields = append(rec.Fields, growthFields(row)...)
+		l = append(l, rec)
 	}
 	return l
+}
+
+// growthFields are a layer row's growth columns, those it has: time, rate, grown (rate ×
+// time), nominal (the thickness column, beside grown), t_sub, cells (a record of cell
+// temperatures), shutters.
+func growthFields(row notebook.LayerRow) []calc.RecordField {
+	var out []calc.RecordField
+	add := func(name string, v calc.Value) { out = append(out, calc.RecordField{Name: name, Value: v}) }
+	if row.HasTime {
+		add("time", calc.Q(row.TimeQ))
+	}
+	if row.HasRate {
+		add("rate", calc.Q(row.RateQ))
+	}
+	if row.HasGrown {
+		add("grown", calc.Q(row.Grown))
+		if !row.FromGrowth && row.ThicknessQ.Dim() == quantity.Length {
+			add("nominal", calc.Q(row.ThicknessQ))
+		}
+	}
+	if row.HasTSub {
+		add("t_sub", calc.Q(row.TSubQ))
+	}
+	if len(row.CellTemps) > 0 {
+		cells := &calc.Record{}
+		for _, c := range row.CellTemps {
+			cells.Fields = append(cells.Fields, calc.RecordField{Name: c.Cell, Value: calc.Q(c.T)})
+		}
+		add("cells", cells)
+	}
+	if row.Shutters != "" {
+		add("shutters", calc.String(row.Shutters))
+	}
+	return out
 }
