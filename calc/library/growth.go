@@ -185,7 +185,7 @@ func rheedCall(_ *calc.Env, a []calc.Value) (calc.Value, error) {
 			return nil, &calc.ArgError{Arg: 0, Err: err}
 		}
 		P := est(res.Period, quantity.Time).Q
-		return withWarnings(newResult("rheed_rate", "rate", []string{"period", "oscillations"},
+		return withWarnings(newResult("rheed_rate", "rate", []string{"period"},
 			"rate", calc.Q(quantity.Div(ml, P)), "period", calc.Q(P), "ML_per_s", calc.Q(quantity.Div(quantity.Scalar(1), P)),
 			"oscillations", num(float64(res.Oscillations)), "monolayer", calc.Q(ml)), res.Warnings), nil
 	}
@@ -278,7 +278,7 @@ func arrheniusResult(kind, fitted string, ydim quantity.Dim, T, y, sy []float64,
 	kv = append(kv, "Ea", calc.Quantity{Q: Ea, Unit: &eV}, "prefactor", calc.Q(A),
 		"T_min", calc.Q(f.temp(fit.TMin)), "T_max", calc.Q(f.temp(fit.TMax)), "points", num(float64(fit.Points)),
 		"scatter", num(fit.ScatterLn))
-	r := withWarnings(newResult(kind, "Ea", []string{"T_min", "T_max", "points"}, kv...), fit.Warnings)
+	r := withWarnings(newResult(kind, "Ea", []string{"T_min", "T_max"}, kv...), fit.Warnings)
 	r.Detail = f
 	return r, nil
 }

@@ -151,7 +151,7 @@ func TestCellCalibration(t *testing.T) {
 		}
 	}
 	for _, c := range []struct{ expr, want string }{
-		{"cal", "Ea = 4.2000 eV, T_min 1100.0 °C, T_max 1200.0 °C, points 3.0000; warning: only 3 calibration points: the fit cannot show whether they follow the Arrhenius law"},
+		{"cal", "Ea = 4.2000 eV, T_min 1100.0 °C, T_max 1200.0 °C; warning: only 3 calibration points: the fit cannot show whether they follow the Arrhenius law"},
 		{"cal.wafers", `["C-1", "C-2", "C-3"]`},
 		{"cal.fitted", `"flux"`},
 		{`cell_calibration("Si", [w1, d2, d3]).fitted`, `"density"`},
