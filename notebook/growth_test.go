@@ -54,20 +54,29 @@ func TestGrowthColumns(t *testing.T) {
 		{1e-6, false, 1e-6, 853.15, 1},
 	}
 	for i, r := range rows {
-		w := want[i]
-		if !testutil.Within(r.ThicknessQ.Value(), w.thickness, 1e-12, 1e-22) || r.FromGrowth != w.fromGrowth ||
-			!r.HasGrown || !testutil.Within(r.Grown.Value(), w.grown, 1e-12, 1e-22) ||
-			!testutil.WithinRel(r.TSubQ.Value(), w.tsubK, 1e-15) || r.TSubQ.Temp() != quantity.TempCelsius || len(r.CellTemps) != w.cells {
+		w, g := want[i], r.Growth
+		if !testutil.Within(r.ThicknessQ.Value(), w.thickness, 1e-12, 1e-22) || g.FromGrowth != w.fromGrowth ||
+			!g.HasGrown || !testutil.Within(g.Grown.Value(), w.grown, 1e-12, 1e-22) ||
+			!testutil.WithinRel(g.TSubQ.Value(), w.tsubK, 1e-15) || g.TSubQ.Temp() != quantity.TempCelsius || len(g.CellTemps) != w.cells {
 			t.Errorf("row %d (%s): thickness %v (from growth %v), grown %v, t_sub %v, cells %v; want %+v",
-				i, r.Layer, r.ThicknessQ.Value(), r.FromGrowth, r.Grown.Value(), r.TSubQ.Value(), r.CellTemps, w)
+				i, r.Layer, r.ThicknessQ.Value(), g.FromGrowth, g.Grown.Value(), g.TSubQ.Value(), g.CellTemps, w)
 		}
 	}
-	if c := rows[1].CellTemps[1]; c.Cell != "Al" || c.T.Value() != 1060+273.15 {
+	if c := rows[1].Growth.CellTemps[1]; c.Cell != "Al" || c.T.Value() != 1060+273.15 {
 		t.Errorf("barrier's second cell: %+v", c)
 	}
 }
 
 // TestParseCellTemps covers the cells column's parser.
+// TestNoGrowthColumns: a table without growth columns keeps no growth log.
+func TestNoGrowthColumns(t *testing.T) {
+	for _, r := range loadGood(t).byID["W23-017"].LayerRows() {
+		if r.Growth != nil {
+			t.Errorf("%s: a growth log from a table without growth columns", r.Layer)
+		}
+	}
+}
+
 func TestParseCellTemps(t *testing.T) {
 	c, err := ParseCellTemps("Ga 905 °C, Al 1333.15 K; Si 1180 ± 1 °C")
 	if err != nil || len(c) != 3 || c[1].T.Value() != 1333.15 || c[2].T.Uncertainty() != 1 {

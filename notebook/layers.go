@@ -13,24 +13,32 @@ import (
 // LayerRow is one row of a wafer's layer table (surface first). Cells are
 // trimmed source text; empty cells and "-" give "".
 //
-// Besides its final thickness a row may record how the layer was grown: the
-// growth time, the growth rate (nm/s, um/h, Å/s or ML/s, where ML alone is a
-// monolayer of the row's material), the substrate temperature (column t_sub),
-// the cell temperatures ("Ga 905 °C, Al 1060 °C, Si 1180 °C") and shutter
-// notes. With time and rate the grown thickness rate × time is Grown; a row
-// without a thickness takes it as its thickness.
+// Besides its final thickness a row may record how the layer was grown
+// ([LayerGrowth]): the growth time, the growth rate (nm/s, um/h, Å/s or ML/s,
+// where ML alone is a monolayer of the row's material), the substrate
+// temperature (column t_sub), the cell temperatures ("Ga 905 °C, Al 1060 °C,
+// Si 1180 °C") and shutter notes. With time and rate the grown thickness
+// rate × time is Growth.Grown; a row without a thickness takes it as its
+// thickness.
 type LayerRow struct {
 	Layer, Material, Thickness, Doping, Notes string
-	Time, Rate, TSub, CellText, Shutters      string // the growth columns as written
-	Line                                      int    // file line of the row
+	Line                                      int // file line of the row
 	ThicknessQ                                quantity.Quantity
 	Cells                                     []Cell // every cell of the row, in column order
-	// FromGrowth says that ThicknessQ is rate × time: the row has no thickness of its own.
+	// Growth is the row's growth log; nil when the table has no growth columns.
+	Growth *LayerGrowth
+}
+
+// LayerGrowth is what a layer table's growth columns say about one row: the columns as
+// written, and as quantities where given and valid (each Has flag says which).
+type LayerGrowth struct {
+	Time, Rate, TSub, CellText, Shutters string
+	TimeQ, RateQ, TSubQ                  quantity.Quantity
+	Grown                                quantity.Quantity // RateQ × TimeQ
+	HasTime, HasRate, HasTSub, HasGrown  bool
+	CellTemps                            []CellTemp // the cell temperatures, in the order written
+	// FromGrowth says that the row's ThicknessQ is Grown: it has no thickness of its own.
 	FromGrowth bool
-	// The growth columns read as quantities; each Has flag says whether it was given and valid.
-	TimeQ, RateQ, TSubQ, Grown          quantity.Quantity // Grown = RateQ × TimeQ
-	HasTime, HasRate, HasTSub, HasGrown bool
-	CellTemps                           []CellTemp // the cell temperatures, in the order written
 }
 
 // CellTemp is the temperature of one effusion cell while a layer grew.
@@ -150,15 +158,15 @@ func (e *Entry) readLayers() []Problem {
 			case "notes":
 				lr.Notes = v
 			case "time":
-				lr.Time = v
+				lr.growth().Time = v
 			case "rate":
-				lr.Rate = v
+				lr.growth().Rate = v
 			case "t_sub":
-				lr.TSub = v
+				lr.growth().TSub = v
 			case "cells":
-				lr.CellText = v
+				lr.growth().CellText = v
 			case "shutters":
-				lr.Shutters = v
+				lr.growth().Shutters = v
 			}
 		}
 		if lr.Line == 0 {
@@ -168,14 +176,17 @@ func (e *Entry) readLayers() []Problem {
 		if lr.Material == "" {
 			prob(mat.Line, mat.Col, "layer table: empty material (write the layer's material, e.g. Al0.33Ga0.67As)")
 		}
-		probs = append(probs, e.readGrowth(&lr)...)
+		g := lr.Growth
+		if g != nil {
+			probs = append(probs, e.readGrowth(&lr)...)
+		}
 		switch {
-		case lr.Thickness == "" && lr.HasGrown:
-			lr.ThicknessQ, lr.FromGrowth = lr.Grown, true
-		case lr.Thickness == "" && (lr.Time != "" || lr.Rate != ""):
+		case lr.Thickness == "" && g != nil && g.HasGrown:
+			lr.ThicknessQ, g.FromGrowth = g.Grown, true
+		case lr.Thickness == "" && g != nil && (g.Time != "" || g.Rate != ""):
 			// a growth column is wrong or missing: reported by readGrowth or here
-			if lr.Time == "" || lr.Rate == "" {
-				prob(th.Line, th.Col, "layer table: no thickness and no %s: give the thickness, or the layer's growth time and rate", map[bool]string{true: "growth rate", false: "growth time"}[lr.Time != ""])
+			if g.Time == "" || g.Rate == "" {
+				prob(th.Line, th.Col, "layer table: no thickness and no %s: give the thickness, or the layer's growth time and rate", map[bool]string{true: "growth rate", false: "growth time"}[g.Time != ""])
 			}
 		case lr.Thickness == "":
 			prob(th.Line, th.Col, "layer table: empty thickness: expected a length with a unit, e.g. `20 nm` (or the layer's growth time and rate)")
@@ -282,8 +293,8 @@ func findCell(cells []Cell, name string) Cell {
 	return Cell{Line: 1, Col: 1}
 }
 
-// readGrowth reads the growth columns of a row: time, rate (a bare ML is a monolayer of the
-// row's material), t_sub and cells, with the grown thickness rate × time.
+// readGrowth reads the growth columns of a row (lr.Growth is set): time, rate (a bare ML is a
+// monolayer of the row's material), t_sub and cells, with the grown thickness rate × time.
 func (e *Entry) readGrowth(lr *LayerRow) []Problem {
 	var probs []Problem
 	at := func(col string) Cell { return findCell(lr.Cells, col) }
@@ -314,20 +325,29 @@ func (e *Entry) readGrowth(lr *LayerRow) []Problem {
 		}
 		return quantity.Quantity{}, false
 	}
-	lr.TimeQ, lr.HasTime = read("time", lr.Time, quantity.Time, "a time", "212 s")
-	lr.RateQ, lr.HasRate = read("rate", monolayerOf(lr.Rate, lr.Material), quantity.Length.Div(quantity.Time), "a growth rate", "1 ML/s` or `0.28 nm/s")
-	lr.TSubQ, lr.HasTSub = read("t_sub", lr.TSub, quantity.Temperature, "a substrate temperature", "600 °C")
-	if lr.HasTime && lr.HasRate {
-		lr.Grown, lr.HasGrown = quantity.Mul(lr.RateQ, lr.TimeQ), true
+	g := lr.Growth
+	g.TimeQ, g.HasTime = read("time", g.Time, quantity.Time, "a time", "212 s")
+	g.RateQ, g.HasRate = read("rate", monolayerOf(g.Rate, lr.Material), quantity.Length.Div(quantity.Time), "a growth rate", "1 ML/s` or `0.28 nm/s")
+	g.TSubQ, g.HasTSub = read("t_sub", g.TSub, quantity.Temperature, "a substrate temperature", "600 °C")
+	if g.HasTime && g.HasRate {
+		g.Grown, g.HasGrown = quantity.Mul(g.RateQ, g.TimeQ), true
 	}
-	if lr.CellText != "" {
-		cells, err := ParseCellTemps(lr.CellText)
+	if g.CellText != "" {
+		cells, err := ParseCellTemps(g.CellText)
 		if err != nil {
-			prob("cells", "layer table: cells %q: %v", lr.CellText, err)
+			prob("cells", "layer table: cells %q: %v", g.CellText, err)
 		}
-		lr.CellTemps = cells
+		g.CellTemps = cells
 	}
 	return probs
+}
+
+// growth returns the row's growth log, made on first use.
+func (lr *LayerRow) growth() *LayerGrowth {
+	if lr.Growth == nil {
+		lr.Growth = &LayerGrowth{}
+	}
+	return lr.Growth
 }
 
 // monolayerOf writes a bare ML in a growth rate as ML(material): in a layer table a monolayer

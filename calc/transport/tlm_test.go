@@ -195,3 +195,23 @@ func TestRHEEDPeriod(t *testing.T) {
 		t.Error("a flat trace gave a period")
 	}
 }
+
+// BenchmarkRHEEDPeriod times the period of a 60 s trace sampled at 20 Hz (1201 points).
+func BenchmarkRHEEDPeriod(b *testing.B) {
+	tt, y := rheedTrace(rand.New(rand.NewPCG(1, 1)), 3.53, 0.01)
+	for b.Loop() {
+		if _, err := RHEEDPeriod(tt, y); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+// BenchmarkFitTLM times the fit of a five-gap pattern.
+func BenchmarkFitTLM(b *testing.B) {
+	R := []float64{60.2, 109.7, 210.4, 409.9, 810.1}
+	for b.Loop() {
+		if _, err := FitTLM(tlmGaps, R, nil); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

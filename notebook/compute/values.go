@@ -93,32 +93,36 @@ func layersValue(rows []notebook.LayerRow, path string) calc.List {
 // time), nominal (the thickness column, beside grown), t_sub, cells (a record of cell
 // temperatures), shutters.
 func growthFields(row notebook.LayerRow) []calc.RecordField {
+	g := row.Growth
+	if g == nil {
+		return nil
+	}
 	var out []calc.RecordField
 	add := func(name string, v calc.Value) { out = append(out, calc.RecordField{Name: name, Value: v}) }
-	if row.HasTime {
-		add("time", calc.Q(row.TimeQ))
+	if g.HasTime {
+		add("time", calc.Q(g.TimeQ))
 	}
-	if row.HasRate {
-		add("rate", calc.Q(row.RateQ))
+	if g.HasRate {
+		add("rate", calc.Q(g.RateQ))
 	}
-	if row.HasGrown {
-		add("grown", calc.Q(row.Grown))
-		if !row.FromGrowth && row.ThicknessQ.Dim() == quantity.Length {
+	if g.HasGrown {
+		add("grown", calc.Q(g.Grown))
+		if !g.FromGrowth && row.ThicknessQ.Dim() == quantity.Length {
 			add("nominal", calc.Q(row.ThicknessQ))
 		}
 	}
-	if row.HasTSub {
-		add("t_sub", calc.Q(row.TSubQ))
+	if g.HasTSub {
+		add("t_sub", calc.Q(g.TSubQ))
 	}
-	if len(row.CellTemps) > 0 {
+	if len(g.CellTemps) > 0 {
 		cells := &calc.Record{}
-		for _, c := range row.CellTemps {
+		for _, c := range g.CellTemps {
 			cells.Fields = append(cells.Fields, calc.RecordField{Name: c.Cell, Value: calc.Q(c.T)})
 		}
 		add("cells", cells)
 	}
-	if row.Shutters != "" {
-		add("shutters", calc.String(row.Shutters))
+	if g.Shutters != "" {
+		add("shutters", calc.String(g.Shutters))
 	}
 	return out
 }
