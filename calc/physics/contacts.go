@@ -28,10 +28,8 @@ type TLM struct {
 
 // TransferLength returns the contact parameters from the straight line R_T(d) = intercept +
 // slope·d through the total resistances of a transfer-length pattern whose contacts are W
-// wide and (when L is positive) L long (Berger, Solid-State Electron. 15, 145 (1972); Reeves
-// and Harrison, IEEE Electron Device Lett. 3, 111 (1982); Schroder, Semiconductor Material
-// and Device Characterization, 3rd ed., ch. 3, from memory), taking the sheet resistance
-// under the contacts equal to the channel's:
+// wide and (when L is positive) L long ([src:BERGER1972], [src:RH1982], [src:SCHRODER2006]),
+// taking the sheet resistance under the contacts equal to the channel's:
 //
 //	R_c = intercept/2           R_sh = slope·W           R_c W
 //	L_x = intercept/(2 slope)   (the line meets R_T = 0 at d = −2 L_x)

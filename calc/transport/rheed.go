@@ -22,8 +22,7 @@ type RHEEDResult struct {
 }
 
 // RHEEDPeriod returns the period of the intensity oscillations of a RHEED spot during
-// layer-by-layer growth, where one period is the growth of one monolayer (Neave, Joyce,
-// Dobson and Norton, Appl. Phys. A 31, 1 (1983), from memory; common practice). time (s)
+// layer-by-layer growth, where one period is the growth of one monolayer ([src:NEAVE1983]). time (s)
 // and intensity (any unit) are one trace, sampled at roughly equal steps; NaN points are
 // dropped.
 //

@@ -24,8 +24,7 @@ type TLMFit struct {
 }
 
 // FitTLM fits R_T = 2R_c + (R_sh/W)·d to the total resistances R (Ohm) measured across gaps d
-// (m) of a transfer-length pattern (Berger, Solid-State Electron. 15, 145 (1972); Reeves and
-// Harrison, IEEE Electron Device Lett. 3, 111 (1982)) by least squares; sigma, if not nil,
+// (m) of a transfer-length pattern ([src:BERGER1972], [src:RH1982]) by least squares; sigma, if not nil,
 // weights the resistances. The covariance is residual-scaled (see [FitPoly]), so a pattern
 // needs at least three gaps, two of them different. Four or more gaps let the fit show
 // whether the points lie on a line; fewer give a warning, and so do a coefficient of
