@@ -314,10 +314,20 @@ func (e *SyntaxError) Unwrap() error { return ErrSyntax }
 // Errors are a *[SyntaxError] or a *[UnitError], with byte offsets into s,
 // or a *[DimError] when the uncertainty's unit differs in dimension.
 func ParseQuantity(s string) (Quantity, error) {
+	q, _, err := parseQuantity(s)
+	return q, err
+}
+
+// ParseQuantityUnit is [ParseQuantity] that also gives the unit the value was written in
+// (the dimensionless unit, scale 1, for a bare number), for a caller that shows a value as
+// written when its unit says so ([Unit.Keep]).
+func ParseQuantityUnit(s string) (Quantity, Unit, error) { return parseQuantity(s) }
+
+func parseQuantity(s string) (Quantity, Unit, error) {
 	p := &qparser{s: s}
 	p.space()
 	if p.pos == len(s) {
-		return Quantity{}, p.fail(p.pos, "empty quantity (expected a number such as 20, 3.1e11 or 12.5 ± 0.2)")
+		return Quantity{}, Unit{}, p.fail(p.pos, "empty quantity (expected a number such as 20, 3.1e11 or 12.5 ± 0.2)")
 	}
 	var val, sig string
 	if p.s[p.pos] == '(' {
@@ -326,19 +336,19 @@ func ParseQuantity(s string) (Quantity, error) {
 		p.space()
 		var err error
 		if val, err = p.number(); err != nil {
-			return Quantity{}, err
+			return Quantity{}, Unit{}, err
 		}
 		p.space()
 		if !p.plusMinus() {
-			return Quantity{}, p.fail(p.pos, "expected '±' or '+/-' after the value in parentheses")
+			return Quantity{}, Unit{}, p.fail(p.pos, "expected '±' or '+/-' after the value in parentheses")
 		}
 		p.space()
 		if sig, err = p.number(); err != nil {
-			return Quantity{}, err
+			return Quantity{}, Unit{}, err
 		}
 		p.space()
 		if p.pos >= len(s) || s[p.pos] != ')' {
-			return Quantity{}, p.fail(open, "unclosed '(' (expected \"(value ± uncertainty)e<exponent>\")")
+			return Quantity{}, Unit{}, p.fail(open, "unclosed '(' (expected \"(value ± uncertainty)e<exponent>\")")
 		}
 		p.pos++
 		if p.pos < len(s) && (s[p.pos] == 'e' || s[p.pos] == 'E') {
@@ -352,7 +362,7 @@ func ParseQuantity(s string) (Quantity, error) {
 				p.pos++
 			}
 			if p.pos == d {
-				return Quantity{}, p.fail(start, "expected an integer exponent after ')e'")
+				return Quantity{}, Unit{}, p.fail(start, "expected an integer exponent after ')e'")
 			}
 			exp := s[start:p.pos]
 			val += exp
@@ -361,14 +371,14 @@ func ParseQuantity(s string) (Quantity, error) {
 	} else {
 		var err error
 		if val, err = p.number(); err != nil {
-			return Quantity{}, err
+			return Quantity{}, Unit{}, err
 		}
 		save := p.pos
 		p.space()
 		if p.plusMinus() {
 			p.space()
 			if sig, err = p.number(); err != nil {
-				return Quantity{}, err
+				return Quantity{}, Unit{}, err
 			}
 		} else {
 			p.pos = save
@@ -376,13 +386,13 @@ func ParseQuantity(s string) (Quantity, error) {
 	}
 	v, err := strconv.ParseFloat(val, 64)
 	if err != nil && !isRangeErr(err) {
-		return Quantity{}, p.fail(0, "malformed number %q", val)
+		return Quantity{}, Unit{}, p.fail(0, "malformed number %q", val)
 	}
 	var sigma float64
 	if sig != "" {
 		sigma, err = strconv.ParseFloat(sig, 64)
 		if err != nil && !isRangeErr(err) || sigma < 0 || math.IsNaN(sigma) {
-			return Quantity{}, p.fail(0, "uncertainty %q must be a non-negative number", sig)
+			return Quantity{}, Unit{}, p.fail(0, "uncertainty %q must be a non-negative number", sig)
 		}
 	}
 	p.space()
@@ -403,35 +413,35 @@ func ParseQuantity(s string) (Quantity, error) {
 			unitText = unitText[:pmAt]
 		}
 		if u, err = parseUnitIn(s, unitStart, unitText); err != nil {
-			return Quantity{}, err
+			return Quantity{}, Unit{}, err
 		}
 		if pmAt >= 0 {
 			p.pos = unitStart + pmAt
 			p.plusMinus()
 			p.space()
 			if sig, err = p.number(); err != nil {
-				return Quantity{}, err
+				return Quantity{}, Unit{}, err
 			}
 			sigma, err = strconv.ParseFloat(sig, 64)
 			if err != nil && !isRangeErr(err) || sigma < 0 || math.IsNaN(sigma) {
-				return Quantity{}, p.fail(0, "uncertainty %q must be a non-negative number", sig)
+				return Quantity{}, Unit{}, p.fail(0, "uncertainty %q must be a non-negative number", sig)
 			}
 			sigma = toSI(sigma, u.Scale)
 			p.space()
 			if p.pos < len(s) {
 				su, err := parseUnitIn(s, p.pos, s[p.pos:])
 				if err != nil {
-					return Quantity{}, err
+					return Quantity{}, Unit{}, err
 				}
 				if su.D != u.D {
-					return Quantity{}, &DimError{Op: "±", Left: u.D, Right: su.D}
+					return Quantity{}, Unit{}, &DimError{Op: "±", Left: u.D, Right: su.D}
 				}
 				sigma = toSI(fromSI(sigma, u.Scale), su.Scale)
 			}
-			return inUnit(v, sigma, u), nil
+			return inUnit(v, sigma, u), u, nil
 		}
 	}
-	return inUnit(v, toSI(sigma, u.Scale), u), nil
+	return inUnit(v, toSI(sigma, u.Scale), u), u, nil
 }
 
 // inUnit is the quantity v (in unit u) with standard uncertainty sigma (SI): an absolute

@@ -49,7 +49,7 @@ channel: GaAs
 ` + "```cleave\ncal = cell_calibration(\"Si\", [entry(\"C-1\"), entry(\"C-2\"), entry(\"C-3\")])\nchk = growth_check(wafer.layers, cal = cal)\nsp = expected_density(wafer.layers, T = 1.5 K)\nsp_grown = expected_density(chk.layers, T = 1.5 K)\n```\n",
 		"masks/M1.md":        "---\nid: M1\nkind: mask\nwidth: 100 um\nlength: 1000 um\ntlm:\n  TLM-A: {width: 100 um, contact_length: 100 um, gaps: [5 um, 10 um, 20 um, 40 um, 80 um]}\n---\n",
 		"pieces/G1-a.md":     "---\nid: G1-a\nkind: piece\nfrom: G1\n---\n",
-		"processes/P1.md":    "---\nid: P1\nkind: process\npieces: [G1-a]\nmasks: [M1]\nsteps:\n  anneal: {kind: anneal, temperature: 440 °C, time: 60 s, gas: forming gas, caution: flammable gas; local rules first}\n  tlm_rt: {kind: tlm, pattern: TLM-A, resistances: [60 Ohm, 110 Ohm, 210 Ohm, 410 Ohm, 810 Ohm], temperature: 21 °C}\n---\n```cleave\ntl = tlm(steps.tlm_rt)\n```\n",
+		"processes/P1.md":    "---\nid: P1\nkind: process\npieces: [G1-a]\nmasks: [M1]\nsteps:\n  litho: {kind: lithography, spin: 4000 rpm, bake: 115 °C}\n  anneal: {kind: anneal, temperature: 440 °C, time: 60 s, gas: forming gas, caution: flammable gas; local rules first}\n  tlm_rt: {kind: tlm, pattern: TLM-A, resistances: [60 Ohm, 110 Ohm, 210 Ohm, 410 Ohm, 810 Ohm], temperature: 21 °C}\n---\n```cleave\ntl = tlm(steps.tlm_rt)\n```\n",
 		"devices/G1-a-D1.md": "---\nid: G1-a-D1\nkind: device\nfrom: G1-a\nmask: M1\nprocess: [P1]\n---\n",
 		"cooldowns/K1.md":    "---\nid: K1\nkind: cooldown\ndevices: [G1-a-D1]\n---\n```cleave\ntl = tlm(process.steps.tlm_rt)\ncc = contact_resistance(1.3 kOhm, 1.0 kOhm, width = 100 um, reference = tl)\n```\n",
 	}
@@ -115,6 +115,13 @@ func TestGrowthAndFabRecordsCompute(t *testing.T) {
 	checkRel(t, "Rc (cooldown)", q("cooldowns/K1.md", "tl.Rc", "Ohm"), 5, 1e-9)
 	// The contact check: (1.3 − 1.0) kOhm / 2 = 150 Ohm, × 100 µm = 15 Ohm mm, 30 × the TLM's.
 	checkRel(t, "contact ratio", q("cooldowns/K1.md", "cc.ratio", "1"), 30, 1e-9)
+
+	// Front-matter values: °C stays absolute, rpm as written.
+	for expr, want := range map[string]string{"steps.litho.spin": "4000.0 rpm", "steps.litho.bake": "115.00 °C", "steps.anneal.temperature -> K": "713.15 K"} {
+		if got := calc.Display(get("processes/P1.md", expr)); got != want {
+			t.Errorf("%s = %q, want %q", expr, got, want)
+		}
+	}
 
 	// The cache follows the calibration wafers: a corrected density makes G1's result stale.
 	p := filepath.Join(root, "wafers", "C-2.md")

@@ -48,7 +48,10 @@ func scalarValue(s string) calc.Value {
 	if t == "" {
 		return calc.String(s)
 	}
-	if q, err := quantity.ParseQuantity(t); err == nil {
+	if q, u, err := quantity.ParseQuantityUnit(t); err == nil {
+		if u.Keep { // 4000 rpm stays in rpm, as the literal does in a calc block
+			return calc.Quantity{Q: q, Unit: &u}
+		}
 		return calc.Q(q)
 	}
 	return calc.String(s)
