@@ -241,13 +241,9 @@ func tlmCall(e *calc.Env, a []calc.Value, ohmMM quantity.Unit) (calc.Value, erro
 		} else if v, ok := stepField(step, "pattern"); ok {
 			maskID := ""
 			if m, ok := stepField(step, "mask"); ok {
-				maskID = strings.TrimSpace(calc.Display(m))
-				if s, ok := m.(calc.String); ok {
-					maskID = strings.TrimSpace(string(s))
-				}
+				maskID = textOf(m)
 			}
-			name := string(v.(calc.String))
-			p, err := tlmPattern(e, strings.TrimSpace(name), maskID)
+			p, err := tlmPattern(e, textOf(v), maskID)
 			if err != nil {
 				return nil, &calc.ArgError{Arg: 0, Err: err}
 			}

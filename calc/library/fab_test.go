@@ -142,3 +142,24 @@ func TestFabFunctions(t *testing.T) {
 		}
 	}
 }
+
+// TestTLMErrors: what tlm says when its inputs are incomplete.
+func TestTLMErrors(t *testing.T) {
+	e := fabEnv()
+	for _, c := range []struct{ expr, msg string }{
+		{"tlm([5 um, 10 um, 20 um], [1 Ohm, 2 Ohm, 3 Ohm])", "contact width is missing"},
+		{"tlm([5 um, 10 um, 20 um])", "resistances are missing"},
+		{`tlm("TLM-B", [1 Ohm, 2 Ohm, 3 Ohm])`, `no TLM pattern "TLM-B"; it has: TLM-A`},
+		{"tlm([5 um, 10 T, 20 um], [1 Ohm, 2 Ohm, 3 Ohm], 1 um)", "gaps item 2"},
+		{"tlm(steps.mesa_etch)", "neither gaps nor a pattern"},
+		{"tlm(3 T)", "list of lengths"},
+	} {
+		if _, err := e.Eval(c.expr); err == nil || !strings.Contains(err.Error(), c.msg) {
+			t.Errorf("%s: %v, want an error with %q", c.expr, err, c.msg)
+		}
+	}
+	// A bare library environment has no mask: a pattern name says so.
+	if _, err := NewEnv().Eval(`tlm("TLM-A", [1 Ohm, 2 Ohm, 3 Ohm])`); err == nil || !strings.Contains(err.Error(), "has no `tlm:` patterns") {
+		t.Errorf("no mask: %v", err)
+	}
+}
