@@ -54,11 +54,18 @@ func (e *Env) eval(n Node) (Value, error) {
 	case *Ident:
 		return e.lookupName(n)
 	case *Unary:
+		if lit, ok := n.X.(*NumberLit); ok && n.Op == "-" {
+			// A negative literal is one number: -20 °C is 253.15 K, not -(293.15 K).
+			return e.evalSignedNumber(lit, -1)
+		}
 		x, err := e.evalQuantity(n.X, "the operand of "+n.Op)
 		if err != nil {
 			return nil, err
 		}
 		if n.Op == "-" {
+			if err := quantity.CheckNegate(x); err != nil {
+				return nil, posErr(n.Pos, err, "%v", err)
+			}
 			return Q(x.Neg()), nil
 		}
 		return Q(x), nil
@@ -126,7 +133,31 @@ func parseFloatAt(text string, p Pos) (float64, error) {
 	return v, nil
 }
 
-func (e *Env) evalNumber(n *NumberLit) (Value, error) {
+func (e *Env) evalNumber(n *NumberLit) (Value, error) { return e.evalSignedNumber(n, 1) }
+
+// evalSignedNumber evaluates sign × the literal n. A literal in °C is an absolute temperature
+// (t + 273.15 K); a literal in a unit the trade keeps (rpm, Torr, Oe, ...) is shown in it.
+func (e *Env) evalSignedNumber(n *NumberLit, sign float64) (Value, error) {
+	v, err := e.literal(n, sign)
+	if err != nil {
+		return nil, err
+	}
+	q := v.(Quantity)
+	if n.Unit == "" {
+		return q, nil
+	}
+	u, _ := parseUnitAt(n.Unit, n.UnitPos) // parsed without error by literal
+	if u.Offset != 0 {
+		q.Q = quantity.Celsius(q.Q.Value(), q.Q.Uncertainty())
+	}
+	if u.Keep {
+		q.Unit = &u
+	}
+	return q, nil
+}
+
+// literal is the value sign × n in SI, before a unit's offset.
+func (e *Env) literal(n *NumberLit, sign float64) (Value, error) {
 	unit := quantity.Unit{Scale: 1}
 	if n.Unit != "" {
 		u, err := parseUnitAt(n.Unit, n.UnitPos)
@@ -139,6 +170,7 @@ func (e *Env) evalNumber(n *NumberLit) (Value, error) {
 	if err != nil {
 		return nil, err
 	}
+	v *= sign
 	if n.Unc == "" {
 		return Q(quantity.New(v*unit.Scale, unit.D)), nil
 	}
@@ -286,16 +318,25 @@ func applyBinary(n *Binary, x, y quantity.Quantity) (Value, error) {
 		} else {
 			r, err = quantity.Sub(x, y)
 		}
+		if errors.Is(err, quantity.ErrAmbiguousTemperature) {
+			return nil, posErr(n.Pos, err, "%v", err)
+		}
 		if err != nil {
 			verb := map[string]string{"+": "add", "-": "subtract"}[n.Op]
 			return nil, posErr(n.Pos, err, "cannot %s %s and %s: the dimensions differ", verb, DimName(x.Dim()), DimName(y.Dim()))
 		}
 		return Q(r), nil
 	case "*":
+		if err := quantity.CheckScaling("*", x, y); err != nil {
+			return nil, posErr(n.Pos, err, "%v", err)
+		}
 		return Q(quantity.Mul(x, y)), nil
 	case "/":
 		if y.Value() == 0 {
 			return nil, posErr(n.Pos, nil, "division by zero")
+		}
+		if err := quantity.CheckScaling("/", x, y); err != nil {
+			return nil, posErr(n.Pos, err, "%v", err)
 		}
 		return Q(quantity.Div(x, y)), nil
 	case "^":
@@ -346,7 +387,12 @@ func convertValue(v Value, u quantity.Unit, n *Convert) (Value, error) {
 		if err := check(v.Q.Dim()); err != nil {
 			return nil, err
 		}
-		return Quantity{Q: v.Q, Unit: &u}, nil
+		// In °C a temperature is absolute from here on, in K thermodynamic (it may be scaled).
+		q, err := v.Q.ExpressedIn(u)
+		if err != nil {
+			return nil, posErr(n.Pos, err, "%v", err)
+		}
+		return Quantity{Q: q, Unit: &u}, nil
 	case Range:
 		if err := check(v.Lo.Dim()); err != nil {
 			return nil, err

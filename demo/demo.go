@@ -27,7 +27,7 @@ type demoStep struct {
 	message string   // commit message
 	paths   []string // scenario files (or folders) this step adds
 	edit    func(dir string) error
-	data    []string // cooldowns whose synthetic data files this step writes
+	data    []string // cooldowns (or wafers) whose synthetic data files this step writes
 	narrate string   // what the demo tells the user about this step
 }
 
@@ -39,7 +39,7 @@ const (
 
 var demoStory = []demoStep{
 	{when: "2024-03-15T17:20:00Z", who: "AK", message: "Grow W24-031 (uniform doping) and W24-032 (delta doping); draw Hall-bar mask HB100",
-		paths: []string{"README.md", "wafers", "masks"},
+		paths: []string{"README.md", "wafers", "masks"}, data: []string{"W24-031"},
 		edit: func(dir string) error {
 			// The scorecards come later, once cooldowns measured the wafers.
 			for _, w := range []string{"W24-031", "W24-032"} {
@@ -49,10 +49,10 @@ var demoStory = []demoStep{
 			}
 			return replaceIn(filepath.Join(dir, "masks", "HB100.md"), maskRight, maskTypo)
 		},
-		narrate: "two wafers and the Hall-bar mask (probe 4 entered at 700 um by mistake)"},
+		narrate: "four Si calibration growths, two wafers with their growth logs (RHEED rates, Al fraction, doping from the cell calibration) and the Hall-bar mask (probe 4 entered at 700 um by mistake)"},
 	{when: "2024-03-26T16:05:00Z", who: "JM", message: "Cleave three pieces and process Hall bars (run P24-07)",
 		paths:   []string{"pieces", "processes", "devices"},
-		narrate: "three pieces, one process run, three devices"},
+		narrate: "three pieces, one structured process run (etch rate, dose, TLM contacts), three devices"},
 	{when: "2024-04-02T21:40:00Z", who: "RS", message: "CD24-001: W24-031-A-HB1 in the dark, with a temperature series",
 		paths: []string{"cooldowns/CD24-001.md"}, data: []string{"CD24-001"},
 		narrate: "first cooldown: Hall and SdH densities, mobility, LK mass, quantum lifetime"},
@@ -248,6 +248,8 @@ var demoResults = []struct {
 	file  string
 	names []string
 }{
+	{"wafers/W24-031.md", []string{"x_Al"}},
+	{"processes/P24-07.md", []string{"rate", "Rc_W", "rho_c"}},
 	{"cooldowns/CD24-001.md", []string{"n_H", "n_SdH", "mu", "m_LK", "tau_q"}},
 	{"cooldowns/CD24-002.md", []string{"n_H", "n_SdH", "mu"}},
 	{"cooldowns/CD24-003.md", []string{"n_H", "n_SdH", "mu"}},

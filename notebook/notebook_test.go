@@ -12,7 +12,7 @@ import (
 	"testing/fstest"
 )
 
-// golden compares got with the file at path, or rewrites it with -update.
+// golden compares got with the file at path, or rewrites it with -update (testutil's flag).
 func golden(t *testing.T, path string, got []byte) {
 	t.Helper()
 	testutil.Golden(t, path, got)

@@ -84,6 +84,8 @@ var goldenCases = []string{
 	"25812.807459 Ohm", "3.874045865e-5 S", "1e18 cm^-3", "100 um^2", "1 Torr", "1 mol", "1 W/K",
 	"0 um", "-Inf Ohm", "NaN", "45 deg", "10 %", "1.054571817e-34 J s", "8.8541878128e-12 F/m",
 	"12.5 +/- 0.2 um", "100 ± 0 Ohm",
+	"115 °C", "-20 degC", "1150 ± 2 °C", "1 T/min", "1 W/cm^2", "1 nm/s", "0.8 ML(GaAs)/s", "1 um/h",
+	"90 mJ/cm^2", "20 sccm", "5 mL", "1 Oe", "3 inch", "5 ppm", "2.5e-6 Ohm cm^2", "4000 rpm", "5 mTorr",
 }
 
 func TestFormatGolden(t *testing.T) {

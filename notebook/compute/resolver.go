@@ -3,6 +3,7 @@ package compute
 import (
 	"errors"
 	"fmt"
+	"strings"
 
 	"cleave/calc"
 	"cleave/calc/physics"
@@ -216,6 +217,19 @@ func (r *resolver) register(env *calc.Env) {
 		Params: []calc.Param{{Name: "density", Default: calc.String("n_SdH|n_H")}, {Name: "mobility", Default: calc.String("mu")}},
 		Call: func(e *calc.Env, args []calc.Value) (calc.Value, error) {
 			return r.scorecard(e, displayName(args[0]), displayName(args[1]))
+		},
+	})
+	env.Register(calc.Func{
+		Name:   "entry",
+		Doc:    "the front matter of the entry with this id (a wafer's with its layers), as a record: calibration wafers for cell_calibration, a mask outside the lineage",
+		Params: []calc.Param{{Name: "id"}},
+		Call: func(_ *calc.Env, args []calc.Value) (calc.Value, error) {
+			id := strings.TrimSpace(displayName(args[0]))
+			en, ok := r.v.entry(id) // recorded: which file holds id, and that file's text
+			if !ok {
+				return nil, &calc.ArgError{Arg: 0, Err: fmt.Errorf("%w: no entry has id %q", calc.ErrArgument, id)}
+			}
+			return entryRecord(en, string(en.Kind)), nil
 		},
 	})
 	env.Register(calc.Func{
