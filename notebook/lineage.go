@@ -9,6 +9,10 @@ import (
 // an entry of a kind the field does not allow, is left out of the graph (and
 // reported by Validate).
 func (nb *Notebook) index() {
+	nb.byPath = make(map[string]*File, len(nb.Files))
+	for _, f := range nb.Files {
+		nb.byPath[f.Path] = f
+	}
 	nb.byID = make(map[string]*Entry, len(nb.Entries))
 	nb.dups = map[string][]*Entry{}
 	for _, e := range nb.Entries {

@@ -29,6 +29,7 @@ type Notebook struct {
 	// [Notebook.Validate] adds the problems between entries.
 	Problems []Problem
 	byID     map[string]*Entry // first entry (in path order) for each id
+	byPath   map[string]*File
 	dups     map[string][]*Entry
 	parents  map[*Entry][]*Entry // existing link targets, in link order, without repeats
 	children map[*Entry][]*Entry // reverse of parents, sorted for display
@@ -365,7 +366,13 @@ func (nb *Notebook) Entry(id string) (*Entry, bool) {
 
 // File returns the file at a slash path.
 func (nb *Notebook) File(p string) (*File, bool) {
+	if f, ok := nb.byPath[p]; ok {
+		return f, true
+	}
 	p = path.Clean(p)
+	if f, ok := nb.byPath[p]; ok || nb.byPath != nil {
+		return f, ok
+	}
 	i := sort.Search(len(nb.Files), func(i int) bool { return nb.Files[i].Path >= p })
 	if i < len(nb.Files) && nb.Files[i].Path == p {
 		return nb.Files[i], true
