@@ -232,6 +232,7 @@ var kindTable = []KindInfo{
 		{Name: "gate_history", Type: TypeTextList, Doc: "gate biases in order"},
 		{Name: "data", Type: TypeList, Doc: "data files", Fields: []FieldSpec{
 			text("file", "path relative to the entry"), text("note", "what it is"),
+			text("layout", "how the file is written: the name of a layout in the notebook's layouts/ folder"),
 			q("temperature", dimTemp, "20 mK", "temperature"), q("gate", dimVoltage, "-0.2 V", "gate voltage")}},
 	}},
 }

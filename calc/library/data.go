@@ -1,8 +1,10 @@
 package library
 
 import (
+	"bytes"
 	"fmt"
 	"io"
+	"path"
 	"sort"
 	"strings"
 
@@ -17,19 +19,9 @@ import (
 // calc/transport.
 func dataFuncs() []calc.Func {
 	return []calc.Func{
-		{Name: "data", Doc: "a data file, by a path relative to the entry's folder inside the notebook",
-			Params: []calc.Param{{Name: "path"}},
-			Call: func(e *calc.Env, args []calc.Value) (calc.Value, error) {
-				s, ok := args[0].(calc.String)
-				if !ok {
-					return nil, &calc.ArgError{Arg: 0, Err: fmt.Errorf("%w: needs a string path, found a %s", calc.ErrType, args[0].Type())}
-				}
-				v, err := e.OpenData(string(s))
-				if err != nil {
-					return nil, &calc.ArgError{Arg: 0, Err: err}
-				}
-				return v, nil
-			}},
+		{Name: "data", Doc: "a data file, by a path relative to the entry's folder inside the notebook; layout= names a file layout of the notebook's layouts/ folder (default: the layout the cooldown's data entry names, else sniffed); offset= is the true field when the magnet reads zero, added to the field column (default: the cooldown's magnet.offset)",
+			Params: []calc.Param{{Name: "path"}, {Name: "layout", Default: calc.String("")}, {Name: "offset", Default: calc.String("none")}},
+			Call:   dataCall},
 		{Name: "zero_field",
 			Doc:    "a column's value at B = 0, by a local low-order fit over the points nearest zero field",
 			Params: []calc.Param{{Name: "d"}, {Name: "column", Default: calc.String("Rxx")}},
@@ -89,6 +81,94 @@ func dataFuncs() []calc.Func {
 	}
 }
 
+// dataCall reads a data file: with the layout the call or the cooldown's data entry
+// names, else sniffed by the Env's data loader.
+func dataCall(e *calc.Env, args []calc.Value) (calc.Value, error) {
+	s, ok := args[0].(calc.String)
+	if !ok {
+		return nil, &calc.ArgError{Arg: 0, Err: fmt.Errorf("%w: needs a string path, found a %s", calc.ErrType, args[0].Type())}
+	}
+	ls, ok := args[1].(calc.String)
+	if !ok {
+		return nil, &calc.ArgError{Arg: 1, Err: fmt.Errorf("%w: layout= needs the name of a layout in quotes, found a %s", calc.ErrType, args[1].Type())}
+	}
+	off, hasOff, err := optQ(args, 2, dField, "a field offset such as 2 mT")
+	if err != nil {
+		return nil, err
+	}
+	lname, larg := strings.TrimSpace(string(ls)), 1
+	cd := entryRecord(e, "cooldown")
+	if !hasOff {
+		off, _ = fieldQuantity(cd, dField, "magnet", "offset")
+	}
+	if lname == "" {
+		lname, larg = cooldownLayout(cd, string(s)), 0
+	}
+	if lname == "" {
+		v, err := e.OpenData(string(s))
+		if err != nil {
+			return nil, &calc.ArgError{Arg: 0, Err: err}
+		}
+		if d, ok := v.(*DataSet); ok && off.Value() != 0 {
+			return &DataSet{D: d.D.WithFieldOffset(off.Value())}, nil
+		}
+		return v, nil
+	}
+	l, err := loadLayout(e, lname)
+	if err != nil {
+		return nil, &calc.ArgError{Arg: larg, Err: err}
+	}
+	if l.UsesExcitation() {
+		if I, ok := fieldQuantity(cd, dCurrent, "excitation", "current"); ok {
+			l.Excitation = I.Value()
+		}
+	}
+	name, b, err := e.ReadDataFile(string(s))
+	if err != nil {
+		return nil, &calc.ArgError{Arg: 0, Err: err}
+	}
+	ds, err := transport.ReadLayout(name, bytes.NewReader(b), l)
+	if err != nil {
+		return nil, &calc.ArgError{Arg: 0, Err: err}
+	}
+	return &DataSet{D: ds.WithFieldOffset(off.Value())}, nil
+}
+
+// cooldownLayout is the layout the cooldown's data entry for path names ("" when none):
+// `data: [{file: PATH, layout: NAME}]`.
+func cooldownLayout(cd *calc.Record, p string) string {
+	list, ok := field(cd, "data").(calc.List)
+	if !ok {
+		return ""
+	}
+	want := path.Clean(p)
+	for _, it := range list {
+		r, ok := it.(*calc.Record)
+		if !ok {
+			continue
+		}
+		if f := fieldText(r, "file"); f != "" && path.Clean(f) == want {
+			return fieldText(r, "layout")
+		}
+	}
+	return ""
+}
+
+// LayoutPath is where a notebook keeps the layout of a name.
+func LayoutPath(name string) string { return "layouts/" + name + ".yaml" }
+
+// loadLayout reads layouts/NAME.yaml through the Env's file system (a dependency of the line).
+func loadLayout(e *calc.Env, name string) (*transport.Layout, error) {
+	if !transport.ValidLayoutName(name) {
+		return nil, fmt.Errorf("%w: layout %q: expected the name of a file in layouts/ without .yaml (letters, digits, '.', '_', '-')", calc.ErrArgument, name)
+	}
+	p, b, err := e.ReadNotebookFile(LayoutPath(name), "layout")
+	if err != nil {
+		return nil, err
+	}
+	return transport.ParseLayout(p, b)
+}
+
 // ReadData is the data loader of the library (see calc.WithDataLoader): it reads a CSV or
 // TSV measurement file with transport.Read and gives a *DataSet. Its errors name the file
 // and the position in it.
@@ -111,17 +191,29 @@ func (*DataSet) Type() string { return "data set" }
 func (d *DataSet) Display() string {
 	var cols []string
 	for _, c := range d.D.Columns {
-		if c.Unit != "" {
-			cols = append(cols, c.Name+" ("+c.Unit+")")
-		} else {
-			cols = append(cols, c.Name)
+		s := c.Name
+		switch {
+		case c.IsText():
+			s += " (text)"
+		case c.Unit != "" && c.Stem == "":
+			s += " (" + c.Unit + ")"
 		}
+		if c.Role != "" && !strings.EqualFold(c.Role, c.Name) && !strings.EqualFold(c.Role, c.Stem) {
+			s += " as " + c.Role
+		}
+		cols = append(cols, s)
 	}
 	h := d.D.Hash
 	if len(h) > 15 {
 		h = h[:15]
 	}
 	s := fmt.Sprintf("%s: %d rows; %s", d.D.Name, d.D.Len(), strings.Join(cols, ", "))
+	if d.D.Layout != "" {
+		s += "; layout " + d.D.Layout
+	}
+	if d.D.FieldOffset != 0 {
+		s += "; field offset " + calc.Display(calc.Q(quantity.New(d.D.FieldOffset, dField))) + " added"
+	}
 	if h != "" {
 		s += "; " + h
 	}
@@ -136,6 +228,12 @@ func (d *DataSet) Field(name string) (calc.Value, bool) {
 	if name == "hash" {
 		return calc.String(d.D.Hash), true
 	}
+	if name == "offset" {
+		return calc.Q(quantity.New(d.D.FieldOffset, dField)), true
+	}
+	if name == "layout" {
+		return calc.String(d.D.Layout), true
+	}
 	if v, ok := d.D.MetaValue(name); ok {
 		if q, err := quantity.ParseQuantity(strings.TrimSpace(v)); err == nil {
 			return calc.Q(q), true
@@ -147,7 +245,7 @@ func (d *DataSet) Field(name string) (calc.Value, bool) {
 
 // FieldNames implements Fielder.
 func (d *DataSet) FieldNames() []string {
-	names := []string{"rows", "hash"}
+	names := []string{"rows", "hash", "offset", "layout"}
 	for _, kv := range d.D.Meta {
 		if kv.Key != "" {
 			names = append(names, kv.Key)
@@ -185,7 +283,7 @@ func symmetrizeCall(a []calc.Value, sign int) (calc.Value, error) {
 	if err != nil {
 		return nil, err
 	}
-	out := &transport.Dataset{Name: d.Name, Hash: d.Hash, Meta: d.Meta}
+	out := &transport.Dataset{Name: d.Name, Hash: d.Hash, Meta: d.Meta, Layout: d.Layout, FieldOffset: d.FieldOffset}
 	var grid []float64
 	for _, j := range jobs {
 		yc, err := d.Col(j.col)

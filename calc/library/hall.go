@@ -127,6 +127,7 @@ func hallValue(h *transport.HallResult) *calc.AnalysisResult {
 		"intercept", est(h.Intercept, dResistance),
 		"points", num(float64(len(h.B))),
 		"range", calc.Range{Lo: quantity.New(h.BMin, dField), Hi: quantity.New(h.BMax, dField)},
+		"offset", calc.Q(quantity.New(h.FieldOffset, dField)),
 	), h.Warnings)
 	r.Detail = h
 	return r
@@ -142,6 +143,7 @@ func sdhValue(s *transport.SdHResult) *calc.AnalysisResult {
 		"gv", num(s.GV),
 		"points", num(float64(s.Points)),
 		"range", calc.Range{Lo: quantity.New(s.BMin, dField), Hi: quantity.New(s.BMax, dField)},
+		"offset", calc.Q(quantity.New(s.FieldOffset, dField)),
 	), s.Warnings)
 	r.Detail = s
 	return r

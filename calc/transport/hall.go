@@ -15,11 +15,13 @@ type HallResult struct {
 	Intercept Estimate // R_xy at B = 0 from the linear fit, Ohm
 	Fit       *PolyFit // the linear fit
 
-	XCol, YCol string    // columns used
-	BMin, BMax float64   // |B| range, T
-	DataHash   string    // Dataset.Hash of the input
-	B, R       []float64 // the points used (SI)
-	Warnings   []Warning
+	XCol, YCol string  // columns used
+	BMin, BMax float64 // |B| range, T
+	DataHash   string  // Dataset.Hash of the input
+	// FieldOffset is the field offset the input had applied (Dataset.FieldOffset), T.
+	FieldOffset float64
+	B, R        []float64 // the points used (SI)
+	Warnings    []Warning
 }
 
 // MinHallPoints is the fewest points HallDensity accepts in its range.
@@ -76,6 +78,7 @@ func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Opti
 	res := &HallResult{
 		Slope: lin.CoefEstimate(1), Intercept: lin.CoefEstimate(0), Fit: lin,
 		XCol: xc.Name, YCol: yc.Name, BMin: bmin, BMax: bmax, DataHash: d.Hash, B: B, R: R,
+		FieldOffset: d.FieldOffset,
 	}
 	s := res.Slope.Value
 	if s == 0 {

@@ -3,6 +3,8 @@ package transport
 import (
 	"fmt"
 	"math"
+	"slices"
+	"strconv"
 	"strings"
 
 	"cleave/calc/quantity"
@@ -90,9 +92,22 @@ func column(d *Dataset, name string, wantDim quantity.Dim) (*Column, error) {
 	if err != nil {
 		return nil, err
 	}
-	if c.Unit != "" && c.Dim != wantDim {
-		return nil, &ParseError{File: d.Name, Line: max(d.HeaderLine, 1), Col: 1,
-			Msg: fmt.Sprintf("column %q is in %s, %s; expected %s", c.Name, c.Unit, dimKind(c.Dim), dimName(wantDim)), Err: ErrUnitDim}
+	at := func(format string, a ...any) error {
+		return &ParseError{File: d.Name, Line: max(d.HeaderLine, 1), Col: max(c.HeaderCol, 1), Msg: fmt.Sprintf(format, a...), Err: ErrUnitDim}
+	}
+	if c.IsText() {
+		return nil, at("column %q holds text (%s), not %s", c.Name, textSample(c.Text), dimName(wantDim))
+	}
+	if c.Dim != wantDim && (c.Unit != "" || c.Dim != (quantity.Dim{})) {
+		what := fmt.Sprintf("column %q is %s", c.Name, dimName(c.Dim))
+		if c.Unit != "" {
+			what = fmt.Sprintf("column %q is in %s, %s", c.Name, c.Unit, dimKind(c.Dim))
+		}
+		hint := ""
+		if c.Dim == DimVoltage && wantDim == DimResistance {
+			hint = " (volts are not ohms: a layout's `derive:` turns it into R = V/I)"
+		}
+		return nil, at("%s; expected %s%s", what, dimName(wantDim), hint)
 	}
 	return c, nil
 }
@@ -104,6 +119,9 @@ func column(d *Dataset, name string, wantDim quantity.Dim) (*Column, error) {
 // coupling or resistive contacts).
 func outOfPhase(d *Dataset, xc, yc *Column, lo, hi, frac float64) *Warning {
 	cands := []string{yc.Name + "_Y", yc.Name + "Y"}
+	if yc.Role != "" {
+		cands = append(cands, yc.Role+"_Y")
+	}
 	if n := yc.Name; len(n) > 2 && strings.EqualFold(n[len(n)-2:], "_X") {
 		cands = append(cands, n[:len(n)-1]+"Y")
 	}
@@ -138,4 +156,22 @@ func outOfPhase(d *Dataset, xc, yc *Column, lo, hi, frac float64) *Warning {
 	}
 	return &Warning{WarnOutOfPhase, fmt.Sprintf("out-of-phase column %q has RMS %.3g of the in-phase %q (tolerance %.2g; common practice): capacitive coupling or resistive contacts?",
 		ycol.Name, math.Sqrt(sy/sx), yc.Name, frac)}
+}
+
+// textSample shows the first distinct labels of a text column.
+func textSample(t []string) string {
+	var seen, out []string
+	for _, s := range t {
+		if s != "" && !slices.Contains(seen, s) {
+			seen = append(seen, s)
+			out = append(out, strconv.Quote(s))
+			if len(out) == 3 {
+				break
+			}
+		}
+	}
+	if len(out) == 0 {
+		return "empty labels"
+	}
+	return strings.Join(out, ", ")
 }

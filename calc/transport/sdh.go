@@ -42,6 +42,8 @@ type SdHResult struct {
 	DataHash   string
 	Points     int
 	Warnings   []Warning
+	// FieldOffset is the field offset the input had applied (Dataset.FieldOffset), T.
+	FieldOffset float64
 }
 
 // SdHDensity finds the SdH frequency of R_xx (column "Rxx" against "B" unless
@@ -114,7 +116,7 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 		return nil, fmt.Errorf("%s: SdH analysis of %s over %g T ≤ |B| ≤ %g T: %d points; need at least %d%s: %w",
 			d.Name, yc.Name, bmin, bmax, N, minPoints, fieldSpan(xc, bmin, bmax), ErrTooFewPoints)
 	}
-	res := &SdHResult{GS: gs, GV: o.gv, XCol: xc.Name, YCol: yc.Name, BMin: bmin, BMax: bmax, DataHash: d.Hash, Points: N}
+	res := &SdHResult{GS: gs, GV: o.gv, XCol: xc.Name, YCol: yc.Name, BMin: bmin, BMax: bmax, DataHash: d.Hash, Points: N, FieldOffset: d.FieldOffset}
 	U := u1 - u0
 
 	// 1: the points, or their averages in bins of 1/B. The bins start coarse

@@ -1,0 +1,156 @@
+package library
+
+import (
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"testing/fstest"
+
+	"cleave/calc"
+	"cleave/calc/quantity"
+	"cleave/internal/testutil"
+)
+
+// The instrument fixtures of calc/transport (testdata/instruments there): files as lock-in
+// amplifiers and measurement scripts write them, generated from the Drude and low-field
+// Shubnikov–de Haas model ([src:AFS1982], [src:CSF1989]) with n = 2.5e11 cm^-2,
+// μ = 1e6 cm^2/(V s), 5 squares between the R_xx probes and a 10 nA excitation.
+const instrumentDir = "../transport/testdata/instruments"
+
+// stubResolver answers names with fixed records, as the notebook does for an entry's lineage.
+type stubResolver map[string]calc.Value
+
+func (s stubResolver) Lookup(name string) (calc.Value, bool) { v, ok := s[name]; return v, ok }
+
+// rec builds a record from name, value pairs.
+func rec(path string, kv ...any) *calc.Record { return calc.NewRecord(path, kv...) }
+
+func qv(s string) calc.Value {
+	q, err := quantity.ParseQuantity(s)
+	if err != nil {
+		panic(err)
+	}
+	return calc.Q(q)
+}
+
+// instrumentFS is a notebook folder with the fixtures under data/ and their layouts under
+// layouts/.
+func instrumentFS(t *testing.T) fstest.MapFS {
+	t.Helper()
+	fsys := fstest.MapFS{}
+	for _, dir := range []string{"", "layouts"} {
+		es, err := os.ReadDir(filepath.Join(instrumentDir, dir))
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, e := range es {
+			if e.IsDir() {
+				continue
+			}
+			b, err := os.ReadFile(filepath.Join(instrumentDir, dir, e.Name()))
+			if err != nil {
+				t.Fatal(err)
+			}
+			dst := "data/" + e.Name()
+			if dir == "layouts" {
+				dst = "layouts/" + e.Name()
+			}
+			fsys[dst] = &fstest.MapFile{Data: b}
+		}
+	}
+	return fsys
+}
+
+// TestDataLayouts reads the fixtures through their layouts, named in the call or by the
+// cooldown's data entry, and recovers the truth through the language.
+func TestDataLayouts(t *testing.T) {
+	cooldown := rec("cooldown",
+		"data", calc.List{
+			rec("", "file", calc.String("data/lockin_noI.tsv"), "layout", calc.String("lockin-excitation")),
+			rec("", "file", calc.String("data/bare_mT.csv"), "layout", calc.String("bare-mT")),
+		},
+		"excitation", rec("", "current", qv("10 nA")))
+	e := NewEnv(calc.WithFS(instrumentFS(t), "."), calc.WithResolver(stubResolver{"cooldown": cooldown}))
+	for _, tc := range []struct{ load, what string }{
+		{`data("data/lockin_pm1T.tsv", layout = "lockin-tsv")`, "a current column"},
+		{`data("data/lockin_noI.tsv")`, "the cooldown's layout and excitation current"},
+		{`data("data/bare_mT.csv")`, "the cooldown's layout, units from the layout"},
+		{`data("data/preamp_noheader.dat", layout = "preamp-noheader")`, "no header, a preamplifier gain"},
+		{`data("data/decimal_comma.txt", layout = "decimal-comma")`, "decimal commas"},
+		{`data("data/sweep_mT_kOhm.csv")`, "sniffed"},
+	} {
+		t.Run(tc.what, func(t *testing.T) {
+			lines := []string{
+				"d = " + tc.load,
+				`hall = hall_density(d, 0.05 T .. 0.4 T)`,
+				`sdh = sdh_density(d, 0.4 T .. 1 T)`,
+				`mu = mobility(sheet_resistance(zero_field(d, "Rxx"), 5), hall.n)`,
+			}
+			for i, l := range lines {
+				if r := e.EvalLine(l, i+1); r.Err != nil {
+					t.Fatalf("%s: %v", l, r.Err)
+				}
+			}
+			testutil.CheckRel(t, "hall.n", value(t, e, "hall.n").Q.Value(), 2.5e15, 3e-3)
+			testutil.CheckRel(t, "sdh.n", value(t, e, "sdh.n").Q.Value(), 2.5e15, 0.01)
+			testutil.CheckRel(t, "mu", value(t, e, "mu").Q.Value(), 100, 5e-3)
+		})
+	}
+	v, err := e.Eval(`data("data/lockin_pm1T.tsv", layout = "lockin-tsv")`)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := "data/lockin_pm1T.tsv: 1001 rows; field_T as B, X1_V, Y1_V, X2_V, Y2_V, I_nA, Rxx (Ohm), Rxx_Y (Ohm), Rxy (Ohm), Rxy_Y (Ohm); layout lockin-tsv; sha256:"
+	if got := calc.Display(v); !strings.HasPrefix(got, want) {
+		t.Errorf("display\n got %s\nwant %s…", got, want)
+	}
+}
+
+// TestDataLayoutErrors: what a user sees when a layout is missing, misnamed or needs what the
+// cooldown does not record.
+func TestDataLayoutErrors(t *testing.T) {
+	e := NewEnv(calc.WithFS(instrumentFS(t), "."))
+	for _, tc := range []struct{ line, want string }{
+		{`data("data/lockin_pm1T.tsv", layout = "nope")`, `1:30: data: layout layouts/nope.yaml does not exist`},
+		{`data("data/lockin_pm1T.tsv", layout = "../x")`, `1:30: data: bad argument: layout "../x": expected the name of a file in layouts/ without .yaml (letters, digits, '.', '_', '-')`},
+		{`data("data/lockin_noI.tsv", layout = "lockin-excitation")`, "1:6: data: layouts/lockin-excitation.yaml:8:3: derive: Rxx: current: excitation needs the cooldown's excitation current (record `excitation: {current: 10 nA}` in the cooldown)"},
+		{`hall_density(data("data/lockin_pm1T.tsv"), 0 T .. 1 T, y = "X2_V")`, "1:1: hall_density: data/lockin_pm1T.tsv:5:26: column \"X2_V\" is in V, a voltage; expected a resistance (Ohm) (volts are not ohms: a layout's `derive:` turns it into R = V/I)"},
+		{`data("data/lockin_pm1T.tsv", offset = 2 K)`, "expected a field offset such as 2 mT"},
+	} {
+		r := e.EvalLine(tc.line, 1)
+		if r.Err == nil || !strings.Contains(r.Err.Error(), tc.want) {
+			t.Errorf("%s:\n got %v\nwant %s", tc.line, r.Err, tc.want)
+		}
+	}
+}
+
+// TestDataOffset: the cooldown's magnet offset (the true field when the magnet reads zero)
+// is added to the field column, offset= overrides it, and results record it. The fixture
+// was written by a magnet with a 2 mT remanent field.
+func TestDataOffset(t *testing.T) {
+	cooldown := rec("cooldown", "magnet", rec("", "offset", qv("2 mT")))
+	e := NewEnv(calc.WithFS(instrumentFS(t), "."), calc.WithResolver(stubResolver{"cooldown": cooldown}))
+	lines := []string{
+		`d = data("data/offset_pm1T.csv")`,
+		`raw = data("data/offset_pm1T.csv", offset = 0 T)`,
+		`s = symmetrize(d)`,
+		`hall = hall_density(s, 0.05 T .. 0.4 T)`,
+	}
+	for i, l := range lines {
+		if r := e.EvalLine(l, i+1); r.Err != nil {
+			t.Fatalf("%s: %v", l, r.Err)
+		}
+	}
+	testutil.CheckRel(t, "d.offset", value(t, e, "d.offset").Q.Value(), 2e-3, 1e-12)
+	testutil.CheckWithin(t, "raw.offset", value(t, e, "raw.offset").Q.Value(), 0, 0, 0)
+	testutil.CheckRel(t, "hall.offset", value(t, e, "hall.offset").Q.Value(), 2e-3, 1e-12)
+	// With the offset applied the ±B branches line up: no odd part in R_xx worth a warning.
+	if v, _ := e.Eval("s"); strings.Contains(calc.Display(v), "warning") {
+		t.Errorf("symmetrised with the offset: %s", calc.Display(v))
+	}
+	v, _ := e.Eval("d")
+	if got := calc.Display(v); !strings.Contains(got, "; field offset 2.0000 mT added") {
+		t.Errorf("display %s", got)
+	}
+}
