@@ -5,6 +5,7 @@ import (
 
 	"cleave/calc"
 	"cleave/calc/quantity"
+	"cleave/calc/transport"
 )
 
 // This file reads what the notebook records around a calc block, through the Env's
@@ -58,4 +59,72 @@ func fieldQuantity(r *calc.Record, d quantity.Dim, path ...string) (quantity.Qua
 		return quantity.Quantity{}, false
 	}
 	return v.Q, true
+}
+
+// ParsePair reads one wiring entry: "1 -> 5" (current from 1 to 5) or "3 - 7" (the voltage
+// V3 − V7, the lock-in's A and B inputs). The separators "->", "→", " - ", "-", "–" and
+// " to " are accepted; names are trimmed.
+func ParsePair(s string) (a, b string, ok bool) {
+	s = strings.TrimSpace(s)
+	for _, sep := range []string{"->", "→", " - ", " – ", " to ", "–", "-", ","} {
+		if i := strings.Index(s, sep); i > 0 {
+			a, b = strings.TrimSpace(s[:i]), strings.TrimSpace(s[i+len(sep):])
+			if a != "" && b != "" && !strings.ContainsAny(b, "→>") {
+				return a, b, true
+			}
+		}
+	}
+	return "", "", false
+}
+
+// hallOptions are the sign options of a Hall fit of column ycol: the carrier type the wafer
+// records, and the orientation of the measured column relative to ρ_xy from the cooldown's
+// stated convention or from its wiring read against the geometry (see README, "Sign
+// conventions"). Without a notebook there are none (the default convention).
+func hallOptions(e *calc.Env, ycol string) []transport.Option {
+	var opts []transport.Option
+	w := entryRecord(e, "wafer")
+	if c := fieldText(w, "carrier"); c == "electrons" || c == "holes" {
+		from := "the wafer"
+		if id := fieldText(w, "id"); id != "" {
+			from = "wafer " + id
+		}
+		opts = append(opts, transport.WithCarrier(c, from))
+	}
+	cd := entryRecord(e, "cooldown")
+	if cd == nil {
+		return opts
+	}
+	switch fieldText(cd, "convention", "electrons") {
+	case "negative":
+		return append(opts, transport.WithOrientation(1, "the cooldown's convention (electrons: negative)"))
+	case "positive":
+		return append(opts, transport.WithOrientation(-1, "the cooldown's convention (electrons: positive)"))
+	}
+	field, fdesc := 1, "B up (out of the grown surface)"
+	if fieldText(cd, "convention", "field") == "down" {
+		field, fdesc = -1, "B down (into the grown surface, convention: {field: down})"
+	}
+	src, drn, ok1 := ParsePair(fieldText(cd, "wiring", "current"))
+	pair := fieldText(cd, "wiring", ycol)
+	if pair == "" {
+		pair = fieldText(cd, "wiring", "Rxy")
+	}
+	plus, minus, ok2 := ParsePair(pair)
+	if !ok1 || !ok2 {
+		return opts
+	}
+	g, err := geometryOf(e)
+	if err != nil {
+		return opts
+	}
+	hb, err := g.hallBar()
+	if err != nil {
+		return opts
+	}
+	o, desc, err := hb.HallOrientation(src, drn, plus, minus)
+	if err != nil {
+		return opts
+	}
+	return append(opts, transport.WithOrientation(o*field, "the wiring ("+desc+", "+fdesc+")"))
 }

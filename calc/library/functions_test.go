@@ -174,16 +174,16 @@ func TestAll(t *testing.T) {
 	}
 	sort.Strings(names)
 	want := []string{
-		"abs", "antisymmetrize", "bohr_radius", "check_sweep", "compare_densities", "cos",
+		"abs", "antisymmetrize", "bohr_radius", "check_sweep", "compare_densities", "corbino_conductance", "corbino_sigma", "cos",
 		"cyclotron_energy", "cyclotron_frequency", "data", "density_from_slope", "density_of_states",
 		"dingle_factor", "dingle_temperature", "dirac_fermi_energy", "dirac_landau_level",
 		"exp", "expected_density", "fermi_energy", "fermi_velocity", "fermi_wavevector",
-		"field_at_filling", "filling_factor", "gate_capacitance", "hall_density", "hall_resistance",
+		"field_at_filling", "filling_factor", "gate_capacitance", "hall_density", "hall_pairs", "hall_resistance",
 		"landau_fan", "landau_level", "lk_mass", "ln", "log10", "magnetic_length", "material",
 		"max", "mean", "mean_free_path", "min", "mobility", "mobility_power_law", "plateaus",
 		"quantum_lifetime", "quantum_mobility", "sdh_density", "sdh_frequency", "sheet_resistance",
-		"sin", "sqrt", "symmetrize", "tanh", "thermal_damping", "transport_time",
-		"vdp_hall_density", "vdp_sheet_resistance", "zeeman_energy", "zero_field",
+		"sin", "sqrt", "squares", "symmetrize", "tanh", "thermal_damping", "transport_time",
+		"vdp_contacts", "vdp_hall_density", "vdp_sheet_resistance", "zeeman_energy", "zero_field",
 	}
 	if strings.Join(names, " ") != strings.Join(want, " ") {
 		t.Errorf("All() has\n%v\nwant\n%v", names, want)

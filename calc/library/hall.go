@@ -19,16 +19,16 @@ func hallFuncs() []calc.Func {
 	type q = quantity.Quantity
 	return []calc.Func{
 		{Name: "hall_density",
-			Doc:    "Hall density from a linear fit of R_xy against B over a |B| range: n = 1/(e |slope|); the sign of the slope says electrons (negative, with B along +z) or holes",
+			Doc:    "Hall density from a linear fit of R_xy against B over a |B| range: n = 1/(e |slope|); the carriers are the wafer's, checked against the slope's sign read with the cooldown's wiring or convention",
 			Params: []calc.Param{{Name: "d"}, {Name: "range"}, {Name: "x", Default: calc.String("B")}, {Name: "y", Default: calc.String("Rxy")}},
-			Call: func(_ *calc.Env, a []calc.Value) (calc.Value, error) {
+			Call: func(e *calc.Env, a []calc.Value) (calc.Value, error) {
 				d, lo, hi, err := dataAndRange(a)
 				if err != nil {
 					return nil, err
 				}
 				x, _ := strArg(a, 2)
 				y, _ := strArg(a, 3)
-				h, err := transport.HallDensity(d, x, y, lo, hi)
+				h, err := transport.HallDensity(d, x, y, lo, hi, hallOptions(e, y)...)
 				if err != nil {
 					return nil, err
 				}
@@ -128,6 +128,8 @@ func hallValue(h *transport.HallResult) *calc.AnalysisResult {
 		"points", num(float64(len(h.B))),
 		"range", calc.Range{Lo: quantity.New(h.BMin, dField), Hi: quantity.New(h.BMax, dField)},
 		"offset", calc.Q(quantity.New(h.FieldOffset, dField)),
+		"measured_carriers", calc.String(h.MeasuredCarriers),
+		"convention", calc.String(h.Convention),
 	), h.Warnings)
 	r.Detail = h
 	return r

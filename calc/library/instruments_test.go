@@ -9,6 +9,7 @@ import (
 
 	"cleave/calc"
 	"cleave/calc/quantity"
+	"cleave/calc/transport"
 	"cleave/internal/testutil"
 )
 
@@ -152,5 +153,86 @@ func TestDataOffset(t *testing.T) {
 	v, _ := e.Eval("d")
 	if got := calc.Display(v); !strings.Contains(got, "; field offset 2.0000 mT added") {
 		t.Errorf("display %s", got)
+	}
+}
+
+// hallBarRecord is the geometry record of a six-probe bar as the notebook gives it.
+func hallBarRecord() *calc.Record {
+	pr := func(name, pos, side string) *calc.Record {
+		return rec("", "name", calc.String(name), "position", qv(pos), "arm_width", qv("10 um"), "side", calc.String(side))
+	}
+	return rec("geometry", "width", qv("100 um"),
+		"probes", calc.List{pr("2", "250 um", "top"), pr("3", "500 um", "top"), pr("4", "750 um", "top"),
+			pr("8", "250 um", "bottom"), pr("7", "500 um", "bottom"), pr("6", "750 um", "bottom")},
+		"contacts", rec("", "source", calc.String("1"), "drain", calc.String("5")))
+}
+
+// TestHallSignConventions: the carriers are the wafer's; the slope's sign is read with the
+// cooldown's wiring against the mask (or its stated convention), and a disagreement warns.
+// The synthetic data are ρ_xy itself (electrons: negative slope, [src:IHN2010]); with the
+// current 1 → 5 from the source end, R_xy = V7 − V3 (7 on the bottom side) is +ρ_xy and
+// V3 − V7 is −ρ_xy (physics.TestHallOrientation works the sign out by hand).
+func TestHallSignConventions(t *testing.T) {
+	p := fxSweep()
+	fsys := fstest.MapFS{"data/pm.csv": &fstest.MapFile{Data: sweepFile(t, p)}}
+	wafer := rec("wafer", "id", calc.String("W9"), "carrier", calc.String("electrons"))
+	for _, tc := range []struct {
+		name      string
+		cooldown  *calc.Record
+		warn      bool
+		measured  string
+		basisPart string
+	}{
+		{"wired as rho_xy", rec("cooldown", "wiring", rec("", "current", calc.String("1 -> 5"), "Rxy", calc.String("7 - 3"))), false, "electrons", "R_xy = V7 − V3"},
+		{"wired the other way", rec("cooldown", "wiring", rec("", "current", calc.String("1 -> 5"), "Rxy", calc.String("3 - 7"))), true, "holes", "R_xy = V3 − V7"},
+		{"current reversed too", rec("cooldown", "wiring", rec("", "current", calc.String("5 -> 1"), "Rxy", calc.String("3 - 7"))), false, "electrons", "from the drain end"},
+		{"field down", rec("cooldown", "wiring", rec("", "current", calc.String("1 -> 5"), "Rxy", calc.String("7 - 3")),
+			"convention", rec("", "field", calc.String("down"))), true, "holes", "B down"},
+		{"stated convention wins", rec("cooldown", "wiring", rec("", "current", calc.String("1 -> 5"), "Rxy", calc.String("3 - 7")),
+			"convention", rec("", "electrons", calc.String("negative"))), false, "electrons", "the cooldown's convention"},
+		{"no wiring: default", rec("cooldown"), false, "electrons", "default convention"},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			e := NewEnv(calc.WithFS(fsys, "."), calc.WithResolver(stubResolver{"cooldown": tc.cooldown, "wafer": wafer, "geometry": hallBarRecord()}))
+			if r := e.EvalLine(`hall = hall_density(data("data/pm.csv"), 0.05 T .. 0.4 T)`, 1); r.Err != nil {
+				t.Fatal(r.Err)
+			}
+			v, _ := e.Eval("hall")
+			if got := strings.Contains(calc.Display(v), "records electrons"); got != tc.warn {
+				t.Errorf("warning %v, want %v: %s", got, tc.warn, calc.Display(v))
+			}
+			if c, _ := e.Eval("hall.carriers"); calc.Display(c) != `"electrons"` {
+				t.Errorf("carriers %s, want the wafer's", calc.Display(c))
+			}
+			if m, _ := e.Eval("hall.measured_carriers"); calc.Display(m) != `"`+tc.measured+`"` {
+				t.Errorf("measured carriers %s, want %s", calc.Display(m), tc.measured)
+			}
+			if b, _ := e.Eval("hall.convention"); !strings.Contains(calc.Display(b), tc.basisPart) {
+				t.Errorf("convention %s, want it to mention %q", calc.Display(b), tc.basisPart)
+			}
+		})
+	}
+}
+
+// fxSweep is the fixtures' model (n = 2.5e11 cm^-2, μ = 1e6 cm^2/(V s)) over ±1 T.
+func fxSweep() transport.SweepParams {
+	return transport.SweepParams{Density: 2.5e15, Mobility: 100, MassRatio: 0.067, QuantumLifetime: 0.5e-12,
+		Temperature: 0.3, Squares: 5, BStart: -1, BEnd: 1, Points: 1001, Noise: 0.02, Seed: 7}
+}
+
+func TestParsePair(t *testing.T) {
+	for _, tc := range []struct{ in, a, b string }{
+		{"1 -> 5", "1", "5"}, {"1->5", "1", "5"}, {"1 → 5", "1", "5"}, {"3 - 7", "3", "7"}, {"3-7", "3", "7"},
+		{"A-1 - B-2", "A-1", "B-2"}, {"S to D", "S", "D"}, {"2, 4", "2", "4"},
+	} {
+		a, b, ok := ParsePair(tc.in)
+		if !ok || a != tc.a || b != tc.b {
+			t.Errorf("ParsePair(%q) = %q, %q, %v; want %q, %q", tc.in, a, b, ok, tc.a, tc.b)
+		}
+	}
+	for _, in := range []string{"", "3", "-7", "3 -"} {
+		if a, b, ok := ParsePair(in); ok {
+			t.Errorf("ParsePair(%q) = %q, %q: want no pair", in, a, b)
+		}
 	}
 }

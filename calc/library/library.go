@@ -17,6 +17,7 @@
 //	gate.go       gate series: capacitance, mobility against density
 //	band.go       expected_density: the layer stack solved self-consistently
 //	data.go       data files and sweeps: data(), symmetrize, zero_field, check_sweep
+//	geometry.go   device geometry: squares, Hall pairs, van der Pauw contacts, Corbino discs
 //	materials.go  material(name)
 //
 // The package keeps no state of its own: [All] builds the functions, [ReadData] is the
@@ -48,6 +49,7 @@ func All() []calc.Func {
 		gateFuncs(),
 		bandFuncs(),
 		dataFuncs(),
+		geometryFuncs(),
 		materialFuncs(),
 	} {
 		out = append(out, family...)

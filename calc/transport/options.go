@@ -25,6 +25,31 @@ type options struct {
 	maxYFrac float64 // out-of-phase tolerance
 
 	ext extOptions // options of the plateau, LK, Dingle and gate analyses (sanity.go)
+
+	orient      float64 // R_xy as measured = orient · ρ_xy (±1); 0 means +1, the default convention
+	orientBasis string  // what orient rests on, for messages
+	carrier     string  // the carrier type recorded for the sample ("electrons", "holes"), or ""
+	carrierFrom string  // where it is recorded, for messages
+}
+
+// WithOrientation says how the Hall column relates to ρ_xy = E_y/j_x (B along +z, current
+// along +x): R_xy as measured = o·ρ_xy with o = +1 or −1, from the wiring and the magnet's
+// polarity. basis says what o rests on ("current 1 → 5, R_xy = V3 − V7, …") for messages.
+// Without it HallDensity takes o = +1: a negative slope means electrons.
+func WithOrientation(o int, basis string) Option {
+	return func(opt *options) {
+		opt.orient, opt.orientBasis = 1, basis
+		if o < 0 {
+			opt.orient = -1
+		}
+	}
+}
+
+// WithCarrier gives the carrier type recorded for the sample ("electrons" or "holes", from
+// the wafer's record named by from): HallDensity reports it as the carriers and warns
+// (WarnCarrierSign) when the slope's sign, read with the orientation, says the other type.
+func WithCarrier(carrier, from string) Option {
+	return func(o *options) { o.carrier, o.carrierFrom = carrier, from }
 }
 
 func newOptions(opts []Option) options {
@@ -71,9 +96,10 @@ const (
 	WarnFewPoints    = "few-points"        // a fit with few points or few oscillations
 	WarnExtrapolated = "extrapolated"      // value at B = 0 extrapolated from one side
 	WarnDisagree     = "densities-disagree"
-	WarnWeakPeak     = "weak-peak" // SdH peak barely above the spectrum floor
-	WarnGap          = "data-gap"  // SdH window has a hole in the data wider than half a period
-	WarnHarmonic     = "harmonic"  // SdH spectrum has a strong peak at twice or half f_B: spin splitting?
+	WarnWeakPeak     = "weak-peak"    // SdH peak barely above the spectrum floor
+	WarnGap          = "data-gap"     // SdH window has a hole in the data wider than half a period
+	WarnHarmonic     = "harmonic"     // SdH spectrum has a strong peak at twice or half f_B: spin splitting?
+	WarnCarrierSign  = "carrier-sign" // the Hall slope's sign says the other carrier type than the sample's record
 )
 
 // Warning is a sanity check that failed; the result is still returned.
