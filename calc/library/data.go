@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"fmt"
 	"io"
+	"math"
 	"path"
 	"sort"
 	"strings"
@@ -52,8 +53,40 @@ func dataFuncs() []calc.Func {
 			Doc:    "the data set over |B| with column y (default Rxy) antisymmetrised from sweeps over +B and -B",
 			Params: []calc.Param{{Name: "d"}, {Name: "y", Default: calc.String("Rxy")}, {Name: "x", Default: calc.String("B")}},
 			Call:   func(_ *calc.Env, a []calc.Value) (calc.Value, error) { return symmetrizeCall(a, -1) }},
+		{Name: "split_sweep",
+			Doc:    "the rising and falling branches of a back-and-forth sweep (from a direction column, else the field's own turns) and the field lag between them: .up, .down, .lag",
+			Params: []calc.Param{{Name: "d"}, {Name: "x", Default: calc.String("B")}},
+			Call: func(_ *calc.Env, a []calc.Value) (calc.Value, error) {
+				d, err := dataArg(a, 0)
+				if err != nil {
+					return nil, err
+				}
+				x, err := strArg(a, 1)
+				if err != nil {
+					return nil, err
+				}
+				sp, err := transport.SplitSweep(d, transport.WithField(x))
+				if err != nil {
+					return nil, err
+				}
+				lag := est(sp.Lag, dField)
+				if len(sp.LagColumns) == 0 {
+					lag = calc.Q(quantity.New(math.NaN(), dField))
+				}
+				r := newResult("split_sweep", "lag", nil,
+					"lag", lag,
+					"points_up", num(float64(sp.Up.Len())),
+					"points_down", num(float64(sp.Down.Len())),
+					"up", &DataSet{D: sp.Up},
+					"down", &DataSet{D: sp.Down},
+					"match", num(sp.Match),
+					"residual", calc.Q(quantity.New(sp.Residual, dResistance)),
+					"range", calc.Range{Lo: quantity.New(sp.BMin, dField), Hi: quantity.New(sp.BMax, dField)},
+					"directions", calc.String(sp.Source))
+				return withWarnings(r, sp.Warnings), nil
+			}},
 		{Name: "check_sweep",
-			Doc:    "the sanity checks of a raw sweep a reviewer wants flagged: R_xy away from 0 at B = 0, R_xx minima that do not reach zero (with n=), a large out-of-phase lock-in signal, too few points",
+			Doc:    "the sanity checks of a raw sweep a reviewer wants flagged, each with the field where it happens: R_xy away from 0 at B = 0, R_xx minima that do not reach zero (with n=), a large out-of-phase lock-in signal, too few points, one-point spikes, a field reading that steps back, readings stuck at an extreme (an overloaded input), a field lag or hysteresis between up and down branches",
 			Params: []calc.Param{{Name: "d"}, {Name: "n", Default: calc.String("none")}},
 			Call: func(_ *calc.Env, a []calc.Value) (calc.Value, error) {
 				d, err := dataArg(a, 0)
@@ -282,6 +315,12 @@ func symmetrizeCall(a []calc.Value, sign int) (calc.Value, error) {
 	xc, err := d.Col(x)
 	if err != nil {
 		return nil, err
+	}
+	if span, oneSided := transport.SweepSpan(xc.Values); oneSided && span != "no field" {
+		// Nothing to pair with: the sweep as it is, labelled.
+		out := *d
+		out.Name += " (" + span + ": not symmetrised, there is no other polarity)"
+		return &DataSet{D: &out}, nil
 	}
 	out := &transport.Dataset{Name: d.Name, Hash: d.Hash, Meta: d.Meta, Layout: d.Layout, FieldOffset: d.FieldOffset}
 	var grid []float64

@@ -182,7 +182,7 @@ func TestAll(t *testing.T) {
 		"landau_fan", "landau_level", "lk_mass", "ln", "log10", "magnetic_length", "material",
 		"max", "mean", "mean_free_path", "min", "mobility", "mobility_power_law", "plateaus",
 		"quantum_lifetime", "quantum_mobility", "sdh_density", "sdh_frequency", "sheet_resistance",
-		"sin", "sqrt", "squares", "symmetrize", "tanh", "thermal_damping", "transport_time",
+		"sin", "split_sweep", "sqrt", "squares", "symmetrize", "tanh", "thermal_damping", "transport_time",
 		"vdp_contacts", "vdp_hall_density", "vdp_sheet_resistance", "zeeman_energy", "zero_field",
 	}
 	if strings.Join(names, " ") != strings.Join(want, " ") {

@@ -130,6 +130,7 @@ func hallValue(h *transport.HallResult) *calc.AnalysisResult {
 		"offset", calc.Q(quantity.New(h.FieldOffset, dField)),
 		"measured_carriers", calc.String(h.MeasuredCarriers),
 		"convention", calc.String(h.Convention),
+		"sweep", calc.String(h.Sweep),
 	), h.Warnings)
 	r.Detail = h
 	return r
@@ -146,6 +147,7 @@ func sdhValue(s *transport.SdHResult) *calc.AnalysisResult {
 		"points", num(float64(s.Points)),
 		"range", calc.Range{Lo: quantity.New(s.BMin, dField), Hi: quantity.New(s.BMax, dField)},
 		"offset", calc.Q(quantity.New(s.FieldOffset, dField)),
+		"sweep", calc.String(s.Sweep),
 	), s.Warnings)
 	r.Detail = s
 	return r

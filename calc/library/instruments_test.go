@@ -1,6 +1,7 @@
 package library
 
 import (
+	"math"
 	"os"
 	"path/filepath"
 	"strings"
@@ -234,5 +235,50 @@ func TestParsePair(t *testing.T) {
 		if a, b, ok := ParsePair(in); ok {
 			t.Errorf("ParsePair(%q) = %q, %q: want no pair", in, a, b)
 		}
+	}
+}
+
+// TestSweepsThroughTheLanguage: split_sweep recovers the 4 mT lag of the up-down fixture and
+// each branch gives the density; check_sweep names the planted defects; one-sided sweeps are
+// labelled as such.
+func TestSweepsThroughTheLanguage(t *testing.T) {
+	e := NewEnv(calc.WithFS(instrumentFS(t), "."))
+	lines := []string{
+		`sp = split_sweep(data("data/updown_lag.csv"))`,
+		`up = hall_density(sp.up, 0.05 T .. 0.4 T)`,
+		`down = sdh_density(sp.down, 0.4 T .. 1 T)`,
+		`chk = check_sweep(data("data/spikes.csv"))`,
+		`one = symmetrize(data("data/magnet_kG_onesided.dat"))`,
+		`h1 = hall_density(one, 0.05 T .. 0.4 T)`,
+	}
+	for i, l := range lines {
+		if r := e.EvalLine(l, i+1); r.Err != nil {
+			t.Fatalf("%s: %v", l, r.Err)
+		}
+	}
+	lag := value(t, e, "sp.lag").Q
+	if math.Abs(lag.Value()-4e-3) > 3*lag.Uncertainty()+2e-5 {
+		t.Errorf("lag %v ± %v, want 4 mT", lag.Value(), lag.Uncertainty())
+	}
+	testutil.CheckRel(t, "up.n", value(t, e, "up.n").Q.Value(), 2.5e15, 3e-3)
+	testutil.CheckRel(t, "down.n", value(t, e, "down.n").Q.Value(), 2.5e15, 0.01)
+	if v, _ := e.Eval("sp"); !strings.HasPrefix(calc.Display(v), "lag = 3.99960 ± 0.00019 mT; warning: the field reading lags the field by 4 mT") {
+		t.Errorf("split_sweep shows %s", calc.Display(v))
+	}
+	if testutil.CheckWithin(t, "sp.points_up", value(t, e, "sp.points_up").Q.Value(), 1001, 0, 0) {
+		testutil.CheckWithin(t, "sp.points_down", value(t, e, "sp.points_down").Q.Value(), 1001, 0, 0)
+	}
+	if v, _ := e.Eval("chk"); !strings.HasPrefix(calc.Display(v), "3 warning(s)") || !strings.Contains(calc.Display(v), "at B = 0.37 T") {
+		t.Errorf("check_sweep shows %s", calc.Display(v))
+	}
+	v, _ := e.Eval("one")
+	if got := calc.Display(v); !strings.Contains(got, "(one-sided, 0 to 1 T: not symmetrised, there is no other polarity)") || strings.Contains(got, "±B") {
+		t.Errorf("one-sided symmetrize shows %s", got)
+	}
+	if s, _ := e.Eval("h1.sweep"); calc.Display(s) != `"one-sided, 0 to 1 T"` {
+		t.Errorf("hall sweep %s", calc.Display(s))
+	}
+	if r := e.EvalLine(`split_sweep(data("data/magnet_kG_onesided.dat"))`, 9); r.Err == nil || !strings.Contains(r.Err.Error(), "the sweep only rises") {
+		t.Errorf("one-way split: %v", r.Err)
 	}
 }

@@ -234,7 +234,7 @@ func fixtures() []fixture {
 		{"spikes.csv", "", func() ([]byte, error) {
 			// 0 to 1 T with a one-point spike in Rxx at 0.37 T, the field reading
 			// stepping back near 0.6 T, and Rxy pinned at the lock-in's full scale
-			// (overload) between 0.85 T and 0.9 T.
+			// (overload, 2100 Ohm at 10 nA) from 0.84 T on.
 			p := fxParams(21)
 			p.BStart, p.BEnd, p.Points = 0, 1, 501
 			B, rxx, rxy, _, err := sweepCols(p)
@@ -248,9 +248,7 @@ func fixtures() []fixture {
 				case i >= 300 && i < 303:
 					B[i] -= 0.006
 				}
-				if B[i] > 0.85 && B[i] < 0.9 {
-					rxy[i] = -2000
-				}
+				rxy[i] = math.Max(rxy[i], -2100) // the lock-in's full scale
 			}
 			var b bytes.Buffer
 			rows := [][]string{{"B (T)", "Rxx (Ohm)", "Rxy (Ohm)"}}

@@ -27,8 +27,11 @@ type HallResult struct {
 	DataHash   string  // Dataset.Hash of the input
 	// FieldOffset is the field offset the input had applied (Dataset.FieldOffset), T.
 	FieldOffset float64
-	B, R        []float64 // the points used (SI)
-	Warnings    []Warning
+	// Sweep says which field polarities the data cover (SweepSpan): "±B, …" or
+	// "one-sided, 0 to 9 T".
+	Sweep    string
+	B, R     []float64 // the points used (SI)
+	Warnings []Warning
 }
 
 // MinHallPoints is the fewest points HallDensity accepts in its range.
@@ -146,10 +149,16 @@ func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Opti
 		}
 	}
 	curved := len(res.Warnings) > 0 && res.Warnings[0].Code == WarnCurvature
+	span, oneSided := SweepSpan(xc.Values)
+	res.Sweep = span
 	if a := res.Intercept; !curved && math.Abs(a.Value) > 3*a.Uncertainty && math.Abs(a.Value) > 0.01*lin0 {
+		fix := "antisymmetrize over ±B"
+		if oneSided {
+			fix = "the sweep is one-sided (" + span + "): a sweep to the other polarity would let antisymmetrisation remove it"
+		}
 		res.Warnings = append(res.Warnings, Warning{WarnOffset, fmt.Sprintf(
-			"R_xy(0) = %.4g ± %.2g Ohm is %.1f %% of the Hall signal at %g T: misaligned Hall probes? antisymmetrize over ±B",
-			a.Value, a.Uncertainty, 100*math.Abs(a.Value)/lin0, bref)})
+			"R_xy(0) = %.4g ± %.2g Ohm is %.1f %% of the Hall signal at %g T: misaligned Hall probes? %s",
+			a.Value, a.Uncertainty, 100*math.Abs(a.Value)/lin0, bref, fix)})
 	}
 	if w := densityRange(n); w != nil {
 		res.Warnings = append(res.Warnings, *w)

@@ -44,6 +44,8 @@ type SdHResult struct {
 	Warnings   []Warning
 	// FieldOffset is the field offset the input had applied (Dataset.FieldOffset), T.
 	FieldOffset float64
+	// Sweep says which field polarities the data cover (SweepSpan).
+	Sweep string
 }
 
 // SdHDensity finds the SdH frequency of R_xx (column "Rxx" against "B" unless
@@ -117,6 +119,7 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 			d.Name, yc.Name, bmin, bmax, N, minPoints, fieldSpan(xc, bmin, bmax), ErrTooFewPoints)
 	}
 	res := &SdHResult{GS: gs, GV: o.gv, XCol: xc.Name, YCol: yc.Name, BMin: bmin, BMax: bmax, DataHash: d.Hash, Points: N, FieldOffset: d.FieldOffset}
+	res.Sweep, _ = SweepSpan(xc.Values)
 	U := u1 - u0
 
 	// 1: the points, or their averages in bins of 1/B. The bins start coarse
