@@ -90,10 +90,14 @@ func (e *Env) eval(n Node) (Value, error) {
 		return out, nil
 	case *FieldAccess:
 		return e.evalField(n)
+	case *IndexExpr:
+		return e.evalIndex(n)
 	case *Call:
 		return e.evalCall(n)
 	case *Convert:
 		return e.evalConvert(n)
+	case valueNode:
+		return n.v, nil
 	}
 	return nil, fmt.Errorf("calc: unknown node %T", n)
 }
@@ -331,6 +335,60 @@ func (e *Env) evalField(n *FieldAccess) (Value, error) {
 	}
 	return v, nil
 }
+
+// evalIndex evaluates x[i]: the item of a list at a 0-based index (negative counts from the
+// end: -1 is the last), or the field of a record (any value with fields) named by a string.
+func (e *Env) evalIndex(n *IndexExpr) (Value, error) {
+	x, err := e.eval(n.X)
+	if err != nil {
+		return nil, err
+	}
+	iv, err := e.eval(n.Index)
+	if err != nil {
+		return nil, err
+	}
+	at := n.Index.Position()
+	if name, ok := iv.(String); ok {
+		if _, ok := x.(Fielder); !ok {
+			return nil, posErr(at, ErrType, "a %s has no fields (found [%s])", x.Type(), quoteString(string(name)))
+		}
+		return e.evalField(&FieldAccess{Pos: at, X: valueNode{x, n.X.Position()}, Name: string(name)})
+	}
+	l, ok := x.(List)
+	if !ok {
+		return nil, posErr(n.Pos, ErrType, "[ ] indexes a list (or a record by a field name in quotes), found a %s", x.Type())
+	}
+	q, ok := iv.(Quantity)
+	if !ok || !q.Q.Dim().IsDimensionless() || q.Q.HasUncertainty() {
+		return nil, posErr(at, ErrType, "a list index is a whole number such as 0 (the first item) or -1 (the last), found %s", Display(iv))
+	}
+	f := q.Q.Value()
+	if f != math.Trunc(f) || math.IsInf(f, 0) || math.IsNaN(f) {
+		return nil, posErr(at, ErrType, "a list index is a whole number such as 0 (the first item) or -1 (the last), found %s", Display(iv))
+	}
+	i := f
+	if i < 0 {
+		i += float64(len(l))
+	}
+	if i < 0 || i >= float64(len(l)) {
+		what := fmt.Sprintf("the list has %d items, indexes 0 to %d (or -1 to -%d from the end)", len(l), len(l)-1, len(l))
+		if len(l) == 0 {
+			what = "the list is empty"
+		}
+		return nil, posErr(at, ErrArgument, "index %g is out of range: %s", f, what)
+	}
+	return l[int(i)], nil
+}
+
+// valueNode is an already evaluated value in the place of a node (x["name"] reuses the field
+// access of x.name).
+type valueNode struct {
+	v   Value
+	pos Pos
+}
+
+func (n valueNode) Position() Pos { return n.pos }
+func (valueNode) node()           {}
 
 func (e *Env) evalCall(n *Call) (Value, error) {
 	f, ok := e.lookupFunc(n.Func)

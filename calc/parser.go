@@ -263,13 +263,34 @@ func (p *parser) power() (Node, error) {
 	return x, nil
 }
 
-// postfix = primary { "." ident } .
+// postfix = primary { "." ident | "[" expr "]" } .
 func (p *parser) postfix() (Node, error) {
 	x, err := p.primary()
 	if err != nil {
 		return nil, err
 	}
-	for p.isOp(".") {
+	// Each index or field access nests the tree one level deeper: a chain counts towards
+	// the depth bound like parentheses do.
+	levels := 0
+	defer func() { p.depth -= levels }()
+	for p.isOp(".") || p.isOp("[") {
+		if err := p.enter(); err != nil {
+			return nil, err
+		}
+		levels++
+		if p.isOp("[") {
+			open := p.next()
+			i, err := p.expr()
+			if err != nil {
+				return nil, err
+			}
+			if !p.isOp("]") {
+				return nil, p.errExpected("] to close the [ at column " + fmt.Sprint(open.pos.Col))
+			}
+			p.next()
+			x = &IndexExpr{Pos: open.pos, X: x, Index: i}
+			continue
+		}
 		p.next()
 		t := p.peek()
 		if t.kind != tIdent {
