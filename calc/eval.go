@@ -8,6 +8,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
+	"cleave/calc/constants"
 	"cleave/calc/quantity"
 )
 
@@ -278,15 +279,17 @@ func convertValue(v Value, u quantity.Unit, n *Convert) (Value, error) {
 	}
 	switch v := v.(type) {
 	case Quantity:
-		if err := check(v.Q.Dim()); err != nil {
+		q := thermal(v.Q, u.D)
+		if err := check(q.Dim()); err != nil {
 			return nil, err
 		}
-		return Quantity{Q: v.Q, Unit: &u}, nil
+		return Quantity{Q: q, Unit: &u}, nil
 	case Range:
-		if err := check(v.Lo.Dim()); err != nil {
+		lo, hi := thermal(v.Lo, u.D), thermal(v.Hi, u.D)
+		if err := check(lo.Dim()); err != nil {
 			return nil, err
 		}
-		return Range{Lo: v.Lo, Hi: v.Hi, Unit: &u}, nil
+		return Range{Lo: lo, Hi: hi, Unit: &u}, nil
 	case List:
 		out := make(List, len(v))
 		for i, x := range v {
@@ -314,8 +317,12 @@ func (e *Env) evalField(n *FieldAccess) (Value, error) {
 	if !ok {
 		names := f.FieldNames()
 		msg := fmt.Sprintf("no field %q", n.Name)
-		if r, ok := x.(*Record); ok && r.Path != "" {
+		r, isRec := x.(*Record)
+		if isRec && r.Path != "" {
 			msg = fmt.Sprintf("%s has no field %q", r.Path, n.Name)
+		} else if name := recordName(x); isRec && name != "a record" {
+			// A material (or another named record): say which lacks what, and what it has.
+			return nil, posErr(n.Pos, ErrUnknownName, "%s has no %s; its fields: %s", name, n.Name, strings.Join(names, ", "))
 		}
 		if s := nearest(n.Name, names); s != "" {
 			msg += " (did you mean " + s + "?)"
@@ -451,6 +458,29 @@ func (e *Env) evalCall(n *Call) (Value, error) {
 			args[last] = extra
 		}
 	}
+	// A record standing in for a parameter (a material for a mass) also supplies the
+	// degeneracies gs and gv the call leaves out: Si(100) has two valleys.
+	for i, p := range f.Params {
+		if p.FromRecord == "" || args[i] == nil {
+			continue
+		}
+		fl, ok := args[i].(Fielder)
+		if !ok {
+			continue
+		}
+		if _, ok := fl.Field(p.FromRecord); !ok {
+			return nil, posErr(argPos[i], ErrArgument, "%s: argument %s: %s has no %s (its fields: %s); give a value such as `0.067 m_e`",
+				n.Func, p.Name, recordName(args[i]), p.FromRecord, strings.Join(fl.FieldNames(), ", "))
+		}
+		for j, q := range f.Params {
+			if args[j] != nil || q.Name != "gs" && q.Name != "gv" {
+				continue
+			}
+			if fv, ok := fl.Field(q.Name); ok {
+				args[j], argPos[j] = fv, argPos[i]
+			}
+		}
+	}
 	for i, p := range f.Params {
 		if args[i] == nil {
 			if p.Default == nil {
@@ -509,4 +539,32 @@ func (e *Env) evalCall(n *Call) (Value, error) {
 		return nil, posErr(n.Pos, nil, "%s: the result is not a finite number", n.Func)
 	}
 	return v, nil
+}
+
+// recordName is how a message names a record: its "name" field (a material's name), else
+// "a record".
+func recordName(v Value) string {
+	if r, ok := v.(*Record); ok {
+		if nv, ok := r.Field("name"); ok {
+			if s, ok := nv.(String); ok && s != "" {
+				return string(s)
+			}
+		}
+	}
+	return "a record"
+}
+
+// thermal converts an energy asked for in a temperature unit to E/k_B, and a temperature
+// asked for in an energy unit to k_B T (`1 meV -> K` is 11.6 K; common practice, k_B exact
+// in the SI since 2019 [src:CODATA2018]); anything else is returned as it is.
+func thermal(q quantity.Quantity, want quantity.Dim) quantity.Quantity {
+	energy := quantity.MustUnit("J").D
+	kB := quantity.New(constants.Value("k_B"), energy.Div(quantity.Temperature))
+	switch {
+	case q.Dim() == energy && want == quantity.Temperature:
+		return quantity.Div(q, kB)
+	case q.Dim() == quantity.Temperature && want == energy:
+		return quantity.Mul(q, kB)
+	}
+	return q
 }

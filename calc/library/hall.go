@@ -35,8 +35,9 @@ func hallFuncs() []calc.Func {
 				return hallValue(h), nil
 			}},
 		{Name: "sdh_density",
-			Doc:    "Shubnikov-de Haas density from the Fourier spectrum of R_xx against 1/B over a |B| range: n = gs gv (e/h) f_B",
-			Params: []calc.Param{{Name: "d"}, {Name: "range"}, {Name: "gs", Default: num(2)}, {Name: "gv", Default: num(1)}, {Name: "x", Default: calc.String("B")}, {Name: "y", Default: calc.String("Rxx")}},
+			Doc: "Shubnikov-de Haas density from the Fourier spectrum of R_xx against 1/B over a |B| range: n = gs gv (e/h) f_B; background= is the degree (0-3) of the smooth background removed first",
+			Params: []calc.Param{{Name: "d"}, {Name: "range"}, {Name: "gs", Default: num(2)}, {Name: "gv", Default: num(1)}, {Name: "x", Default: calc.String("B")}, {Name: "y", Default: calc.String("Rxx")},
+				{Name: "background", Dim: dimp(dNone), Default: num(3)}},
 			Call: func(_ *calc.Env, a []calc.Value) (calc.Value, error) {
 				d, lo, hi, err := dataAndRange(a)
 				if err != nil {
@@ -52,7 +53,14 @@ func hallFuncs() []calc.Func {
 				}
 				x, _ := strArg(a, 4)
 				y, _ := strArg(a, 5)
-				s, err := transport.SdHDensity(d, lo, hi, float64(gs), transport.WithColumns(x, y), transport.WithValleyDegeneracy(float64(gv)))
+				bg, err := intArg(a, 6)
+				if err != nil {
+					return nil, err
+				}
+				if bg < 0 || bg > 3 {
+					return nil, &calc.ArgError{Arg: 6, Err: fmt.Errorf("%w: background = %d: the degree of the background polynomial is 0, 1, 2 or 3", calc.ErrArgument, bg)}
+				}
+				s, err := transport.SdHDensity(d, lo, hi, float64(gs), transport.WithColumns(x, y), transport.WithValleyDegeneracy(float64(gv)), transport.WithBackground(bg))
 				if err != nil {
 					return nil, err
 				}

@@ -60,7 +60,7 @@ const MinHallPoints = 5
 func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Option) (*HallResult, error) {
 	o := newOptions(opts)
 	if !(bmin >= 0) || !(bmax > bmin) {
-		return nil, fmt.Errorf("%s: Hall fit: field range %g T to %g T: expected 0 ≤ bmin < bmax: %w", d.Name, bmin, bmax, ErrBadArgument)
+		return nil, fmt.Errorf("%s: Hall fit: field range %g T to %g T: expected a range lo .. hi with 0 ≤ lo < hi: %w", d.Name, bmin, bmax, ErrBadArgument)
 	}
 	xc, err := column(d, xcol, DimField)
 	if err != nil {

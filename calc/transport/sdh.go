@@ -96,7 +96,7 @@ type SdHResult struct {
 func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult, error) {
 	o := newOptions(opts)
 	if !(bmin > 0) || !(bmax > bmin) {
-		return nil, fmt.Errorf("%s: SdH analysis: field range %g T to %g T: expected 0 < bmin < bmax: %w", d.Name, bmin, bmax, ErrBadArgument)
+		return nil, fmt.Errorf("%s: SdH analysis: field range %g T to %g T: expected a range lo .. hi with 0 < lo < hi: %w", d.Name, bmin, bmax, ErrBadArgument)
 	}
 	if !(gs > 0) || !(o.gv > 0) {
 		return nil, fmt.Errorf("%s: SdH analysis: degeneracies g_s = %g, g_v = %g must be > 0: %w", d.Name, gs, o.gv, ErrBadArgument)
@@ -196,7 +196,7 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 	fpk := sp.fpk
 	res.FFTFrequency = fpk
 	if sp.kp == sp.kmin || sp.kp == sp.kmax {
-		return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the spectrum peaks at the edge of the searched range %.3g–%.3g T, so no oscillation stands out from the background (%s); start the window where the oscillations are visible (raise bmin), widen it if it holds few periods, or raise the background degree (WithBackground): %w",
+		return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the spectrum peaks at the edge of the searched range %.3g–%.3g T, so no oscillation stands out from the background (%s); start the field range where the oscillations are visible (a higher lower end), widen it if it holds few periods, or change the degree of the background polynomial (background = 0 to 3 in sdh_density, 3 by default): %w",
 			d.Name, yc.Name, bmin, bmax, res.FMin, res.FMax, edgeHint(sp), ErrNoOscillation)
 	}
 	med := median(res.Spectrum.Amp[sp.kmin : sp.kmax+1])
@@ -218,7 +218,7 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 			return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the least-squares refinement moved from the spectral peak at %.4g T to %.4g T, and %s: %w",
 				d.Name, yc.Name, bmin, bmax, fpk, f, harmonic.Msg, ErrNoOscillation)
 		}
-		return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the least-squares refinement moved from the spectral peak at %.4g T to %.4g T, more than the spectral resolution 1/Δ(1/B) = %.3g T: the background or a second frequency dominates the fit; narrow the field window to where one oscillation is clear, or change the background degree (WithBackground): %w",
+		return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the least-squares refinement moved from the spectral peak at %.4g T to %.4g T, more than the spectral resolution 1/Δ(1/B) = %.3g T: the background or a second frequency dominates the fit; narrow the field window to where one oscillation is clear, or change the degree of the background polynomial (background = 0 to 3 in sdh_density): %w",
 			d.Name, yc.Name, bmin, bmax, fpk, f, 1/U, ErrNoOscillation)
 	}
 	res.Frequency = Estimate{f, fsig}
