@@ -282,3 +282,20 @@ func TestSweepsThroughTheLanguage(t *testing.T) {
 		t.Errorf("one-way split: %v", r.Err)
 	}
 }
+
+// FuzzParsePair: reading a wiring entry never panics, and a pair it reads has two trimmed,
+// non-empty names.
+func FuzzParsePair(f *testing.F) {
+	for _, s := range []string{"1 -> 5", "3 - 7", "A-1 - B-2", "S to D", "→", "- -", "1 -> -> 2", "a,b,c"} {
+		f.Add(s)
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		a, b, ok := ParsePair(s)
+		if !ok {
+			return
+		}
+		if a == "" || b == "" || a != strings.TrimSpace(a) || b != strings.TrimSpace(b) {
+			t.Fatalf("ParsePair(%q) = %q, %q", s, a, b)
+		}
+	})
+}

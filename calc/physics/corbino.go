@@ -13,7 +13,7 @@ var kConductance = kind{"a conductance", "S", quantity.MustUnit("S").D}
 // its inner and outer edges), ln(r_out/r_in)/(2π): its two-terminal resistance is the sheet
 // resistance times this number. It follows from the radial current: the current density at
 // radius r is I/(2πr), so R = ∫ ρ_s dr/(2πr) from r_in to r_out = ρ_s ln(r_out/r_in)/(2π)
-// (textbook closed form of radial conduction in an annulus; [src:DAVIES1998]). In a field
+// (the closed form of radial conduction in an annulus, derived here; common practice). In a field
 // the disc has no edges for a Hall voltage, so the same form gives σ_xx (CorbinoSigma). The
 // uncertainty follows from the radii's.
 func CorbinoSquares(rIn, rOut quantity.Quantity) (quantity.Quantity, error) {

@@ -249,3 +249,44 @@ func TestHallOrientation(t *testing.T) {
 		t.Errorf("L bar, plus at the bottom of B: %d, %v; want +1", o, err)
 	}
 }
+
+// TestCorbino: the factor ln(r_out/r_in)/(2π) against the resistance of the annulus summed
+// ring by ring (∫ dr/(2πr), midpoint rule over 10^5 rings), for several radius ratios; the
+// conductance and the conductivity invert each other; bad radii are errors.
+func TestCorbino(t *testing.T) {
+	for _, r := range [][2]float64{{100, 500}, {10, 11}, {1, 1000}} {
+		sq, err := CorbinoSquares(q(r[0], "um"), q(r[1], "um"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		const n = 100000
+		h := (r[1] - r[0]) / n
+		sum := 0.0
+		for i := 0; i < n; i++ {
+			sum += h / (2 * math.Pi * (r[0] + (float64(i)+0.5)*h))
+		}
+		testutil.CheckRel(t, "Corbino squares", sq.Value(), sum, 1e-6)
+		sigma := q(2e-4, "S")
+		G, err := CorbinoConductance(sigma, q(r[0], "um"), q(r[1], "um"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		back, err := CorbinoSigma(G, q(r[0], "um"), q(r[1], "um"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		testutil.CheckRel(t, "sigma round trip", back.Value(), 2e-4, 1e-12)
+	}
+	// A 1 % uncertainty on the outer radius of a 100/500 um disc: ∂/∂r_out = 1/(2π r_out),
+	// so σ(squares) = 0.01/(2π) over ln 5/(2π): 0.01/ln 5 relative.
+	sq, _ := CorbinoSquares(q(100, "um"), qu(500, 5, "um"))
+	testutil.CheckRel(t, "relative uncertainty", relUnc(sq), 0.01/math.Log(5), 1e-9)
+	for _, r := range [][2]float64{{500, 100}, {0, 100}, {100, 100}} {
+		if _, err := CorbinoSquares(q(r[0], "um"), q(r[1], "um")); err == nil {
+			t.Errorf("radii %v: no error", r)
+		}
+	}
+	if _, err := CorbinoSquares(q(1, "T"), q(2, "um")); err == nil {
+		t.Error("a field as a radius: no error")
+	}
+}

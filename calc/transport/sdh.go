@@ -494,10 +494,49 @@ func (s *sinefit) fit(f0 float64) (float64, float64, bool) {
 	return f, f * math.Sqrt(cur/dof*inv.At(envTerms, envTerms)), true
 }
 
+// median returns the element at position len(x)/2 of x sorted (the upper median), by
+// quickselect on a copy: linear time on average, x untouched.
 func median(x []float64) float64 {
 	s := slices.Clone(x)
-	slices.Sort(s)
-	return s[len(s)/2]
+	k := len(s) / 2
+	lo, hi := 0, len(s)-1
+	for lo < hi {
+		// Median of three as the pivot, then a Hoare partition.
+		mid := lo + (hi-lo)/2
+		if s[mid] < s[lo] {
+			s[mid], s[lo] = s[lo], s[mid]
+		}
+		if s[hi] < s[lo] {
+			s[hi], s[lo] = s[lo], s[hi]
+		}
+		if s[hi] < s[mid] {
+			s[hi], s[mid] = s[mid], s[hi]
+		}
+		pivot := s[mid]
+		i, j := lo, hi
+		for i <= j {
+			for s[i] < pivot {
+				i++
+			}
+			for s[j] > pivot {
+				j--
+			}
+			if i <= j {
+				s[i], s[j] = s[j], s[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return s[k]
+		}
+	}
+	return s[k]
 }
 
 // Binning of long sweeps in SdHDensity (see binSweep).

@@ -287,20 +287,31 @@ func branchSeries(B, Y []float64, idx []int) series {
 	return s
 }
 
-// at interpolates the series linearly at b and gives its slope there (central differences
-// over ±derivativeStencil points); ok is false outside its range.
-func (s series) at(b float64) (y, g float64, ok bool) {
+// walk evaluates the series (linear interpolation, and its slope by central differences over
+// ±derivativeStencil points) at b+shift for each b of bs (sorted
+// ascending) inside [lo, hi] and the series' range, with a cursor instead of a search.
+func (s series) walk(bs []float64, shift, lo, hi float64, fn func(k int, y, g float64)) {
 	n := len(s.b)
-	if n < 2 || b < s.b[0] || b > s.b[n-1] {
-		return 0, 0, false
+	if n < 2 {
+		return
 	}
-	j, _ := slices.BinarySearch(s.b, b)
-	j = min(max(j, 1), n-1)
-	t := (b - s.b[j-1]) / (s.b[j] - s.b[j-1])
-	y = s.y[j-1] + t*(s.y[j]-s.y[j-1])
-	lo, hi := max(j-1-derivativeStencil, 0), min(j+derivativeStencil, n-1)
-	g = (s.y[hi] - s.y[lo]) / (s.b[hi] - s.b[lo])
-	return y, g, true
+	j := 1
+	for k, b0 := range bs {
+		if b0 < lo || b0 > hi {
+			continue
+		}
+		b := b0 + shift
+		if b < s.b[0] || b > s.b[n-1] {
+			continue
+		}
+		for j < n-1 && s.b[j] < b {
+			j++
+		}
+		t := (b - s.b[j-1]) / (s.b[j] - s.b[j-1])
+		y := s.y[j-1] + t*(s.y[j]-s.y[j-1])
+		l, h := max(j-1-derivativeStencil, 0), min(j+derivativeStencil, n-1)
+		fn(k, y, (s.y[h]-s.y[l])/(s.b[h]-s.b[l]))
+	}
 }
 
 // scatter is the noise standard deviation of a series from its second differences:
@@ -342,30 +353,28 @@ func fitLag(B []float64, cols []*Column, up, down []int) (*lagFit, error) {
 	for i := range w {
 		w[i] = 1
 	}
-	var s0, s1 []float64 // per column: residual sums before and after the shift
+	// Before the shift: the plain up − down difference, per column.
+	s0 := make([]float64, len(ps))
+	for c, p := range ps {
+		p.down.walk(p.up.b, 0, lo+margin, hi-margin, func(k int, y, _ float64) {
+			r := p.up.y[k] - y
+			s0[c] += r * r
+		})
+	}
+	var s1 []float64 // per column: the residual sum after the shift
 	var cnt []int
-	var sgg float64
+	var sg float64 // Σ w g² at the last shift
 	for iter := 0; iter < 30; iter++ {
 		var num, den float64
-		s0, s1, cnt = make([]float64, len(ps)), make([]float64, len(ps)), make([]int, len(ps))
+		s1, cnt = make([]float64, len(ps)), make([]int, len(ps))
 		for c, p := range ps {
-			for k, b := range p.up.b {
-				if b < lo+margin || b > hi-margin {
-					continue
-				}
-				yd0, _, ok0 := p.down.at(b)
-				yd, g, ok := p.down.at(b + delta)
-				if !ok || !ok0 {
-					continue
-				}
-				r := p.up.y[k] - yd
+			p.down.walk(p.up.b, delta, lo+margin, hi-margin, func(k int, y, g float64) {
+				r := p.up.y[k] - y
 				num += w[c] * r * g
 				den += w[c] * g * g
-				r0 := p.up.y[k] - yd0
-				s0[c] += r0 * r0
 				s1[c] += r * r
 				cnt[c]++
-			}
+			})
 		}
 		if !(den > 0) {
 			return nil, fmt.Errorf("the resistance does not change with field over the common range")
@@ -375,31 +384,17 @@ func fitLag(B []float64, cols []*Column, up, down []int) (*lagFit, error) {
 		if math.Abs(delta) > margin {
 			return nil, fmt.Errorf("the shift between the branches exceeds 5 %% of their common field range")
 		}
-		// Weights: the inverse residual variance of each column.
-		for c := range ps {
+		// Weights: the inverse residual variance of each column; σ_Δ² = 1/Σ w g² with them.
+		sg = 0
+		for c, p := range ps {
 			if cnt[c] > 1 && s1[c] > 0 {
 				w[c] = float64(cnt[c]-1) / s1[c]
 			}
+			p.down.walk(p.up.b, delta, lo+margin, hi-margin, func(_ int, _, g float64) { sg += w[c] * g * g })
 		}
-		sgg = den
 		if math.Abs(step) < 1e-9*(hi-lo) && iter > 0 {
 			break
 		}
-	}
-	// σ_Δ² = 1/Σ w g² with w the inverse residual variance (recomputed at the optimum).
-	var sg float64
-	for c, p := range ps {
-		for _, b := range p.up.b {
-			if b < lo+margin || b > hi-margin {
-				continue
-			}
-			if _, g, ok := p.down.at(b + delta); ok {
-				sg += w[c] * g * g
-			}
-		}
-	}
-	if !(sg > 0) {
-		sg = sgg
 	}
 	f := &lagFit{lag: Estimate{delta / 2, math.Sqrt(1/sg) / 2}, lo: lo, hi: hi}
 	if s0[0] > 0 {

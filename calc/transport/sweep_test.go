@@ -2,6 +2,8 @@ package transport
 
 import (
 	"math"
+	"math/rand/v2"
+	"slices"
 	"strings"
 	"testing"
 
@@ -189,5 +191,22 @@ func TestHysteresis(t *testing.T) {
 	}
 	if !hasWarning(sp.Warnings, WarnHysteresis) {
 		t.Errorf("no hysteresis warning: lag %v, match %.3f, residual %.3g Ohm, %v", sp.Lag, sp.Match, sp.Residual, sp.Warnings)
+	}
+}
+
+// TestMedian: quickselect gives the element a full sort puts at len/2 (a property over
+// random inputs with repeats).
+func TestMedian(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	for n := 1; n < 200; n++ {
+		x := make([]float64, n)
+		for i := range x {
+			x[i] = float64(rng.IntN(n/3 + 1))
+		}
+		s := slices.Clone(x)
+		slices.Sort(s)
+		if got := median(x); got != s[n/2] {
+			t.Fatalf("median of %v = %v, want %v", x, got, s[n/2])
+		}
 	}
 }
