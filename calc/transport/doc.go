@@ -21,8 +21,11 @@
 // scaled to SI. Columns get a role from their name (RoleField for "B", "Field",
 // "Magnetic Field", ...; see the Role constants) and are found by name, by name
 // without the suffix, or by role, case-insensitively ([Dataset.Col]). A column with
-// a role or a resistance-like name (Rxx_X) is checked for the dimension of its unit;
-// one without a unit is taken to be in the SI unit of its role. A column whose first
+// a role or a resistance-like name (Rxx_X) is checked for the dimension of its
+// bracketed unit; a suffix unit that contradicts the role its name suggests drops
+// the role instead ("t_s" is a time, not a temperature); a column without a unit is
+// taken to be in the SI unit of its role. Words, times of day and dates in a column
+// without a unit make it a text column. A column whose first
 // value is a word is kept as labels ([Column.Text]: a sweep direction), never parsed
 // as numbers. Blank lines and comment lines after the header are skipped. An empty
 // field or NaN is a missing value, stored as NaN so that all columns keep the same

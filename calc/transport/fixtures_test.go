@@ -381,7 +381,7 @@ func TestBadFiles(t *testing.T) {
 	}{
 		{"decimal_comma.csv", "", nil},
 		{"text_in_field.csv", "", nil},
-		{"field_in_volts.csv", "", nil},
+		{"field_in_volts.csv", "", func(d *Dataset) error { _, err := HallDensity(d, "B", "Rxx", 0, 1); return err }},
 		{"short_row.csv", "", nil},
 		{"no_header.csv", "", nil},
 		{"volts.tsv", "", func(d *Dataset) error { _, err := HallDensity(d, "B", "X2_V", 0, 1); return err }},

@@ -318,11 +318,12 @@ func commentPrefix(t []byte, comments []string, delim byte) int {
 }
 
 // textLike reports whether a field that is not a number is a label (a text
-// column such as a sweep direction) rather than a mistyped number: it holds a
-// letter and is not a number with a decimal comma or an infinity.
+// column such as a sweep direction, or a time stamp) rather than a mistyped
+// number: it holds a letter, a ':' (a time of day) or a '/' or two '-' between
+// digits (a date), and is not an infinity; a number with a decimal comma is no label.
 func textLike(f []byte) bool {
 	f = bytes.TrimSpace(f)
-	letter := false
+	letter := bytes.IndexByte(f, ':') > 0 || bytes.IndexByte(f, '/') > 0 || bytes.Count(f, []byte("-")) >= 2 && f[0] != '-'
 	for _, c := range f {
 		if c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c >= 0x80 {
 			letter = true
@@ -675,6 +676,9 @@ func (d *Dataset) buildColumns(fields []headerField, l *Layout) ([]colPlan, erro
 		}
 		if ri, ok := lookupRole(c.Role); ok {
 			want, known, text = ri.dim, !ri.text, ri.text
+			if ri.name == RoleTime && c.Unit == "" {
+				known = false // a time column without a unit may hold time stamps: labels
+			}
 		} else if kd, ok := knownDim(base); ok {
 			want, known = kd, true
 		}
@@ -696,6 +700,11 @@ func (d *Dataset) buildColumns(fields []headerField, l *Layout) ([]colPlan, erro
 				}
 				return nil, perr(unitCol, ErrUnitDim, "column %q is a sweep direction (labels or ±1) and takes no unit", name)
 			}
+			if known && dim != want && fromSuffix && (spec == nil || spec.Role == "") {
+				// A suffix unit says more than a guessed role: "t_s" is a time in seconds,
+				// not a temperature. An analysis that wants the role still checks the unit.
+				c.Role, known = "", false
+			}
 			if known && dim != want {
 				if spec != nil && spec.Unit != "" {
 					return nil, lerr(spec.Pos, "columns: %s: unit %q is %s; the column %s needs %s", spec.File, c.Unit, dimKind(dim), c.Role, dimName(want))
@@ -705,9 +714,6 @@ func (d *Dataset) buildColumns(fields []headerField, l *Layout) ([]colPlan, erro
 			scale, c.Dim, kind = s, dim, colNum
 		case known:
 			c.Dim, kind = want, colNum
-		}
-		if fromSuffix && c.Role == "" {
-			c.Role = sniffRole(c.Stem)
 		}
 		plan = append(plan, colPlan{kind: kind, scale: scale, out: len(d.Columns)})
 		d.Columns = append(d.Columns, c)
