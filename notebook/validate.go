@@ -641,8 +641,8 @@ func (nb *Notebook) checkContacts(e *Entry) []Problem {
 			if _, ns := maskOf(d); ns != nil {
 				names = append(names, ns...)
 			}
-			if g, ok := d.Field("good_contacts"); ok && g.Kind == yaml.SequenceNode {
-				anyGood = true
+			if g, ok := d.Field("good_contacts"); ok && g.Kind == yaml.SequenceNode && len(g.Content) > 0 {
+				anyGood = true // an empty list is not recorded yet
 				for _, v := range g.Content {
 					if v = deref(v); v != nil && v.Kind == yaml.ScalarNode {
 						good = append(good, strings.TrimSpace(v.Value))
