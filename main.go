@@ -7,22 +7,31 @@
 package main
 
 import (
+	"context"
 	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
 	"io"
+	"net"
+	"net/http"
 	"os"
+	"os/signal"
 	"path/filepath"
+	"runtime/debug"
 	"sort"
 	"strings"
+	"syscall"
 	"time"
 	"unicode/utf8"
 
+	"cleave/calc/plot"
 	"cleave/demo"
 	"cleave/hooks"
 	"cleave/notebook"
 	"cleave/notebook/compute"
+	"cleave/notebook/plotfiles"
+	"cleave/notebook/site"
 	"cleave/templates"
 )
 
@@ -44,6 +53,9 @@ func init() {
 		{"calc", "[PATH...]", "recompute calc blocks and write their results", runCalc},
 		{"check", "[PATH...]", "recompute without writing; list stale results and errors as path:line: old → new", runCheck},
 		{"eval", "[--in FILE] [--json|--csv] EXPR", "evaluate one expression, in the context of an entry with --in", runEval},
+		{"plot", "[--in FILE] EXPR -o OUT.svg", "draw a value (a data set, a fit, a band result, a scorecard, a mask) as an SVG file", runPlot},
+		{"site", "DIR", "write the notebook as a static HTML site into DIR (new, empty, or a site written before)", runSite},
+		{"serve", "[--addr 127.0.0.1:PORT]", "preview the notebook's site locally; rebuilds what changed and reloads the page", runServe},
 		{"demo", "[DIR]", "write the demo notebook (to DIR or a new temp folder) and run everything on it", runDemo},
 		{"version", "", "print the version", runVersion},
 	}
@@ -55,7 +67,12 @@ type cli struct {
 	out, err io.Writer
 }
 
-func main() { os.Exit(run(os.Args[1:], os.Stdout, os.Stderr)) }
+func main() {
+	// A run is short and allocates mostly what it keeps until the end (the notebook, the
+	// cache): collecting garbage less often saves time at a modest cost in memory.
+	debug.SetGCPercent(200)
+	os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+}
 
 func run(args []string, stdout, stderr io.Writer) int {
 	c := &cli{out: stdout, err: stderr}
@@ -360,9 +377,19 @@ func (c *cli) recompute(name string, args []string, write bool) int {
 	if err != nil {
 		return c.fail(name, err)
 	}
+	for _, p := range res.Removed {
+		fmt.Fprintf(c.err, "cleave %s: removed %s, a temporary file an interrupted calc left\n", name, p)
+	}
 	if res.Unchanged {
 		fmt.Fprintf(c.err, "cleave %s: nothing changed since the last check that found no problem\n", name)
 		return 0
+	}
+	plotProbs, err := c.plotFiles(wt, rel, write, res.Notebook)
+	if err != nil {
+		return c.fail(name, err)
+	}
+	if len(plotProbs) > 0 {
+		wt.ForgetGoodCheck()
 	}
 	if write {
 		for _, p := range res.Written {
@@ -387,13 +414,67 @@ func (c *cli) recompute(name string, args []string, write bool) int {
 			fmt.Fprintln(c.out, l)
 		}
 	}
-	bad := res.Bad(write)
+	for _, p := range plotProbs {
+		fmt.Fprintln(c.out, p.Error())
+	}
+	bad := res.Bad(write) + len(plotProbs)
 	fmt.Fprintf(c.err, "cleave %s: %d file(s) with calc blocks, %d line(s) evaluated, %d from cache, %d problem(s)\n",
 		name, len(res.Files), res.Evaluated, res.CacheHits, bad)
 	if bad > 0 {
 		return 1
 	}
 	return 0
+}
+
+// plotFiles brings the plot files of plot(...) lines up to date (calc) or reports those that
+// are missing or differ from their result regions (check).
+func (c *cli) plotFiles(wt compute.WorkTree, rel []string, write bool, nb *notebook.Notebook) ([]plotfiles.Problem, error) {
+	in := selectPaths(rel)
+	// Only files that may draw a plot need a look, the others are not read again: for a check,
+	// those holding a plot result; for calc, which has just written results, those with a
+	// calc block.
+	sel := func(p string) bool {
+		if in != nil && !in(p) {
+			return false
+		}
+		f, ok := nb.File(p)
+		if !ok {
+			return true
+		}
+		if write {
+			return f.MayHoldBlock()
+		}
+		return f.MayHoldPlot()
+	}
+	if !write {
+		return plotfiles.Verify(wt.Root, sel)
+	}
+	r, err := plotfiles.Sync(wt.Root, sel)
+	if err != nil {
+		return nil, err
+	}
+	for _, p := range r.Written {
+		fmt.Fprintf(c.out, "drew %s\n", p)
+	}
+	for _, p := range r.Removed {
+		fmt.Fprintf(c.out, "removed %s (no plot line draws it)\n", p)
+	}
+	return r.Problems, nil
+}
+
+// selectPaths is a predicate over slash paths for the clean slash paths of a run (nil: all).
+func selectPaths(rel []string) func(string) bool {
+	if len(rel) == 0 {
+		return nil
+	}
+	return func(p string) bool {
+		for _, pre := range rel {
+			if pre == "." || p == pre || strings.HasPrefix(p, pre+"/") {
+				return true
+			}
+		}
+		return false
+	}
 }
 
 // workTree is the notebook the command runs in, with the tool's state folder under its git
@@ -445,6 +526,139 @@ func runEval(c *cli, args []string) int {
 		return 0
 	}
 	fmt.Fprintln(c.out, compute.JSONOf(v).Display)
+	return 0
+}
+
+func runPlot(c *cli, args []string) int {
+	fs := c.flags("plot")
+	in := fs.String("in", "", "evaluate in the context of this entry `FILE`")
+	out := fs.String("o", "", "write the SVG to `FILE` (- for standard output)")
+	pos, err := parse(fs, args)
+	if err != nil || len(pos) == 0 {
+		return c.usageErr("plot", flagMsg(err, "need an expression"))
+	}
+	if *out == "" {
+		return c.usageErr("plot", "need -o OUT.svg (or -o - for standard output)")
+	}
+	expr := strings.Join(pos, " ")
+	root := ""
+	if *in != "" {
+		if root, err = c.root(); err != nil {
+			return c.fail("plot", err)
+		}
+		*in = c.path(*in)
+	}
+	env, err := compute.EvalEnv(root, *in)
+	if err != nil {
+		return c.fail("plot", err)
+	}
+	if *in == "" {
+		env.Register(plot.Func(""))
+	}
+	v, err := env.Eval(expr)
+	if err != nil {
+		return c.fail("plot", err)
+	}
+	fig, ok := v.(*plot.Figure)
+	var svg []byte
+	if ok {
+		svg = fig.SVG
+	} else {
+		pic, err := plot.Draw(v, plot.Options{})
+		if err != nil {
+			return c.fail("plot", err)
+		}
+		svg = pic.SVG
+	}
+	if *out == "-" {
+		_, err = c.out.Write(svg)
+	} else {
+		err = os.WriteFile(c.path(*out), svg, 0o644)
+	}
+	if err != nil {
+		return c.fail("plot", err)
+	}
+	if *out != "-" {
+		fmt.Fprintf(c.out, "wrote %s\n", *out)
+	}
+	return 0
+}
+
+func runSite(c *cli, args []string) int {
+	pos, err := parse(c.flags("site"), args)
+	if err != nil || len(pos) != 1 {
+		return c.usageErr("site", flagMsg(err, "need the folder to write the site into"))
+	}
+	root, err := c.root()
+	if err != nil {
+		return c.fail("site", err)
+	}
+	s, err := site.Build(root, site.Options{})
+	if err != nil {
+		return c.fail("site", err)
+	}
+	dir := c.path(pos[0])
+	if err := s.Write(dir); err != nil {
+		return c.fail("site", err)
+	}
+	abs, _ := filepath.Abs(filepath.Join(dir, "index.html"))
+	fmt.Fprintf(c.out, "wrote %d files; open file://%s\n", len(s.Files), filepath.ToSlash(abs))
+	return 0
+}
+
+// serveReady, when set (by tests), hears the address the preview listens on.
+var serveReady func(addr string)
+
+// serveStop, when set (by tests), ends the preview.
+var serveStop context.Context
+
+func runServe(c *cli, args []string) int {
+	fs := c.flags("serve")
+	addr := fs.String("addr", "127.0.0.1:8765", "listen on `HOST:PORT` (loopback by default)")
+	pos, err := parse(fs, args)
+	if err != nil || len(pos) > 0 {
+		return c.usageErr("serve", flagMsg(err, "takes no arguments"))
+	}
+	root, err := c.root()
+	if err != nil {
+		return c.fail("serve", err)
+	}
+	if host, _, err := net.SplitHostPort(*addr); err != nil {
+		return c.usageErr("serve", fmt.Sprintf("--addr %q: %v", *addr, err))
+	} else if ip := net.ParseIP(host); host != "localhost" && (ip == nil || !ip.IsLoopback()) {
+		fmt.Fprintf(c.err, "cleave serve: warning: %s is not a loopback address; the notebook is visible to other machines\n", host)
+	}
+	srv, err := site.NewServer(root)
+	if err != nil {
+		return c.fail("serve", err)
+	}
+	ln, err := net.Listen("tcp", *addr)
+	if err != nil {
+		return c.fail("serve", err)
+	}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	if serveStop != nil {
+		var cancel context.CancelFunc
+		ctx, cancel = context.WithCancel(ctx)
+		go func() { <-serveStop.Done(); cancel() }()
+	}
+	go srv.Watch(ctx, 500*time.Millisecond, func(changed bool, err error) {
+		if err != nil {
+			fmt.Fprintf(c.err, "cleave serve: rebuild failed: %v\n", err)
+		} else if changed {
+			fmt.Fprintln(c.err, "cleave serve: rebuilt")
+		}
+	})
+	hs := &http.Server{Handler: srv, ReadHeaderTimeout: 10 * time.Second}
+	go func() { <-ctx.Done(); _ = hs.Close() }()
+	fmt.Fprintf(c.out, "serving the notebook at http://%s/ (Ctrl-C stops)\n", ln.Addr())
+	if serveReady != nil {
+		serveReady(ln.Addr().String())
+	}
+	if err := hs.Serve(ln); err != nil && !errors.Is(err, http.ErrServerClosed) {
+		return c.fail("serve", err)
+	}
 	return 0
 }
 

@@ -2,6 +2,7 @@ package main
 
 import (
 	"bytes"
+	"cleave/internal/testutil"
 	"encoding/json"
 	"flag"
 	"fmt"
@@ -11,8 +12,6 @@ import (
 	"strings"
 	"testing"
 )
-
-var update = flag.Bool("update", false, "rewrite golden files")
 
 // cleave runs the command line in-process and returns its exit code and output.
 func cleave(t *testing.T, args ...string) (int, string, string) {
@@ -26,6 +25,11 @@ func cleave(t *testing.T, args ...string) (int, string, string) {
 var demoDir, scratch string
 
 func TestMain(m *testing.M) {
+	// The test binary doubles as the cleave binary for tests that need a process of their
+	// own (to kill it): see cleaveProcess.
+	if os.Getenv(asCLI) == "1" {
+		os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+	}
 	flag.Parse()
 	var err error
 	scratch, err = os.MkdirTemp("", "cleave-test-")
@@ -54,20 +58,7 @@ func demoNotebook(t *testing.T) string {
 
 func golden(t *testing.T, name, got string) {
 	t.Helper()
-	p := filepath.Join("testdata", name)
-	if *update {
-		if err := os.WriteFile(p, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(p)
-	if err != nil {
-		t.Fatalf("%v (run go test -update)", err)
-	}
-	if string(want) != got {
-		t.Errorf("%s differs from the output; rerun with -update if the change is intended.\n--- got ---\n%s", p, got)
-	}
+	testutil.GoldenString(t, filepath.Join("testdata", name), got)
 }
 
 // TestDemoEndToEnd runs the demo, then the commands a new user runs on it: the notebook is

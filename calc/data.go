@@ -18,6 +18,19 @@ import (
 // [WithDataLoader]; without one, [Env.OpenData] returns a *DataFile.
 type DataLoader func(name string, r io.Reader) (Value, error)
 
+// MaxDataBytes is the largest data file read: a data file is read whole (and hashed) before
+// it is parsed, so this bounds the memory one data("...") takes, with room for ten million
+// rows of three columns. A larger file fails at the call with [ErrDataTooLarge].
+const MaxDataBytes = 512 << 20
+
+// ErrDataTooLarge is wrapped by the error of a data file larger than [MaxDataBytes].
+var ErrDataTooLarge = errors.New("data file too large")
+
+// DataSizeError is the error for a data file of Size bytes, larger than [MaxDataBytes].
+func DataSizeError(size int64) error {
+	return fmt.Errorf("%w: %.1f MiB, and data files are read up to %d MiB; split it, or keep only the sweeps the notebook analyses", ErrDataTooLarge, float64(size)/(1<<20), MaxDataBytes>>20)
+}
+
 // maxLinkHops bounds how many symbolic links one data path may pass through.
 const maxLinkHops = 40
 

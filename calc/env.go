@@ -276,6 +276,7 @@ func (e *Env) EvalLine(line string, lineNo int) LineResult {
 		if r, ok := v.(*Record); ok && r.Path != "" {
 			e.addDep("field:"+r.Path, "")
 		}
+		err = finiteValue(v, st.Expr.Position())
 	}
 	if err != nil {
 		if st.Kind == Assign {
@@ -291,6 +292,21 @@ func (e *Env) EvalLine(line string, lineNo int) LineResult {
 	return res
 }
 
+// finiteValue refuses a quantity whose value or uncertainty is not a finite number (read from
+// a field written as "Inf", say): it would be written as a result no later line can trust.
+// The operators and functions refuse what they would make non-finite themselves, with their
+// own positions.
+func finiteValue(v Value, p Pos) error {
+	q, ok := v.(Quantity)
+	if !ok {
+		return nil
+	}
+	if x, u := q.Q.Value(), q.Q.Uncertainty(); math.IsNaN(x) || math.IsInf(x, 0) || math.IsNaN(u) || math.IsInf(u, 0) {
+		return posErr(p, ErrNotFinite, "the result %s is not a finite number", Display(v))
+	}
+	return nil
+}
+
 // forget undefines a name whose definition on line lineNo failed, so that later lines do
 // not silently use an earlier value.
 func (e *Env) forget(name string, lineNo int) {
@@ -304,6 +320,9 @@ func (e *Env) forget(name string, lineNo int) {
 // assignedName reports the name on the left of a line that has the shape "name = ...",
 // even when the rest does not parse.
 func assignedName(line string) (string, bool) {
+	if i := strings.IndexByte(line, '='); i >= 0 {
+		line = line[:i+1] // all that matters, however long the line
+	}
 	lx := &lexer{src: []rune(line)}
 	lx.skipSpace()
 	if lx.i >= len(lx.src) || !isIdentStart(lx.src[lx.i]) {
@@ -348,6 +367,9 @@ func (e *Env) Eval(expr string) (Value, error) {
 	}
 	if r, ok := v.(*Record); ok && r.Path != "" {
 		e.addDep("field:"+r.Path, "")
+	}
+	if err := finiteValue(v, x.Position()); err != nil {
+		return nil, err
 	}
 	return v, nil
 }

@@ -33,6 +33,8 @@ var (
 	ErrType            = errors.New("wrong type")
 	ErrPath            = errors.New("path not allowed")
 	ErrTooDeep         = errors.New("expression nested too deeply")
+	ErrTooLarge        = errors.New("calc line too large")
+	ErrNotFinite       = errors.New("result not a finite number")
 )
 
 // ArgError lets a function point an error at one of its arguments (index into args);

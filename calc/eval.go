@@ -55,11 +55,18 @@ func (e *Env) eval(n Node) (Value, error) {
 	case *Ident:
 		return e.lookupName(n)
 	case *Unary:
+		if lit, ok := n.X.(*NumberLit); ok && n.Op == "-" {
+			// A negative literal is one number: -20 °C is 253.15 K, not -(293.15 K).
+			return e.evalSignedNumber(lit, -1)
+		}
 		x, err := e.evalQuantity(n.X, "the operand of "+n.Op)
 		if err != nil {
 			return nil, err
 		}
 		if n.Op == "-" {
+			if err := quantity.CheckNegate(x); err != nil {
+				return nil, posErr(n.Pos, err, "%v", err)
+			}
 			return Q(x.Neg()), nil
 		}
 		return Q(x), nil
@@ -90,15 +97,13 @@ func (e *Env) eval(n Node) (Value, error) {
 		}
 		return out, nil
 	case *FieldAccess:
-		return e.evalField(n)
+		return e.evalPostfix(n)
 	case *IndexExpr:
-		return e.evalIndex(n)
+		return e.evalPostfix(n)
 	case *Call:
 		return e.evalCall(n)
 	case *Convert:
 		return e.evalConvert(n)
-	case valueNode:
-		return n.v, nil
 	}
 	return nil, fmt.Errorf("calc: unknown node %T", n)
 }
@@ -131,7 +136,31 @@ func parseFloatAt(text string, p Pos) (float64, error) {
 	return v, nil
 }
 
-func (e *Env) evalNumber(n *NumberLit) (Value, error) {
+func (e *Env) evalNumber(n *NumberLit) (Value, error) { return e.evalSignedNumber(n, 1) }
+
+// evalSignedNumber evaluates sign × the literal n. A literal in °C is an absolute temperature
+// (t + 273.15 K); a literal in a unit the trade keeps (rpm, Torr, Oe, ...) is shown in it.
+func (e *Env) evalSignedNumber(n *NumberLit, sign float64) (Value, error) {
+	v, err := e.literal(n, sign)
+	if err != nil {
+		return nil, err
+	}
+	q := v.(Quantity)
+	if n.Unit == "" {
+		return q, nil
+	}
+	u, _ := parseUnitAt(n.Unit, n.UnitPos) // parsed without error by literal
+	if u.Offset != 0 {
+		q.Q = quantity.Celsius(q.Q.Value(), q.Q.Uncertainty())
+	}
+	if u.Keep {
+		q.Unit = &u
+	}
+	return q, nil
+}
+
+// literal is the value sign × n in SI, before a unit's offset.
+func (e *Env) literal(n *NumberLit, sign float64) (Value, error) {
 	unit := quantity.Unit{Scale: 1}
 	if n.Unit != "" {
 		u, err := parseUnitAt(n.Unit, n.UnitPos)
@@ -144,6 +173,7 @@ func (e *Env) evalNumber(n *NumberLit) (Value, error) {
 	if err != nil {
 		return nil, err
 	}
+	v *= sign
 	if n.Unc == "" {
 		return Q(quantity.New(v*unit.Scale, unit.D)), nil
 	}
@@ -208,22 +238,91 @@ func (e *Env) evalQuantity(n Node, what string) (quantity.Quantity, error) {
 	return q.Q, nil
 }
 
+// chainOp reports whether op is left-associative and may therefore repeat along a left spine
+// as long as the line: a + b + c + … or a * b * c * ….
+func chainOp(op string) bool { return op == "+" || op == "-" || op == "*" || op == "/" }
+
+// evalBinary evaluates n. A run of left-associative operators (a + b - c + …) makes a tree
+// as deep as the run is long, so the left spine is walked in a loop, not by recursion: the
+// depth of the evaluator's recursion stays bounded by the parser's nesting limit, whatever
+// the length of the line. Operands are still evaluated left to right, and errors are the
+// same as the recursive form gave.
 func (e *Env) evalBinary(n *Binary) (Value, error) {
-	x, err := e.evalQuantity(n.X, "the left operand of "+n.Op)
+	if !chainOp(n.Op) {
+		x, err := e.evalQuantity(n.X, "the left operand of "+n.Op)
+		if err != nil {
+			return nil, err
+		}
+		return e.binaryRight(n, x)
+	}
+	spine := []*Binary{n}
+	for {
+		b, ok := spine[len(spine)-1].X.(*Binary)
+		if !ok || !chainOp(b.Op) {
+			break
+		}
+		spine = append(spine, b)
+	}
+	first := spine[len(spine)-1]
+	x, err := e.evalQuantity(first.X, "the left operand of "+first.Op)
 	if err != nil {
 		return nil, err
 	}
+	var v Value
+	for i := len(spine) - 1; i >= 0; i-- {
+		if v, err = e.binaryRight(spine[i], x); err != nil {
+			return nil, err
+		}
+		x = v.(Quantity).Q
+	}
+	return v, nil
+}
+
+// binaryRight evaluates the right operand of n and applies n's operator to x and it. A
+// result that overflows to an infinity, or a product or quotient of two non-zero numbers that
+// underflows to zero, is an error at the operator: it would otherwise be written as a result.
+func (e *Env) binaryRight(n *Binary, x quantity.Quantity) (Value, error) {
 	y, err := e.evalQuantity(n.Y, "the right operand of "+n.Op)
 	if err != nil {
 		return nil, err
 	}
+	r, err := applyBinary(n, x, y)
+	if err != nil {
+		return nil, err
+	}
+	if err := finiteResult(n, x, y, r.(Quantity).Q); err != nil {
+		return nil, err
+	}
+	return r, nil
+}
+
+// finiteResult checks the outcome r of x op y.
+func finiteResult(n *Binary, x, y, r quantity.Quantity) error {
+	v, u := r.Value(), r.Uncertainty()
+	switch {
+	case math.IsInf(v, 0) || math.IsNaN(v):
+		return posErr(n.Pos, ErrNotFinite, "%g %s %g overflows: the result is beyond the largest number (about 1.8e308 in SI units)", x.Value(), n.Op, y.Value())
+	case math.IsInf(u, 0) || math.IsNaN(u):
+		return posErr(n.Pos, ErrNotFinite, "the uncertainty of %g %s %g overflows: it is beyond the largest number (about 1.8e308 in SI units)", x.Value(), n.Op, y.Value())
+	case v == 0 && n.Op != "+" && n.Op != "-" && x.Value() != 0 && (n.Op == "^" || y.Value() != 0):
+		return posErr(n.Pos, ErrNotFinite, "%g %s %g underflows to zero: the result is below the smallest number (about 4.9e-324 in SI units)", x.Value(), n.Op, y.Value())
+	}
+	return nil
+}
+
+// applyBinary applies n's operator to its evaluated operands.
+func applyBinary(n *Binary, x, y quantity.Quantity) (Value, error) {
 	switch n.Op {
 	case "+", "-":
 		var r quantity.Quantity
+		var err error
 		if n.Op == "+" {
 			r, err = quantity.Add(x, y)
 		} else {
 			r, err = quantity.Sub(x, y)
+		}
+		if errors.Is(err, quantity.ErrAmbiguousTemperature) {
+			return nil, posErr(n.Pos, err, "%v", err)
 		}
 		if err != nil {
 			verb := map[string]string{"+": "add", "-": "subtract"}[n.Op]
@@ -231,10 +330,16 @@ func (e *Env) evalBinary(n *Binary) (Value, error) {
 		}
 		return Q(r), nil
 	case "*":
+		if err := quantity.CheckScaling("*", x, y); err != nil {
+			return nil, posErr(n.Pos, err, "%v", err)
+		}
 		return Q(quantity.Mul(x, y)), nil
 	case "/":
 		if y.Value() == 0 {
 			return nil, posErr(n.Pos, nil, "division by zero")
+		}
+		if err := quantity.CheckScaling("/", x, y); err != nil {
+			return nil, posErr(n.Pos, err, "%v", err)
 		}
 		return Q(quantity.Div(x, y)), nil
 	case "^":
@@ -249,8 +354,11 @@ func (e *Env) evalBinary(n *Binary) (Value, error) {
 		if err != nil {
 			return nil, posErr(n.Pos, err, "cannot raise %s to the power %g: %v", DimName(x.Dim()), y.Value(), err)
 		}
-		if math.IsNaN(r.Value()) || math.IsInf(r.Value(), 0) {
-			return nil, posErr(n.Pos, nil, "%g ^ %g is not a finite real number", x.Value(), y.Value())
+		switch {
+		case math.IsNaN(r.Value()):
+			return nil, posErr(n.Pos, ErrNotFinite, "%g ^ %g is not a real number", x.Value(), y.Value())
+		case math.IsInf(r.Value(), 0) && x.Value() == 0:
+			return nil, posErr(n.Pos, ErrNotFinite, "0 ^ %g is a division by zero", y.Value())
 		}
 		return Q(r), nil
 	}
@@ -283,6 +391,11 @@ func convertValue(v Value, u quantity.Unit, n *Convert) (Value, error) {
 		if err := check(q.Dim()); err != nil {
 			return nil, err
 		}
+		// In °C a temperature is absolute from here on, in K thermodynamic (it may be scaled).
+		q, err := q.ExpressedIn(u)
+		if err != nil {
+			return nil, posErr(n.Pos, err, "%v", err)
+		}
 		return Quantity{Q: q, Unit: &u}, nil
 	case Range:
 		lo, hi := thermal(v.Lo, u.D), thermal(v.Hi, u.D)
@@ -304,11 +417,44 @@ func convertValue(v Value, u quantity.Unit, n *Convert) (Value, error) {
 	return nil, posErr(n.ArrowAt, ErrType, "-> needs a quantity, range or list, found a %s", v.Type())
 }
 
-func (e *Env) evalField(n *FieldAccess) (Value, error) {
-	x, err := e.eval(n.X)
+// evalPostfix evaluates a chain of field accesses and indexes (r.a[0].b) from its innermost
+// operand outwards, in a loop: a long chain costs no recursion.
+func (e *Env) evalPostfix(n Node) (Value, error) {
+	var spine []Node
+	cur := n
+spine:
+	for {
+		switch c := cur.(type) {
+		case *FieldAccess:
+			spine = append(spine, c)
+			cur = c.X
+		case *IndexExpr:
+			spine = append(spine, c)
+			cur = c.X
+		default:
+			break spine
+		}
+	}
+	x, err := e.eval(cur)
 	if err != nil {
 		return nil, err
 	}
+	for i := len(spine) - 1; i >= 0; i-- {
+		switch s := spine[i].(type) {
+		case *FieldAccess:
+			x, err = e.field(s, x)
+		case *IndexExpr:
+			x, err = e.index(s, x)
+		}
+		if err != nil {
+			return nil, err
+		}
+	}
+	return x, nil
+}
+
+// field reads the field n.Name of x.
+func (e *Env) field(n *FieldAccess, x Value) (Value, error) {
 	f, ok := x.(Fielder)
 	if !ok {
 		return nil, posErr(n.Pos, ErrType, "a %s has no fields (found .%s)", x.Type(), n.Name)
@@ -343,13 +489,9 @@ func (e *Env) evalField(n *FieldAccess) (Value, error) {
 	return v, nil
 }
 
-// evalIndex evaluates x[i]: the item of a list at a 0-based index (negative counts from the
-// end: -1 is the last), or the field of a record (any value with fields) named by a string.
-func (e *Env) evalIndex(n *IndexExpr) (Value, error) {
-	x, err := e.eval(n.X)
-	if err != nil {
-		return nil, err
-	}
+// index reads x[i]: the item of a list at a 0-based index (negative counts from the end: -1
+// is the last), or the field of a record (any value with fields) named by a string.
+func (e *Env) index(n *IndexExpr, x Value) (Value, error) {
 	iv, err := e.eval(n.Index)
 	if err != nil {
 		return nil, err
@@ -359,7 +501,7 @@ func (e *Env) evalIndex(n *IndexExpr) (Value, error) {
 		if _, ok := x.(Fielder); !ok {
 			return nil, posErr(at, ErrType, "a %s has no fields (found [%s])", x.Type(), quoteString(string(name)))
 		}
-		return e.evalField(&FieldAccess{Pos: at, X: valueNode{x, n.X.Position()}, Name: string(name)})
+		return e.field(&FieldAccess{Pos: at, Name: string(name)}, x)
 	}
 	l, ok := x.(List)
 	if !ok {
@@ -386,16 +528,6 @@ func (e *Env) evalIndex(n *IndexExpr) (Value, error) {
 	}
 	return l[int(i)], nil
 }
-
-// valueNode is an already evaluated value in the place of a node (x["name"] reuses the field
-// access of x.name).
-type valueNode struct {
-	v   Value
-	pos Pos
-}
-
-func (n valueNode) Position() Pos { return n.pos }
-func (valueNode) node()           {}
 
 func (e *Env) evalCall(n *Call) (Value, error) {
 	f, ok := e.lookupFunc(n.Func)
@@ -535,8 +667,13 @@ func (e *Env) evalCall(n *Call) (Value, error) {
 		}
 		return nil, posErr(n.Pos, err, "%s: %v", n.Func, err)
 	}
-	if q, ok := v.(Quantity); ok && (math.IsNaN(q.Q.Value()) || math.IsInf(q.Q.Value(), 0)) {
-		return nil, posErr(n.Pos, nil, "%s: the result is not a finite number", n.Func)
+	if q, ok := v.(Quantity); ok {
+		if x := q.Q.Value(); math.IsNaN(x) || math.IsInf(x, 0) {
+			return nil, posErr(n.Pos, ErrNotFinite, "%s: the result is not a finite number", n.Func)
+		}
+		if u := q.Q.Uncertainty(); math.IsNaN(u) || math.IsInf(u, 0) {
+			return nil, posErr(n.Pos, ErrNotFinite, "%s: the uncertainty of the result is not a finite number", n.Func)
+		}
 	}
 	return v, nil
 }

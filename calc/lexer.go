@@ -402,7 +402,7 @@ func (lx *lexer) unit() (string, Pos, bool) {
 }
 
 func isUnitStart(r rune) bool {
-	return isIdentStart(r) || r == 'µ' || r == 'Ω' || r == 'Å' || r == '°' || r == '%'
+	return isIdentStart(r) || r == 'µ' || r == 'Ω' || r == 'Å' || r == '°' || r == '%' || r == '\u2103'
 }
 
 func isUnitPart(r rune) bool { return isIdentPart(r) || isUnitStart(r) }
@@ -465,8 +465,23 @@ func (lx *lexer) unitFactor(j, depth int) (int, bool) {
 		}
 		j = e + 1
 	case isUnitStart(lx.at(j)):
+		start := j
 		for isUnitPart(lx.at(j)) {
 			j++
+		}
+		// A monolayer names its material: ML(GaAs), ML(Al(0.3)Ga(0.7)As).
+		if lx.at(j) == '(' && string(lx.src[start:j]) == "ML" {
+			depth := 0
+			for k := j; k < len(lx.src); k++ {
+				if lx.src[k] == '(' {
+					depth++
+				} else if lx.src[k] == ')' {
+					if depth--; depth == 0 {
+						j = k + 1
+						break
+					}
+				}
+			}
 		}
 	default:
 		return j, false

@@ -67,7 +67,7 @@ func (e *Env) knownNames() []string {
 }
 
 // MaterialRecord turns a material into a record: name, mstar (a mass, mstar·m_e),
-// eps_r, g, gs, gv, vF (m/s), carrier, x. Fields that do not apply (NaN or zero in the
+// eps_r, g, gs, gv, vF (m/s), carrier, x, a (the cubic lattice constant at 300 K). Fields that do not apply (NaN or zero in the
 // table, such as graphene's mass) are left out.
 func MaterialRecord(m materials.Material) *Record {
 	r := &Record{}
@@ -93,6 +93,9 @@ func MaterialRecord(m materials.Material) *Record {
 	}
 	if !math.IsNaN(m.X) {
 		add("x", num(m.X))
+	}
+	if !math.IsNaN(m.A) && m.A > 0 {
+		add("a", Q(quantity.New(m.A*1e-10, quantity.Length)))
 	}
 	return r
 }

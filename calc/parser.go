@@ -2,6 +2,8 @@ package calc
 
 import (
 	"fmt"
+	"strings"
+	"unicode/utf8"
 )
 
 // LineKind tells what a calc line holds.
@@ -31,6 +33,19 @@ func (k LineKind) String() string {
 // maxDepth bounds the nesting of expressions so that hostile input cannot exhaust the stack.
 const maxDepth = 200
 
+// Bounds on the size of one calc line, so that a pasted or generated monster of a line is a
+// positioned error on that line instead of a run that exhausts memory or the stack. The
+// longest real lines (a call listing a dozen data files, a list of fifty gate voltages) stay
+// far below them.
+const (
+	// MaxLineBytes is the longest calc line, in bytes (its result region not counted).
+	MaxLineBytes = 16 << 10
+	// MaxTokens is the largest number of tokens (numbers with their units, names, strings,
+	// operators, brackets, commas) in one line. Every node of the expression tree takes at
+	// least one token, so it bounds the tree too.
+	MaxTokens = 4096
+)
+
 type parser struct {
 	toks  []token
 	i     int
@@ -40,9 +55,21 @@ type parser struct {
 // ParseLine parses one calc line (line number lineNo, used in positions). Everything from
 // the first "#~" on is ignored.
 func ParseLine(line string, lineNo int) (*Statement, error) {
+	if i := strings.Index(line, "#~"); i >= 0 {
+		line = line[:i] // the result region is never input
+	}
+	if len(line) > MaxLineBytes {
+		return nil, &Error{Line: lineNo, Col: utf8.RuneCountInString(line[:MaxLineBytes]) + 1, Err: ErrTooLarge,
+			Msg: fmt.Sprintf("line of %d bytes: a calc line may hold at most %d; give parts of the expression names on lines of their own", len(line), MaxLineBytes)}
+	}
 	toks, err := lex(line, lineNo)
 	if err != nil {
 		return nil, err
+	}
+	if len(toks)-1 > MaxTokens { // the last token is the end of the line
+		t := toks[MaxTokens]
+		return nil, &Error{Line: t.pos.Line, Col: t.pos.Col, Err: ErrTooLarge,
+			Msg: fmt.Sprintf("expression of %d parts: a calc line may hold at most %d numbers, names, operators and brackets; give parts of it names on lines of their own", len(toks)-1, MaxTokens)}
 	}
 	p := &parser{toks: toks}
 	st := &Statement{}
@@ -269,15 +296,9 @@ func (p *parser) postfix() (Node, error) {
 	if err != nil {
 		return nil, err
 	}
-	// Each index or field access nests the tree one level deeper: a chain counts towards
-	// the depth bound like parentheses do.
-	levels := 0
-	defer func() { p.depth -= levels }()
+	// A chain of indexes and field accesses is evaluated in a loop (Env.evalPostfix), so its
+	// length costs no nesting; what is inside the brackets is nested as any expression.
 	for p.isOp(".") || p.isOp("[") {
-		if err := p.enter(); err != nil {
-			return nil, err
-		}
-		levels++
 		if p.isOp("[") {
 			open := p.next()
 			i, err := p.expr()

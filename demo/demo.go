@@ -16,6 +16,8 @@ import (
 	"cleave/hooks"
 	"cleave/notebook"
 	"cleave/notebook/compute"
+	"cleave/notebook/plotfiles"
+	"cleave/notebook/site"
 )
 
 // demoStep is one commit of the demo notebook's story.
@@ -25,7 +27,7 @@ type demoStep struct {
 	message string   // commit message
 	paths   []string // scenario files (or folders) this step adds
 	edit    func(dir string) error
-	data    []string // cooldowns whose synthetic data files this step writes
+	data    []string // cooldowns (or wafers) whose synthetic data files this step writes
 	narrate string   // what the demo tells the user about this step
 }
 
@@ -37,7 +39,7 @@ const (
 
 var demoStory = []demoStep{
 	{when: "2024-03-15T17:20:00Z", who: "AK", message: "Grow W24-031 (uniform doping) and W24-032 (delta doping); draw Hall-bar mask HB100",
-		paths: []string{"README.md", "wafers", "masks"},
+		paths: []string{"README.md", "wafers", "masks"}, data: []string{"W24-031"},
 		edit: func(dir string) error {
 			// The scorecards come later, once cooldowns measured the wafers.
 			for _, w := range []string{"W24-031", "W24-032"} {
@@ -47,10 +49,10 @@ var demoStory = []demoStep{
 			}
 			return replaceIn(filepath.Join(dir, "masks", "HB100.md"), maskRight, maskTypo)
 		},
-		narrate: "two wafers and the Hall-bar mask (probe 4 entered at 700 um by mistake)"},
+		narrate: "four Si calibration growths, two wafers with their growth logs (RHEED rates, Al fraction, doping from the cell calibration) and the Hall-bar mask (probe 4 entered at 700 um by mistake)"},
 	{when: "2024-03-26T16:05:00Z", who: "JM", message: "Cleave three pieces and process Hall bars (run P24-07)",
 		paths:   []string{"pieces", "processes", "devices"},
-		narrate: "three pieces, one process run, three devices"},
+		narrate: "three pieces, one structured process run (etch rate, dose, TLM contacts), three devices"},
 	{when: "2024-04-02T21:40:00Z", who: "RS", message: "CD24-001: W24-031-A-HB1 in the dark, with a temperature series",
 		paths: []string{"cooldowns/CD24-001.md"}, data: []string{"CD24-001"},
 		narrate: "first cooldown: Hall and SdH densities, mobility, LK mass, quantum lifetime"},
@@ -135,6 +137,14 @@ func Run(scenario fs.FS, dir string, out io.Writer) error {
 		if fails := append(rep.Failures, rep.WriteFailures...); len(fails) > 0 {
 			return fmt.Errorf("demo step %d: %w", i+1, errors.Join(fails...))
 		}
+		// `cleave calc` also draws the plots its plot(...) lines name.
+		pr, err := plotfiles.Sync(abs, nil)
+		if err != nil {
+			return err
+		}
+		if len(pr.Problems) > 0 {
+			return fmt.Errorf("demo step %d: %w", i+1, pr.Problems[0])
+		}
 		stale := 0
 		for _, f := range rep.Files {
 			for _, c := range f.Stale {
@@ -203,6 +213,19 @@ func demoSummary(dir string, out io.Writer) error {
 		}
 		fmt.Fprintln(out)
 	}
+	siteDir := filepath.Join(dir, ".git", "cleave", "site")
+	if state, err := hooks.StateDir(dir); err == nil {
+		siteDir = filepath.Join(state, "site")
+	}
+	st, err := site.Build(dir, site.Options{})
+	if err != nil {
+		return err
+	}
+	if err := st.Write(siteDir); err != nil {
+		return err
+	}
+	fmt.Fprintf(out, "\n$ cleave site %s\nopen file://%s in a browser: every entry with its plots, the lineage as navigation, a search box\n",
+		filepath.ToSlash(siteDir), filepath.ToSlash(filepath.Join(siteDir, "index.html")))
 	fmt.Fprintf(out, `
 What to look at next:
   cd %s
@@ -213,6 +236,7 @@ What to look at next:
   cleave eval --in cooldowns/CD24-001.md 'mu -> cm^2/(V s)'
   cleave check                        what CI runs: exits 1 on a stale result or an invalid entry
   edit a width in masks/HB100.md, then: cleave check; cleave calc
+  cleave serve                        a live preview of the site at http://127.0.0.1:8765/
 `, dir)
 	if len(probs) > 0 || !rep.OK() {
 		return errors.New("the demo notebook has problems (listed above)")
@@ -224,6 +248,8 @@ var demoResults = []struct {
 	file  string
 	names []string
 }{
+	{"wafers/W24-031.md", []string{"x_Al"}},
+	{"processes/P24-07.md", []string{"rate", "Rc_W", "rho_c"}},
 	{"cooldowns/CD24-001.md", []string{"n_H", "n_SdH", "mu", "m_LK", "tau_q"}},
 	{"cooldowns/CD24-002.md", []string{"n_H", "n_SdH", "mu"}},
 	{"cooldowns/CD24-003.md", []string{"n_H", "n_SdH", "mu"}},

@@ -23,7 +23,7 @@ func TestScenarioIsAValidNotebook(t *testing.T) {
 	for _, e := range nb.Entries {
 		kinds[e.Kind]++
 	}
-	for k, want := range map[notebook.Kind]int{"wafer": 2, "mask": 1, "piece": 3, "process": 1, "device": 3, "cooldown": 4} {
+	for k, want := range map[notebook.Kind]int{"wafer": 6, "mask": 1, "piece": 3, "process": 1, "device": 3, "cooldown": 4} {
 		if kinds[k] != want {
 			t.Errorf("%d %s entries, want %d", kinds[k], k, want)
 		}
@@ -45,7 +45,7 @@ func withSweeps(t *testing.T, scenario fs.FS) fs.FS {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, cd := range []string{"CD24-001", "CD24-002", "CD24-003", "CD24-004"} {
+	for _, cd := range []string{"W24-031", "CD24-001", "CD24-002", "CD24-003", "CD24-004"} {
 		for _, s := range demoSweeps(cd) {
 			b, err := s.render()
 			if err != nil {

@@ -30,7 +30,7 @@ func ExampleInitNotebook() {
 	again, err := hooks.InitNotebook(nb, []byte("# Lab notebook\n"))
 	fmt.Println(len(again), err)
 	// Output:
-	// .git/ wafers/ pieces/ masks/ processes/ devices/ cooldowns/ data/ templates/ README.md
+	// .git/ wafers/ pieces/ masks/ processes/ devices/ cooldowns/ data/ templates/ .gitignore README.md
 	// 0 <nil>
 }
 

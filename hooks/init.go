@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"os"
 	"path/filepath"
+	"strings"
 
 	"cleave/notebook"
 
@@ -23,8 +24,9 @@ func Folders() []string {
 }
 
 // InitNotebook makes dir a notebook: a git repository (created with go-git when dir is not
-// inside one yet), the conventional folders (each kept in git by a .gitkeep file), and a
-// README.md written from readme unless one exists. It returns the list of paths it created,
+// inside one yet), the conventional folders (each kept in git by a .gitkeep file), a
+// .gitignore line for the tool's temporary files ([TempPattern]), and a README.md written
+// from readme unless one exists. It returns the list of paths it created,
 // relative to dir. Nothing it writes is state a later command could not rebuild.
 func InitNotebook(dir string, readme []byte) ([]string, error) {
 	abs, err := filepath.Abs(dir)
@@ -57,6 +59,12 @@ func InitNotebook(dir string, readme []byte) ([]string, error) {
 		}
 		created = append(created, f+"/")
 	}
+	switch added, err := ignoreTemps(abs); {
+	case err != nil:
+		return created, fmt.Errorf("init: %w", err)
+	case added:
+		created = append(created, ".gitignore")
+	}
 	rp := filepath.Join(abs, "README.md")
 	if _, err := os.Stat(rp); errors.Is(err, os.ErrNotExist) {
 		if err := os.WriteFile(rp, readme, 0o644); err != nil {
@@ -65,4 +73,34 @@ func InitNotebook(dir string, readme []byte) ([]string, error) {
 		created = append(created, "README.md")
 	}
 	return created, nil
+}
+
+// TempPattern is the .gitignore pattern of the temporary files calc writes beside an entry
+// while it updates its results (see calcblock.IsTempName): a run killed at the wrong moment
+// leaves one, the next calc or check removes it, and meanwhile `git add -A` must not take it.
+const TempPattern = ".*.tmp-*"
+
+// ignoreTemps adds TempPattern to dir's .gitignore (made if missing) unless a line already
+// says it, and reports whether it changed the file.
+func ignoreTemps(dir string) (bool, error) {
+	p := filepath.Join(dir, ".gitignore")
+	old, err := os.ReadFile(p)
+	if err != nil && !errors.Is(err, os.ErrNotExist) {
+		return false, err
+	}
+	for _, l := range strings.Split(string(old), "\n") {
+		if strings.TrimSpace(l) == TempPattern {
+			return false, nil
+		}
+	}
+	add := "# temporary files of an interrupted `cleave calc` (the next run removes them)\n" + TempPattern + "\n"
+	if len(old) > 0 && !strings.HasSuffix(string(old), "\n") {
+		add = "\n" + add
+	}
+	f, err := os.OpenFile(p, os.O_WRONLY|os.O_APPEND|os.O_CREATE, 0o644)
+	if err != nil {
+		return false, err
+	}
+	_, werr := f.WriteString(add)
+	return true, errors.Join(werr, f.Close())
 }

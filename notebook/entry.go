@@ -26,6 +26,7 @@ type File struct {
 
 	problems []Problem // found in this file alone (see Summary.Problems)
 	fence    bool      // may hold a calc block
+	plots    bool      // may hold the result of a plot line
 	data     []DataRef // the data files a cooldown lists
 
 	fsys     fs.FS
@@ -56,6 +57,14 @@ func (f *File) Source() *mdsrc.Source {
 // (a cheap test: false means it has none).
 func (f *File) MayHoldBlock() bool { return f.fence }
 
+// PlotMarker begins the result text of a plot(...) line (package calc/plot writes it; package
+// plotfiles checks the files): a file without it draws no plot.
+const PlotMarker = "plot plots/"
+
+// MayHoldPlot reports whether the file contains PlotMarker (a cheap test: false means it draws
+// no plot).
+func (f *File) MayHoldPlot() bool { return f.plots }
+
 // Known reports whether the file was known from a summary and has not been read.
 func (f *File) Known() bool { return f.fromSumm }
 
@@ -74,6 +83,7 @@ type Entry struct {
 	src    *mdsrc.Source
 	meta   *yaml.Node // the front-matter mapping node
 	layers []LayerRow
+	lk     []Link // the links, read at load (nil for an entry known from a summary)
 }
 
 // load fills the front matter and the layer table of an entry known from a summary.
@@ -205,10 +215,18 @@ func (e *Entry) Quantity(path ...string) (quantity.Quantity, error) {
 
 // Links returns the entry's links in schema order (from, mask, process,
 // pieces, devices), each list in written order.
-func (e *Entry) Links() []Link {
+func (e *Entry) Links() []Link { return slices.Clone(e.links()) }
+
+// links is Links without the copy, for the package's own reading.
+func (e *Entry) links() []Link {
 	if e.sum != nil {
-		return slices.Clone(e.sum.Links)
+		return e.sum.Links
 	}
+	return e.lk
+}
+
+// readLinks reads the links from the front matter (once, when the entry is loaded).
+func (e *Entry) readLinks() []Link {
 	var out []Link
 	for _, f := range linkFields(e.Kind) {
 		n, ok := e.Field(f.Name)

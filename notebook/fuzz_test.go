@@ -23,6 +23,11 @@ func FuzzLoad(f *testing.F) {
 	f.Add("id: P2\nkind: piece\nfrom: P2", "")
 	f.Add("id: W2\nkind: wafer", "## Layers\n\n|\tmaterial | thickness |\n|--|--|\n|\t| 5 K |\n> | a |\n")
 	f.Add("id: W3\r\nkind: wafer\r\nprobes:\n  - 1\n  x: 2", "\xef\xbb\xbf")
+	f.Add("id: W4\nkind: wafer\na: &a [1, 1, 1, 1, 1, 1, 1, 1]\nb: &b [*a, *a, *a, *a, *a, *a, *a, *a]\nc: &c [*b, *b, *b, *b, *b, *b, *b, *b]\nd: &d [*c, *c, *c, *c, *c, *c, *c, *c]\ne: [*d, *d, *d, *d, *d, *d, *d, *d]", "")
+	f.Add("id: W5\nkind: wafer\nnotes: spacer 20 \xb5m", "")
+	f.Add("id: W6\nkind: wafer\nn: [[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[[1]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]]", "")
+	f.Add("id: P3\nkind: process\nsteps:\n  a: {kind: etch, time: 4}\n  b: {kind: metal, stack: Ni/Au 5 nm}\n  c: 1", "")
+	f.Add("id: W7\nkind: wafer\ncalibration: [{cell: Si, cell_temperature: 1150 C}]", "## Layers\n\n| material | time | rate | cells |\n|-|-|-|-|\n| GaAs | 5 s | 1 ML/s | Ga 900 °C, Si |\n")
 	f.Fuzz(func(t *testing.T, front, body string) {
 		watchdog := time.AfterFunc(30*time.Second, func() {
 			panic(fmt.Sprintf("FuzzLoad: no answer after 30 s for front=%q body=%q", front, body))

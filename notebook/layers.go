@@ -12,12 +12,43 @@ import (
 
 // LayerRow is one row of a wafer's layer table (surface first). Cells are
 // trimmed source text; empty cells and "-" give "".
+//
+// Besides its final thickness a row may record how the layer was grown
+// ([LayerGrowth]): the growth time, the growth rate (nm/s, um/h, Å/s or ML/s,
+// where ML alone is a monolayer of the row's material), the substrate
+// temperature (column t_sub), the cell temperatures ("Ga 905 °C, Al 1060 °C,
+// Si 1180 °C") and shutter notes. With time and rate the grown thickness
+// rate × time is Growth.Grown; a row without a thickness takes it as its
+// thickness.
 type LayerRow struct {
 	Layer, Material, Thickness, Doping, Notes string
 	Line                                      int // file line of the row
 	ThicknessQ                                quantity.Quantity
 	Cells                                     []Cell // every cell of the row, in column order
+	// Growth is the row's growth log; nil when the table has no growth columns.
+	Growth *LayerGrowth
 }
+
+// LayerGrowth is what a layer table's growth columns say about one row: the columns as
+// written, and as quantities where given and valid (each Has flag says which).
+type LayerGrowth struct {
+	Time, Rate, TSub, CellText, Shutters string
+	TimeQ, RateQ, TSubQ                  quantity.Quantity
+	Grown                                quantity.Quantity // RateQ × TimeQ
+	HasTime, HasRate, HasTSub, HasGrown  bool
+	CellTemps                            []CellTemp // the cell temperatures, in the order written
+	// FromGrowth says that the row's ThicknessQ is Grown: it has no thickness of its own.
+	FromGrowth bool
+}
+
+// CellTemp is the temperature of one effusion cell while a layer grew.
+type CellTemp struct {
+	Cell string // as written: Ga, Al, Si, As, ...
+	T    quantity.Quantity
+}
+
+// growthColumns are the optional columns of a layer table that record the growth.
+var growthColumns = []string{"time", "rate", "t_sub", "cells", "shutters"}
 
 // Cell is one table cell with its column header and file position.
 type Cell struct {
@@ -27,11 +58,14 @@ type Cell struct {
 }
 
 // readLayers finds the layer table of a wafer entry: the first GFM table
-// whose header has `material` and `thickness` (case-insensitive). It reports
-// a `Layers` heading without such a table, an empty material and a thickness
-// that is not a length with a unit.
+// whose header has `material` and `thickness`, or `material`, `time` and
+// `rate` (case-insensitive). It reports a `Layers` heading without such a
+// table, an empty material, a thickness that is not a length with a unit (a
+// row may leave it empty when it gives time and rate), and growth columns
+// that do not read: a time, a rate (length per time), a substrate temperature,
+// cell temperatures as "Ga 905 °C, Si 1180 °C".
 func (e *Entry) readLayers() []Problem {
-	if e.src == nil || e.src.Doc == nil {
+	if e.src == nil || e.src.Doc() == nil {
 		return nil
 	}
 	var probs []Problem
@@ -43,7 +77,7 @@ func (e *Entry) readLayers() []Problem {
 	var sectionTable *east.Table // the first table in the Layers section
 	var table *east.Table
 	var header []Cell
-	for n := e.src.Doc.FirstChild(); n != nil; n = n.NextSibling() {
+	for n := e.src.Doc().FirstChild(); n != nil; n = n.NextSibling() {
 		switch n := n.(type) {
 		case *ast.Heading:
 			if layersHeading == nil && strings.EqualFold(strings.TrimSpace(e.inlineText(n)), "layers") {
@@ -53,7 +87,7 @@ func (e *Entry) readLayers() []Problem {
 			}
 		case *east.Table:
 			cells := e.headerCells(n)
-			if table == nil && hasColumn(cells, "material") && hasColumn(cells, "thickness") {
+			if table == nil && hasColumn(cells, "material") && (hasColumn(cells, "thickness") || hasColumn(cells, "time") && hasColumn(cells, "rate")) {
 				table, header = n, cells
 			}
 			if inSection && sectionTable == nil {
@@ -74,6 +108,9 @@ func (e *Entry) readLayers() []Problem {
 				var missing []string
 				for _, want := range []string{"material", "thickness"} {
 					if !hasColumn(cells, want) {
+						if want == "thickness" {
+							want = "thickness (or the growth columns time and rate)"
+						}
 						missing = append(missing, want)
 					}
 				}
@@ -120,6 +157,16 @@ func (e *Entry) readLayers() []Problem {
 				lr.Doping = v
 			case "notes":
 				lr.Notes = v
+			case "time":
+				lr.growth().Time = v
+			case "rate":
+				lr.growth().Rate = v
+			case "t_sub":
+				lr.growth().TSub = v
+			case "cells":
+				lr.growth().CellText = v
+			case "shutters":
+				lr.growth().Shutters = v
 			}
 		}
 		if lr.Line == 0 {
@@ -129,9 +176,20 @@ func (e *Entry) readLayers() []Problem {
 		if lr.Material == "" {
 			prob(mat.Line, mat.Col, "layer table: empty material (write the layer's material, e.g. Al0.33Ga0.67As)")
 		}
+		g := lr.Growth
+		if g != nil {
+			probs = append(probs, e.readGrowth(&lr)...)
+		}
 		switch {
+		case lr.Thickness == "" && g != nil && g.HasGrown:
+			lr.ThicknessQ, g.FromGrowth = g.Grown, true
+		case lr.Thickness == "" && g != nil && (g.Time != "" || g.Rate != ""):
+			// a growth column is wrong or missing: reported by readGrowth or here
+			if g.Time == "" || g.Rate == "" {
+				prob(th.Line, th.Col, "layer table: no thickness and no %s: give the thickness, or the layer's growth time and rate", map[bool]string{true: "growth rate", false: "growth time"}[g.Time != ""])
+			}
 		case lr.Thickness == "":
-			prob(th.Line, th.Col, "layer table: empty thickness: expected a length with a unit, e.g. `20 nm`")
+			prob(th.Line, th.Col, "layer table: empty thickness: expected a length with a unit, e.g. `20 nm` (or the layer's growth time and rate)")
 		default:
 			qv, err := quantity.ParseQuantity(lr.Thickness)
 			switch {
@@ -233,4 +291,118 @@ func findCell(cells []Cell, name string) Cell {
 		return Cell{Line: cells[0].Line, Col: cells[0].Col}
 	}
 	return Cell{Line: 1, Col: 1}
+}
+
+// readGrowth reads the growth columns of a row (lr.Growth is set): time, rate (a bare ML is a
+// monolayer of the row's material), t_sub and cells, with the grown thickness rate × time.
+func (e *Entry) readGrowth(lr *LayerRow) []Problem {
+	var probs []Problem
+	at := func(col string) Cell { return findCell(lr.Cells, col) }
+	prob := func(col, format string, args ...any) {
+		c := at(col)
+		probs = append(probs, Problem{Path: e.Path, Line: c.Line, Col: max(c.Col, 1), Msg: fmt.Sprintf(format, args...)})
+	}
+	read := func(col, text string, want quantity.Dim, what, example string) (quantity.Quantity, bool) {
+		if text == "" {
+			return quantity.Quantity{}, false
+		}
+		q, err := quantity.ParseQuantity(text)
+		switch {
+		case err != nil:
+			prob(col, "layer table: %s %q: %v (expected %s, e.g. `%s`)", col, text, err, what, example)
+		case q.Dim() != want:
+			if hint := celsiusHint(q.Dim(), want); hint != "" {
+				prob(col, "layer table: %s %q %s", col, text, hint)
+			} else if q.Dim().IsDimensionless() {
+				prob(col, "layer table: %s %q: expected %s with a unit, e.g. `%s`", col, text, what, example)
+			} else {
+				prob(col, "layer table: %s %q is %s, expected %s, e.g. `%s`", col, text, dimName(q.Dim()), what, example)
+			}
+		case q.Value() < 0 && want != quantity.Temperature:
+			prob(col, "layer table: %s %q is negative", col, text)
+		default:
+			return q, true
+		}
+		return quantity.Quantity{}, false
+	}
+	g := lr.Growth
+	g.TimeQ, g.HasTime = read("time", g.Time, quantity.Time, "a time", "212 s")
+	g.RateQ, g.HasRate = read("rate", monolayerOf(g.Rate, lr.Material), quantity.Length.Div(quantity.Time), "a growth rate", "1 ML/s` or `0.28 nm/s")
+	g.TSubQ, g.HasTSub = read("t_sub", g.TSub, quantity.Temperature, "a substrate temperature", "600 °C")
+	if g.HasTime && g.HasRate {
+		g.Grown, g.HasGrown = quantity.Mul(g.RateQ, g.TimeQ), true
+	}
+	if g.CellText != "" {
+		cells, err := ParseCellTemps(g.CellText)
+		if err != nil {
+			prob("cells", "layer table: cells %q: %v", g.CellText, err)
+		}
+		g.CellTemps = cells
+	}
+	return probs
+}
+
+// growth returns the row's growth log, made on first use.
+func (lr *LayerRow) growth() *LayerGrowth {
+	if lr.Growth == nil {
+		lr.Growth = &LayerGrowth{}
+	}
+	return lr.Growth
+}
+
+// monolayerOf writes a bare ML in a growth rate as ML(material): in a layer table a monolayer
+// is one of the row's material. ML followed by "(" names its own material and is kept.
+func monolayerOf(rate, material string) string {
+	if material == "" || !strings.Contains(rate, "ML") {
+		return rate
+	}
+	var b strings.Builder
+	for i := 0; i < len(rate); i++ {
+		if strings.HasPrefix(rate[i:], "ML") && (i == 0 || !isLetter(rate[i-1])) &&
+			(i+2 == len(rate) || rate[i+2] != '(' && !isLetter(rate[i+2])) {
+			b.WriteString("ML(" + material + ")")
+			i++
+			continue
+		}
+		b.WriteByte(rate[i])
+	}
+	return b.String()
+}
+
+func isLetter(c byte) bool { return c >= 'a' && c <= 'z' || c >= 'A' && c <= 'Z' || c == '_' }
+
+// ParseCellTemps reads the cells column of a layer table: cell names each followed by a
+// temperature, separated by commas or semicolons: "Ga 905 °C, Al 1060 °C, Si 1180 °C". A
+// cell name is a word (Ga, Al, Si, As4); the temperature is a quantity of dimension
+// temperature (°C or K). "-" or an empty text gives no cells.
+func ParseCellTemps(s string) ([]CellTemp, error) {
+	s = strings.TrimSpace(s)
+	if s == "" || s == "-" || s == "—" {
+		return nil, nil
+	}
+	var out []CellTemp
+	for _, part := range strings.FieldsFunc(s, func(r rune) bool { return r == ',' || r == ';' }) {
+		part = strings.TrimSpace(part)
+		name, rest, ok := strings.Cut(part, " ")
+		if !ok || name == "" {
+			return out, fmt.Errorf("%q: expected a cell and its temperature, e.g. `Ga 905 °C`", part)
+		}
+		for _, r := range name {
+			if !(r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' || r == '_' || r == '-') {
+				return out, fmt.Errorf("%q: the cell name %q is not a word (expected e.g. Ga, Al, Si)", part, name)
+			}
+		}
+		q, err := quantity.ParseQuantity(strings.TrimSpace(rest))
+		if err != nil {
+			return out, fmt.Errorf("%s: %v", name, err)
+		}
+		if q.Dim() != quantity.Temperature {
+			if hint := celsiusHint(q.Dim(), quantity.Temperature); hint != "" {
+				return out, fmt.Errorf("%s %s %s", name, strings.TrimSpace(rest), hint)
+			}
+			return out, fmt.Errorf("%s %s is not a temperature (expected e.g. `%s 905 °C`)", name, strings.TrimSpace(rest), name)
+		}
+		out = append(out, CellTemp{Cell: name, T: q})
+	}
+	return out, nil
 }

@@ -27,13 +27,10 @@ func (nb *Notebook) index() {
 		if nb.byID[e.ID] != e {
 			continue // a duplicate: its links would make the graph ambiguous
 		}
-		fields := map[string]FieldSpec{}
-		for _, f := range linkFields(e.Kind) {
-			fields[f.Name] = f
-		}
-		for _, l := range e.Links() {
+		lfs := linkFields(e.Kind)
+		for _, l := range e.links() {
 			t, ok := nb.byID[l.ID]
-			if !ok || !slices.Contains(fields[l.Field].Kinds, t.Kind) || slices.Contains(nb.parents[e], t) {
+			if !ok || !linkAllows(lfs, l.Field, t.Kind) || slices.Contains(nb.parents[e], t) {
 				continue
 			}
 			nb.parents[e] = append(nb.parents[e], t)
@@ -43,6 +40,17 @@ func (nb *Notebook) index() {
 	for _, cs := range nb.children {
 		slices.SortFunc(cs, byKindThenID)
 	}
+}
+
+// linkAllows reports whether the link field named field (one of lfs) may point at an entry
+// of kind k: only such links are edges of the lineage.
+func linkAllows(lfs []FieldSpec, field string, k Kind) bool {
+	for _, f := range lfs {
+		if f.Name == field {
+			return slices.Contains(f.Kinds, k)
+		}
+	}
+	return false
 }
 
 // childOrder is the order in which children are listed: devices before the

@@ -163,9 +163,10 @@ func errText(err error) string {
 	return err.Error()
 }
 
-var idPattern = regexp.MustCompile(`^[A-Za-z0-9._-]+$`)
+var idPattern = regexp.MustCompile(`^[A-Za-z0-9_-][A-Za-z0-9._-]*$`)
 
-// ValidID reports whether id is a valid entry id: letters, digits, '-', '_', '.'.
+// ValidID reports whether id is a valid entry id: letters, digits, '-', '_', '.', not
+// starting with '.' (the file of such an entry would be hidden, and the loader skips it).
 func ValidID(id string) bool { return idPattern.MatchString(id) }
 
 // loadFile reads and parses one file. It never returns a nil *File. The
@@ -180,6 +181,7 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 		return f, f.problems
 	}
 	f.fence = bytes.Contains(raw, []byte("cleave"))
+	f.plots = bytes.Contains(raw, []byte(PlotMarker))
 	src, err := mdsrc.Parse(raw)
 	f.src = src
 	var probs []Problem
@@ -202,6 +204,7 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 		if e != nil {
 			e.file = f
 			e.once.Do(func() {}) // loaded now
+			e.lk = e.readLinks()
 			f.Entry = e
 			if e.Kind == KindWafer {
 				probs = append(probs, e.readLayers()...)
@@ -216,7 +219,7 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 
 // knownFile makes a file from its summary, to be read when asked.
 func knownFile(fsys fs.FS, s *Summary) *File {
-	f := &File{Path: s.Path, fsys: fsys, fromSumm: true, problems: s.Problems, fence: s.Fence, data: s.Data}
+	f := &File{Path: s.Path, fsys: fsys, fromSumm: true, problems: s.Problems, fence: s.Fence, plots: s.Plots, data: s.Data}
 	if s.Entry {
 		f.Entry = &Entry{ID: s.ID, Kind: s.Kind, Path: s.Path, file: f, sum: s}
 	}
@@ -249,6 +252,10 @@ func parseEntry(p string, src *mdsrc.Source) (e *Entry, probs []Problem) {
 	}
 	var doc yaml.Node
 	if err := decodeYAML(src.Raw[src.FrontMatter.Start:src.FrontMatter.End], &doc); err != nil {
+		if fe, ok := err.(*frontMatterError); ok {
+			prob(fe.Line+src.FrontMatterLine-1, fe.Col, "front matter: %s", fe.Msg)
+			return nil, probs
+		}
 		line, msg := delimLine, err.Error()
 		if m := yamlLineMsg.FindStringSubmatch(msg); m != nil {
 			n, _ := strconv.Atoi(m[1])
@@ -300,7 +307,7 @@ func parseEntry(p string, src *mdsrc.Source) (e *Entry, probs []Problem) {
 		ok = false
 	case idNode.Kind != yaml.ScalarNode || !ValidID(idNode.Value):
 		line, col := tmp.Pos(idNode)
-		prob(line, col, "id: %q is not a valid id: use letters, digits, '-', '_' and '.'", scalarOr(idNode))
+		prob(line, col, "id: %q is not a valid id: %s", scalarOr(idNode), idRule)
 		ok = false
 	}
 	switch {
@@ -318,14 +325,21 @@ func parseEntry(p string, src *mdsrc.Source) (e *Entry, probs []Problem) {
 }
 
 // decodeYAML decodes into a node, turning a panic inside the YAML library
-// into an error so that bad input can never crash a load.
+// into an error so that bad input can never crash a load, within the bounds
+// of yamlbound.go (a *frontMatterError).
 func decodeYAML(b []byte, n *yaml.Node) (err error) {
 	defer func() {
 		if r := recover(); r != nil {
 			err = fmt.Errorf("yaml: cannot parse: %v", r)
 		}
 	}()
-	return yaml.Unmarshal(b, n)
+	if err := checkYAMLText(b); err != nil {
+		return err
+	}
+	if err := yaml.Unmarshal(b, n); err != nil {
+		return err
+	}
+	return checkYAMLTree(n)
 }
 
 func scalarOr(n *yaml.Node) string {

@@ -15,6 +15,9 @@ var (
 	ErrNoParent  = errors.New("no parent given")
 )
 
+// idRule says what an id may hold, for messages (see [ValidID]).
+const idRule = "use letters, digits, '-', '_' and '.', and do not start with '.' (files whose names start with '.' are hidden and never read)"
+
 // DefaultPath is the conventional slash path of a new entry:
 // wafers/, pieces/, masks/, processes/, devices/ or cooldowns/, then id.md.
 // An unknown kind goes to the top level.
@@ -38,7 +41,7 @@ func (nb *Notebook) CheckNew(kind Kind, id string, parents []string) error {
 		errs = append(errs, fmt.Errorf("new entry: unknown kind %q: expected one of %s", kind, kindList()))
 	}
 	if !ValidID(id) {
-		errs = append(errs, fmt.Errorf("new entry: %w %q: use letters, digits, '-', '_' and '.'", ErrBadID, id))
+		errs = append(errs, fmt.Errorf("new entry: %w %q: %s", ErrBadID, id, idRule))
 	} else if e, ok := nb.byID[id]; ok {
 		errs = append(errs, fmt.Errorf("new entry: %w: %q is the %s in %s", ErrExists, id, e.Kind, e.Path))
 	}

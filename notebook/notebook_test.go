@@ -2,8 +2,8 @@ package notebook
 
 import (
 	"bytes"
+	"cleave/internal/testutil"
 	"errors"
-	"flag"
 	"os"
 	"path/filepath"
 	"slices"
@@ -12,24 +12,10 @@ import (
 	"testing/fstest"
 )
 
-var update = flag.Bool("update", false, "rewrite golden files")
-
-// golden compares got with the file at path, or rewrites it with -update.
+// golden compares got with the file at path, or rewrites it with -update (testutil's flag).
 func golden(t *testing.T, path string, got []byte) {
 	t.Helper()
-	if *update {
-		if err := os.WriteFile(path, got, 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if !bytes.Equal(got, want) {
-		t.Errorf("%s differs:\n--- got\n%s--- want\n%s", path, got, want)
-	}
+	testutil.Golden(t, path, got)
 }
 
 func loadGood(t testing.TB) *Notebook {
@@ -339,6 +325,12 @@ func TestCheckNewAndDefaultPath(t *testing.T) {
 		{KindCooldown, "C9", []string{"W23-017-a"}, ErrWrongKind, "expected a device"},
 		{KindWafer, "W9", []string{"W23-017"}, ErrWrongKind, "has no parents"},
 		{KindPiece, "bad id", []string{"W23-017"}, ErrBadID, "bad id"},
+		// Issue 13: these made hidden files (wafers/..md) the loader never reads.
+		{KindWafer, ".", nil, ErrBadID, "do not start with '.'"},
+		{KindWafer, "..", nil, ErrBadID, "do not start with '.'"},
+		{KindWafer, ".hidden", nil, ErrBadID, "do not start with '.'"},
+		{KindWafer, "", nil, ErrBadID, "invalid id"},
+		{KindWafer, "W24.1", nil, nil, ""},
 		// a piece and a device cannot exist without the sample they were cut from
 		{KindPiece, "P10", nil, ErrNoParent, "needs --from with the id of a wafer or piece"},
 		{KindDevice, "D10", nil, ErrNoParent, "needs --from with the id of a piece"},

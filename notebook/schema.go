@@ -39,20 +39,24 @@ type FieldType int
 
 // Field types. A Map or List field may describe its members in Field.Fields.
 const (
-	TypeText      FieldType = iota // any scalar, kept as text
-	TypeDate                       // a date, YYYY-MM-DD
-	TypeBool                       // true or false
-	TypeEnum                       // one of Field.Values
-	TypeQuantity                   // a number with a unit of dimension Field.Dims[0] (or another of Dims)
-	TypeLink                       // the id of one entry of one of Field.Kinds
-	TypeLinks                      // a list of ids (a single id is accepted as a list of one)
-	TypeTextList                   // a list of scalars
-	TypeMap                        // a mapping; members in Field.Fields
-	TypeList                       // a list of mappings, each with members in Field.Fields
-	TypeMapOrList                  // a mapping or a list (e.g. contact numbering)
+	TypeText         FieldType = iota // any scalar, kept as text
+	TypeDate                          // a date, YYYY-MM-DD
+	TypeBool                          // true or false
+	TypeEnum                          // one of Field.Values
+	TypeQuantity                      // a number with a unit of dimension Field.Dims[0] (or another of Dims)
+	TypeLink                          // the id of one entry of one of Field.Kinds
+	TypeLinks                         // a list of ids (a single id is accepted as a list of one)
+	TypeTextList                      // a list of scalars
+	TypeMap                           // a mapping; members in Field.Fields
+	TypeList                          // a list of mappings, each with members in Field.Fields
+	TypeMapOrList                     // a mapping or a list (e.g. contact numbering)
+	TypeQuantityList                  // a list of quantities of dimension Field.Dims[0] (or another of Dims)
+	TypeNamedMaps                     // a mapping of names to mappings with members in Field.Fields (plus Field.Variants[kind])
+	TypeMetalStack                    // a metal stack, "Ni/AuGe/Ni/Au 5/150/30/100 nm"
 )
 
-var typeNames = [...]string{"text", "date", "bool", "enum", "quantity", "link", "list of links", "list", "map", "list of maps", "map or list"}
+var typeNames = [...]string{"text", "date", "bool", "enum", "quantity", "link", "list of links", "list", "map", "list of maps", "map or list",
+	"list of quantities", "map of named maps", "metal stack"}
 
 func (t FieldType) String() string {
 	if int(t) < len(typeNames) {
@@ -73,6 +77,9 @@ type FieldSpec struct {
 	TextOK   bool           // TypeMap: a plain text is accepted instead (position: centre; illumination: none)
 	Required bool
 	Doc      string
+	// TypeNamedMaps: each member's `kind` names its variant, whose fields come after Fields
+	// (the process steps: a lithography step has a spin speed, an etch a depth).
+	Variants map[string][]FieldSpec
 }
 
 // Dimensions used by the schema.
@@ -86,7 +93,28 @@ var (
 	dimVoltage    = quantity.Mass.Mul(quantity.Length.Pow(2)).Div(quantity.Time.Pow(3)).Div(quantity.Current)
 	dimResistance = dimVoltage.Div(quantity.Current)
 	dimField      = quantity.Mass.Div(quantity.Time.Pow(2)).Div(quantity.Current) // tesla
+	dimCharge     = quantity.Current.Mul(quantity.Time)
+	dimDensity3D  = quantity.Length.Pow(-3)
+	dimRate       = quantity.Length.Div(quantity.Time)
+	dimPressure   = quantity.Mass.Div(quantity.Length).Div(quantity.Time.Pow(2))
+	dimIntensity  = quantity.Mass.Div(quantity.Time.Pow(3))                         // W/m^2
+	dimDose       = quantity.Mass.Div(quantity.Time.Pow(2))                         // J/m^2
+	dimChargeArea = quantity.Current.Mul(quantity.Time).Div(quantity.Length.Pow(2)) // C/m^2
+	dimGasFlow    = quantity.Amount.Div(quantity.Time)
+	dimRamp       = quantity.Temperature.Div(quantity.Time)
+	dimVolume     = quantity.Length.Pow(3)
+	dimPower      = quantity.Mass.Mul(quantity.Length.Pow(2)).Div(quantity.Time.Pow(3))
 )
+
+// celsiusHint explains a temperature written with C, the coulomb: "is a charge (C is the
+// coulomb): write °C or degC for degrees Celsius". It is "" unless a temperature was
+// expected and a charge found.
+func celsiusHint(got, want quantity.Dim) string {
+	if want == dimTemp && got == dimCharge {
+		return "is a charge (C is the coulomb): write °C or degC for degrees Celsius"
+	}
+	return ""
+}
 
 // dimNames names the dimensions the schema uses, for messages.
 var dimNames = map[quantity.Dim]string{
@@ -99,6 +127,17 @@ var dimNames = map[quantity.Dim]string{
 	dimVoltage:    "a voltage",
 	dimResistance: "a resistance",
 	dimField:      "a magnetic field",
+	dimCharge:     "a charge",
+	dimDensity3D:  "a volume density",
+	dimRate:       "a rate (length per time)",
+	dimPressure:   "a pressure",
+	dimIntensity:  "an intensity (power per area)",
+	dimDose:       "a dose (energy per area)",
+	dimChargeArea: "a dose (charge per area)",
+	dimGasFlow:    "a gas flow",
+	dimRamp:       "a ramp rate (temperature per time)",
+	dimVolume:     "a volume",
+	dimPower:      "a power",
 }
 
 func dimName(d quantity.Dim) string {
@@ -154,6 +193,73 @@ var sectionFields = []FieldSpec{
 // MaskShapes are the shapes a mask may have (the `shape:` field; hall-bar when absent).
 var MaskShapes = []string{"hall-bar", "L", "van-der-pauw", "cloverleaf", "corbino"}
 
+// calibrationFields are a calibration wafer's records of a cell: the cell temperature, and
+// the density measured in a doped layer grown at growth_rate, or the sheet density of a
+// delta layer with its shutter time.
+var calibrationFields = []FieldSpec{
+	text("cell", "the effusion cell, e.g. Si, Be"),
+	q("cell_temperature", dimTemp, "1150 °C", "cell temperature during the calibration layer"),
+	q("density", dimDensity3D, "1.1e18 cm^-3", "density measured in the layer (Hall, SIMS, C-V)"),
+	q("growth_rate", dimRate, "1 ML(GaAs)/s", "growth rate of the doped layer (gives the flux)"),
+	q("sheet_density", dimDensity2D, "2.5e12 cm^-2", "sheet density of a delta layer"),
+	q("time", dimTime, "100 s", "shutter time of a delta layer"),
+	text("method", "how the density was measured, e.g. Hall at 300 K"),
+}
+
+// tlmPatternFields describe a transfer-length pattern on a mask.
+var tlmPatternFields = []FieldSpec{
+	q("width", dimLength, "100 um", "contact (and channel) width"),
+	q("contact_length", dimLength, "100 um", "length of each contact pad along the current"),
+	{Name: "gaps", Type: TypeQuantityList, Dims: []quantity.Dim{dimLength}, Example: "[5 um, 10 um, 20 um, 40 um]", Doc: "gaps between neighbouring pads, in measuring order"},
+}
+
+// stepFields are the fields every process step may carry; stepKinds add each kind's own.
+var stepFields = []FieldSpec{
+	{Name: "kind", Type: TypeEnum, Required: true, Doc: "what the step does", Values: stepKindNames()},
+	text("caution", "the usual caution for this step; local rules and the SOP come first"),
+	{Name: "date", Type: TypeDate, Doc: "date of the step"},
+	text("by", "initials"),
+	text("tool", "tool or bench"),
+	text("sop", "the SOP followed"),
+	text("notes", "free notes"),
+}
+
+// stepKinds are the kinds of process step and their fields.
+var stepKinds = map[string][]FieldSpec{
+	"clean": {text("solvents", "solvents in order"), q("time", dimTime, "5 min", "time in each"),
+		q("temperature", dimTemp, "50 °C", "bath temperature"), {Name: "ultrasonic", Type: TypeBool, Doc: "ultrasonic bath"}},
+	"lithography": {text("resist", "resist"), q("spin", dimFrequency, "4000 rpm", "spin speed"), q("spin_time", dimTime, "45 s", "spin time"),
+		q("bake", dimTemp, "115 °C", "soft-bake temperature"), q("bake_time", dimTime, "90 s", "soft-bake time"),
+		text("mask", "mask id and layer, or pattern file"), q("intensity", dimIntensity, "12 mW/cm^2", "lamp intensity"),
+		q("exposure", dimTime, "6 s", "exposure time"),
+		{Name: "dose", Type: TypeQuantity, Dims: []quantity.Dim{dimDose, dimChargeArea}, Example: "72 mJ/cm^2", Doc: "exposure dose (optical, or e-beam in uC/cm^2)"},
+		text("developer", "developer"), q("develop_time", dimTime, "45 s", "develop time")},
+	"etch": {text("etchant", "chemistry and ratio, or the dry recipe"), text("method", "wet or dry"),
+		q("temperature", dimTemp, "21 °C", "etch temperature"), q("time", dimTime, "4 min", "etch time"),
+		q("target", dimLength, "150 nm", "target depth"), q("depth", dimLength, "148 nm", "measured depth"),
+		q("rate", dimRate, "37 nm/min", "etch rate, when known beforehand")},
+	"dip": {text("solution", "solution and ratio"), q("time", dimTime, "30 s", "dip time"), q("rinse", dimTime, "30 s", "rinse time")},
+	"metal": {{Name: "stack", Type: TypeMetalStack, Doc: `metals bottom first and their thicknesses, e.g. "Ni/AuGe/Ni/Au 5/150/30/100 nm"`},
+		text("method", "evaporation, sputtering"), q("base_pressure", dimPressure, "2e-7 Torr", "base pressure"),
+		q("rate", dimRate, "0.1 nm/s", "deposition rate")},
+	"liftoff": {text("solvent", "solvent"), q("time", dimTime, "30 min", "time"), {Name: "ultrasonic", Type: TypeBool, Doc: "ultrasonic bath"}},
+	"anneal": {q("temperature", dimTemp, "440 °C", "anneal temperature"), q("time", dimTime, "60 s", "time at temperature"),
+		text("gas", "ambient"), q("flow", dimGasFlow, "500 sccm", "gas flow"), q("ramp", dimRamp, "20 °C/s", "ramp rate")},
+	"dielectric": {text("material", "e.g. Al2O3"), text("precursors", "precursors"), q("temperature", dimTemp, "150 °C", "deposition temperature"),
+		text("cycles", "ALD cycles"), q("thickness", dimLength, "30 nm", "thickness")},
+	"tlm": {text("pattern", "the TLM pattern on the mask"), text("mask", "the mask's id, when not in the entry's lineage"),
+		{Name: "gaps", Type: TypeQuantityList, Dims: []quantity.Dim{dimLength}, Example: "[5 um, 10 um, 20 um]", Doc: "gaps, when no pattern is named"},
+		{Name: "resistances", Type: TypeQuantityList, Dims: []quantity.Dim{dimResistance}, Example: "[60 Ohm, 110 Ohm, 210 Ohm]", Doc: "total resistance across each gap"},
+		q("width", dimLength, "100 um", "contact width, when no pattern is named"), q("contact_length", dimLength, "100 um", "contact length"),
+		q("temperature", dimTemp, "21 °C", "measurement temperature")},
+	"bond":  {text("carrier", "chip carrier"), text("wire", "wire and diameter"), text("glue", "glue")},
+	"other": {},
+}
+
+func stepKindNames() []string {
+	return []string{"clean", "lithography", "etch", "dip", "metal", "liftoff", "anneal", "dielectric", "tlm", "bond", "other"}
+}
+
 // KindInfo describes one entry kind: everything `validate`, `new`, `init`, the templates and
 // the tests read about it. Adding a kind is one row of kindTable plus its template
 // (templates/defaults/KIND.md).
@@ -190,6 +296,7 @@ var kindTable = []KindInfo{
 		{Name: "doping_scheme", Type: TypeEnum, Values: []string{"uniform", "delta", "none"}, Doc: "doping scheme"},
 		{Name: "rotation", Type: TypeBool, Doc: "substrate rotation during growth"},
 		q("design_density", dimDensity2D, "3e11 cm^-2", "designed sheet density"),
+		{Name: "calibration", Type: TypeList, Fields: calibrationFields, Doc: "a calibration wafer's cell calibrations (cell_calibration reads them)"},
 	}},
 	{Kind: KindPiece, Folder: "pieces", Doc: "a part cleaved from a wafer or another piece: size, position on the wafer", Fields: []FieldSpec{
 		link("from", true, "the wafer or piece it was cleaved from", KindWafer, KindPiece),
@@ -211,9 +318,12 @@ var kindTable = []KindInfo{
 		q("outer_radius", dimLength, "500 um", "outer radius of a Corbino disc"),
 		q("size", dimLength, "5 mm", "side of a van der Pauw square or cloverleaf"),
 		{Name: "contacts", Type: TypeMapOrList, Doc: "contacts: source and drain (a bar), corners (van der Pauw), inner and outer (Corbino), pads"},
+		{Name: "tlm", Type: TypeNamedMaps, Fields: tlmPatternFields, Doc: "transfer-length patterns by name: width, contact_length, gaps"},
 	}},
 	{Kind: KindProcess, Folder: "processes", Doc: "a fabrication run: ordered steps with parameters and cautions", Fields: []FieldSpec{
 		links("pieces", "the pieces it treated", KindPiece),
+		links("masks", "the masks it used", KindMask),
+		{Name: "steps", Type: TypeNamedMaps, Fields: stepFields, Variants: stepKinds, Doc: "the steps in order, by name: each a map with its kind and quantities"},
 	}},
 	{Kind: KindDevice, Folder: "devices", Doc: "one patterned device on a piece", Fields: []FieldSpec{
 		link("from", true, "the piece it was patterned on", KindPiece),

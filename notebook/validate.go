@@ -2,7 +2,9 @@ package notebook
 
 import (
 	"cleave/calc"
+	"cleave/calc/physics"
 	"cmp"
+	"errors"
 	"fmt"
 	"io/fs"
 	"path"
@@ -61,7 +63,7 @@ func (nb *Notebook) Validate() []Problem {
 		if !ok {
 			continue // an unknown kind: reported with the file's own problems
 		}
-		for _, l := range e.Links() {
+		for _, l := range e.links() {
 			f, _ := lookupField(fields, l.Field)
 			t, ok := nb.byID[l.ID]
 			switch {
@@ -94,7 +96,7 @@ func (nb *Notebook) Validate() []Problem {
 		e, next := cyc[0], cyc[1%len(cyc)]
 		p := e.metaPos()
 		line, col := p.Line, p.Col
-		for _, l := range e.Links() {
+		for _, l := range e.links() {
 			if l.ID == next.ID {
 				line, col = l.Line, l.Col
 				break
@@ -271,8 +273,74 @@ func checkValue(e *Entry, v *yaml.Node, f FieldSpec, name string) []Problem {
 		if v.Kind != yaml.MappingNode && v.Kind != yaml.SequenceNode {
 			return bad("expected a map or a list, found a %s", nodeKindName(v))
 		}
+	case TypeQuantityList:
+		if v.Kind != yaml.SequenceNode {
+			return bad("expected a list such as %s, found a %s", f.Example, nodeKindName(v))
+		}
+		item := f
+		item.Type, item.Example = TypeQuantity, strings.TrimSuffix(strings.TrimPrefix(strings.SplitN(f.Example, ",", 2)[0], "["), "]")
+		var ps []Problem
+		for i, c := range v.Content {
+			if c = deref(c); c != nil && !isNull(c) {
+				ps = append(ps, checkQuantity(e, c, item, fmt.Sprintf("%s[%d]", name, i))...)
+			}
+		}
+		return ps
+	case TypeNamedMaps:
+		return checkNamedMaps(e, v, f, name)
+	case TypeMetalStack:
+		if v.Kind != yaml.ScalarNode {
+			return bad("expected a metal stack such as \"Ni/AuGe/Ni/Au 5/150/30/100 nm\", found a %s", nodeKindName(v))
+		}
+		if _, err := physics.ParseStack(v.Value); err != nil {
+			var se *physics.StackError
+			if errors.As(err, &se) {
+				return bad("%s (expected the metals, bottom first, then their thicknesses and one unit: \"Ni/AuGe/Ni/Au 5/150/30/100 nm\")", se.Msg)
+			}
+			return bad("%v", err)
+		}
 	}
 	return nil
+}
+
+// checkNamedMaps checks a mapping of names to maps (the process steps, a mask's TLM
+// patterns): each member a map whose fields are f.Fields, plus the fields of its kind's
+// variant when f has variants (then `kind` is required and must be one of them).
+func checkNamedMaps(e *Entry, v *yaml.Node, f FieldSpec, name string) []Problem {
+	line, col := e.Pos(v)
+	if v.Kind != yaml.MappingNode {
+		return []Problem{{Path: e.Path, Line: line, Col: col, Msg: fmt.Sprintf("%s: expected a map of named entries (name: {fields}), found a %s", name, nodeKindName(v))}}
+	}
+	var ps []Problem
+	for i := 0; i+1 < len(v.Content); i += 2 {
+		k, m := v.Content[i], deref(v.Content[i+1])
+		member := name + "." + k.Value
+		if m == nil || isNull(m) {
+			continue
+		}
+		if m.Kind != yaml.MappingNode {
+			l, c := e.Pos(m)
+			ps = append(ps, Problem{Path: e.Path, Line: l, Col: c, Msg: fmt.Sprintf("%s: expected a map of %s, found a %s", member, memberNames(f), nodeKindName(m))})
+			continue
+		}
+		fields := f.Fields
+		if f.Variants != nil {
+			kn := deref(mapValue(m, "kind"))
+			switch {
+			case kn == nil:
+				l, c := e.Pos(k)
+				ps = append(ps, Problem{Path: e.Path, Line: l, Col: c, Msg: fmt.Sprintf("%s: missing kind: expected one of %s", member, strings.Join(stepKindNames(), ", "))})
+				continue
+			case f.Variants[kn.Value] == nil && kn.Kind == yaml.ScalarNode:
+				l, c := e.Pos(kn)
+				ps = append(ps, Problem{Path: e.Path, Line: l, Col: c, Msg: fmt.Sprintf("%s.kind: %q is not a kind of step: expected one of %s", member, kn.Value, strings.Join(stepKindNames(), ", "))})
+				continue
+			}
+			fields = append(slices.Clone(f.Fields), f.Variants[kn.Value]...)
+		}
+		ps = append(ps, checkFields(e, m, fields, member+".")...)
+	}
+	return ps
 }
 
 func memberNames(f FieldSpec) string {
@@ -320,6 +388,9 @@ func checkQuantity(e *Entry, v *yaml.Node, f FieldSpec, name string) []Problem {
 	}
 	if qv.Dim().IsDimensionless() {
 		return bad("expected %s with a unit, e.g. `%s`", want, f.Example)
+	}
+	if hint := celsiusHint(qv.Dim(), f.Dims[0]); hint != "" {
+		return bad("%q %s", v.Value, hint)
 	}
 	return bad("%q is %s, expected %s, e.g. `%s`", v.Value, dimName(qv.Dim()), want, f.Example)
 }
@@ -406,6 +477,9 @@ func (nb *Notebook) checkDataFiles(e *Entry) []Problem {
 			}
 			ps = append(ps, Problem{Path: e.Path, Line: d.Line, Col: max(d.Col, 1),
 				Msg: fmt.Sprintf("data: %s is %s, not a data file", full, what)})
+		case fi.Size() > calc.MaxDataBytes:
+			ps = append(ps, Problem{Path: e.Path, Line: d.Line, Col: max(d.Col, 1),
+				Msg: fmt.Sprintf("data: %s: %v", full, calc.DataSizeError(fi.Size()))})
 		}
 	}
 	return ps
@@ -477,7 +551,7 @@ func MaskContacts(m *Entry) []string {
 }
 
 // maskShapeProblems checks that a mask carries what its shape needs: a Hall bar a width and
-// probes, an L-shaped bar sections (each with a width and a length) and probes on them, a van
+// probes (a mask without a shape that holds only TLM patterns is no Hall bar), an L-shaped bar sections (each with a width and a length) and probes on them, a van
 // der Pauw square or cloverleaf its four corner contacts, a Corbino disc both radii.
 func maskShapeProblems(e *Entry) []Problem {
 	var ps []Problem
@@ -504,6 +578,11 @@ func maskShapeProblems(e *Entry) []Problem {
 			return nil
 		}
 		return n
+	}
+	if _, hasTLM := e.Field("tlm"); !hasShape && hasTLM {
+		if _, hasProbes := e.Field("probes"); !hasProbes {
+			return nil // a mask of transfer-length patterns only, no Hall bar
+		}
 	}
 	switch shape {
 	case "hall-bar":

@@ -121,6 +121,12 @@ var linkField = map[string]struct {
 // entry front-matter contract of the project.
 var quantityFields = map[string][]string{
 	"wafer": {"design_density"},
+	"process": {"steps.solvent_clean.time", "steps.solvent_clean.temperature", "steps.mesa_litho.spin", "steps.mesa_litho.spin_time",
+		"steps.mesa_litho.bake", "steps.mesa_litho.bake_time", "steps.mesa_litho.intensity", "steps.mesa_litho.exposure",
+		"steps.mesa_litho.develop_time", "steps.mesa_etch.temperature", "steps.mesa_etch.time", "steps.mesa_etch.target",
+		"steps.mesa_etch.depth", "steps.deoxidation.time", "steps.deoxidation.rinse", "steps.ohmic_metal.base_pressure",
+		"steps.ohmic_liftoff.time", "steps.ohmic_anneal.temperature", "steps.ohmic_anneal.time", "steps.ohmic_anneal.flow",
+		"steps.tlm_rt.gaps[]", "steps.tlm_rt.width", "steps.tlm_rt.resistances[]", "steps.tlm_rt.temperature"},
 	"piece": {"width", "length", "position.x", "position.y"},
 	"mask":  {"width", "length", "probes[].position", "probes[].arm_width"},
 	"device": {"as_built.width", "as_built.probes[].position", "as_built.probes[].arm_width",
@@ -134,9 +140,10 @@ var quantityFields = map[string][]string{
 
 // requiredQuantities must be present (with a unit) in the rendered template.
 var requiredQuantities = map[string][]string{
-	"wafer": {"design_density"},
-	"piece": {"width", "length", "position.x", "position.y"},
-	"mask":  {"width", "length", "probes[].position", "probes[].arm_width"},
+	"wafer":   {"design_density"},
+	"process": {"steps.mesa_litho.spin", "steps.mesa_litho.bake", "steps.mesa_etch.time", "steps.mesa_etch.depth", "steps.ohmic_anneal.temperature", "steps.tlm_rt.resistances[]"},
+	"piece":   {"width", "length", "position.x", "position.y"},
+	"mask":    {"width", "length", "probes[].position", "probes[].arm_width"},
 	"cooldown": {"base_temperature", "magnet.max_field", "magnet.offset",
 		"illumination.current", "illumination.duration", "illumination.temperature", "illumination.gate_bias",
 		"excitation.bias_resistor", "excitation.source_voltage", "excitation.current", "excitation.frequency",
@@ -623,10 +630,11 @@ func calcBlocks(doc []byte) [][]string {
 // made of rendered templates. Lines that need links a new entry cannot have yet
 // (a device's mask, a cooldown's data files) stay comments.
 func TestCalcBlocksInTemplates(t *testing.T) {
-	want := map[string]int{"wafer": 1, "mask": 1, "device": 1, "cooldown": 1}
+	want := map[string]int{"wafer": 2, "mask": 1, "device": 1, "cooldown": 1, "process": 1}
 	live := map[string][]string{
-		"wafer": {"sp = expected_density(wafer.layers, T = 1.5 K)", "n_expected = sp.n"},
-		"mask":  {`sq_13 = squares("V1", "V3")`},
+		"wafer":   {"sp = expected_density(wafer.layers, T = 1.5 K)", "n_expected = sp.n", "chk = growth_check(wafer.layers)"},
+		"mask":    {`sq_13 = squares("V1", "V3")`},
+		"process": {"rate = etch_rate(steps.mesa_etch)", "tl = tlm(steps.tlm_rt)"},
 	}
 	for _, name := range Names() {
 		out, err := Render(nil, name, goldenData(name))

@@ -1,11 +1,10 @@
 package band
 
 import (
+	"cleave/internal/testutil"
 	"math"
 	"testing"
 )
-
-func relErr(got, want float64) float64 { return math.Abs(got-want) / math.Abs(want) }
 
 // TestFangHoward checks the Fang–Howard ground state (Fang & Howard, Phys. Rev. Lett. 16, 797
 // (1966); Ando, Fowler & Stern, Rev. Mod. Phys. 54, 437 (1982)), evaluated independently
@@ -24,19 +23,19 @@ func TestFangHoward(t *testing.T) {
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
 			e0, b := FangHoward(0.067, 12.9, 3e15, tc.nDepl)
-			if relErr(e0*1e3, tc.wantE0meV) > 1e-4 {
+			if testutil.RelDiff(e0*1e3, tc.wantE0meV) > 1e-4 {
 				t.Errorf("E0 = %.5f meV, want %.5f (independent evaluation)", e0*1e3, tc.wantE0meV)
 			}
-			if relErr(3/b*1e9, tc.wantZnm) > 1e-4 {
+			if testutil.RelDiff(3/b*1e9, tc.wantZnm) > 1e-4 {
 				t.Errorf("<z> = %.5f nm, want %.5f (independent evaluation)", 3/b*1e9, tc.wantZnm)
 			}
-			if tc.wantB != 0 && relErr(b, tc.wantB) > 1e-4 {
+			if tc.wantB != 0 && testutil.RelDiff(b, tc.wantB) > 1e-4 {
 				t.Errorf("b = %.6g, want %.6g", b, tc.wantB)
 			}
 			// Without depletion charge E0 reduces to 5ħ²b²/(8m*) (Fang & Howard 1966).
 			if tc.nDepl == 0 {
 				closed := 5 * hbar * hbar * b * b / (8 * 0.067 * me) / qe
-				if relErr(e0, closed) > 1e-12 {
+				if testutil.RelDiff(e0, closed) > 1e-12 {
 					t.Errorf("E0 = %g, 5ħ²b²/8m* = %g", e0, closed)
 				}
 			}
@@ -74,10 +73,10 @@ func TestAnalyticBalance(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if relErr(r.N2D/1e4, tc.wantN) > 2e-4 {
+			if testutil.RelDiff(r.N2D/1e4, tc.wantN) > 2e-4 {
 				t.Errorf("n = %.5g cm^-2, want %.5g (independent evaluation)", r.N2D/1e4, tc.wantN)
 			}
-			if tc.wantE0 != 0 && relErr(r.E0EV*1e3, tc.wantE0) > 5e-4 {
+			if tc.wantE0 != 0 && testutil.RelDiff(r.E0EV*1e3, tc.wantE0) > 5e-4 {
 				t.Errorf("E0 = %.4f meV, want %.2f (independent evaluation)", r.E0EV*1e3, tc.wantE0)
 			}
 			// The closed form for uniform doping (Stern 1983) must agree with the bisection
@@ -85,7 +84,7 @@ func TestAnalyticBalance(t *testing.T) {
 			if in.BulkDonorsM3 > 0 && in.NoGroundState && in.NoFermiEnergy {
 				nd, d := in.BulkDonorsM3, in.SpacerM
 				closed := math.Sqrt(2*in.BarrierEpsR*eps0*nd*(in.DeltaEcEV-in.DonorDepthEV)/qe+nd*nd*d*d) - nd*d
-				if relErr(r.N2D, closed) > 1e-9 {
+				if testutil.RelDiff(r.N2D, closed) > 1e-9 {
 					t.Errorf("bisection %g, closed form %g", r.N2D, closed)
 				}
 			}
@@ -161,10 +160,10 @@ func TestAnalyticSurface(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if !r.SurfaceLimited || relErr(r.N2D, hand) > 1e-6 {
+	if !r.SurfaceLimited || testutil.RelDiff(r.N2D, hand) > 1e-6 {
 		t.Errorf("without E0, E_F: n = %.5g cm^-2 (surface-limited %v), worked by hand %.5g cm^-2", r.N2D*1e-4, r.SurfaceLimited, hand*1e-4)
 	}
-	if relErr(r.SurfaceN2D, N-hand-depl) > 1e-6 {
+	if testutil.RelDiff(r.SurfaceN2D, N-hand-depl) > 1e-6 {
 		t.Errorf("surface holds %.4g cm^-2, want N − n − N_depl = %.4g", r.SurfaceN2D*1e-4, (N-hand-depl)*1e-4)
 	}
 	full, err := Analytic(in)

@@ -122,12 +122,11 @@ const (
 // binary holds the parameters of a binary compound at 0 K from Vurgaftman, Meyer and
 // Ram-Mohan, J. Appl. Phys. 89, 5815 (2001) (their tables of each binary):
 // gaps at Γ, X and L, the valence-band offset on their common scale, the longitudinal and
-// transverse X and L masses, the lattice constant and the Γ deformation potential and
-// elastic constants used for strain.
+// transverse X and L masses, and the Γ deformation potential and elastic constants used for
+// strain. The lattice constants (300 K, same source) are calc/materials' (Material.A).
 type binary struct {
 	egG, egX, egL, vbo float64 // eV
 	mXl, mXt, mLl, mLt float64 // m_e
-	a                  float64 // Å
 	ac                 float64 // eV
 	c11, c12           float64 // GPa
 }
@@ -136,15 +135,15 @@ type binary struct {
 // (0.88) and L (0.47); they are used as isotropic masses.
 var (
 	bGaAs = binary{egG: 1.519, egX: 1.981, egL: 1.815, vbo: -0.80,
-		mXl: 1.3, mXt: 0.23, mLl: 1.9, mLt: 0.0754, a: 5.65325, ac: -7.17, c11: 1221, c12: 566}
+		mXl: 1.3, mXt: 0.23, mLl: 1.9, mLt: 0.0754, ac: -7.17, c11: 1221, c12: 566}
 	bAlAs = binary{egG: 3.099, egX: 2.24, egL: 2.46, vbo: -1.33,
-		mXl: 0.97, mXt: 0.22, mLl: 1.32, mLt: 0.15, a: 5.6611, ac: -5.64, c11: 1250, c12: 534}
+		mXl: 0.97, mXt: 0.22, mLl: 1.32, mLt: 0.15, ac: -5.64, c11: 1250, c12: 534}
 	bInAs = binary{egG: 0.417, egX: 1.433, egL: 1.133, vbo: -0.59,
-		mXl: 1.13, mXt: 0.16, mLl: 0.64, mLt: 0.05, a: 6.0583, ac: -5.08, c11: 832.9, c12: 452.6}
+		mXl: 1.13, mXt: 0.16, mLl: 0.64, mLt: 0.05, ac: -5.08, c11: 832.9, c12: 452.6}
 	bInP = binary{egG: 1.4236, egX: 2.384, egL: 2.014, vbo: -0.94,
-		mXl: 0.88, mXt: 0.88, mLl: 0.47, mLt: 0.47, a: 5.8697, ac: -6.0, c11: 1011, c12: 561}
+		mXl: 0.88, mXt: 0.88, mLl: 0.47, mLt: 0.47, ac: -6.0, c11: 1011, c12: 561}
 	bAlSb = binary{egG: 2.386, egX: 1.696, egL: 2.329, vbo: -0.41,
-		mXl: 1.357, mXt: 0.123, mLl: 1.64, mLt: 0.23, a: 6.1355, ac: -4.5, c11: 876.9, c12: 434.1}
+		mXl: 1.357, mXt: 0.123, mLl: 1.64, mLt: 0.23, ac: -4.5, c11: 876.9, c12: 434.1}
 )
 
 // bowing holds the bowing parameters C of a ternary A(x)B(1−x)C, P(x) = xP_A + (1−x)P_B
@@ -257,7 +256,7 @@ func Lookup(name string) (Params, error) {
 		Valleys: valleys(vbo+egG, vbo+egX, vbo+egL, m.Mstar,
 			mass(a.mXl, b.mXl), mass(a.mXt, b.mXt), mass(a.mLl, b.mLl), mass(a.mLt, b.mLt)),
 		Mstar: m.Mstar, EpsR: m.EpsR,
-		LatticeA: lin(xe, a.a, b.a, 0),
+		LatticeA: m.A, // Vegard's law in calc/materials, the same interpolation as lin
 		ac:       lin(xe, a.ac, b.ac, bw.ac), c11: lin(xe, a.c11, b.c11, 0), c12: lin(xe, a.c12, b.c12, 0),
 		DonorEV: rydbergEV * m.Mstar / (m.EpsR * m.EpsR),
 	}
@@ -272,7 +271,7 @@ func Lookup(name string) (Params, error) {
 		"Valleys":  "gaps at X and L and the X and L masses, " + srcVMR + "; (001) valley masses and degeneracies: Stern & Howard, Phys. Rev. 163, 816 (1967)",
 		"Mstar":    m.Sources["Mstar"] + srcMat,
 		"EpsR":     m.Sources["EpsR"] + srcMat,
-		"LatticeA": srcVMR + " (300 K), linear in x (Vegard's law)",
+		"LatticeA": m.Sources["A"] + srcMat,
 		"Strain":   "hydrostatic Γ-edge shift 2a_c(1 − c12/c11)ε, Van de Walle, Phys. Rev. B 39, 1871 (1989); a_c, c11, c12 from " + srcVMR,
 		"DonorEV":  srcHydro,
 	}

@@ -1,6 +1,7 @@
 package band
 
 import (
+	"cleave/internal/testutil"
 	"errors"
 	"math"
 	"testing"
@@ -60,14 +61,14 @@ func TestLookup(t *testing.T) {
 // Ry·0.067/12.9² = 5.478 meV, within 10 % of the measured Si donor level 5.8 meV (Ioffe
 // handbook, from memory).
 func TestRydberg(t *testing.T) {
-	if relErr(rydbergEV, 13.605693122994) > 1e-9 {
+	if testutil.RelDiff(rydbergEV, 13.605693122994) > 1e-9 {
 		t.Errorf("Ry = %.12g eV", rydbergEV)
 	}
 	g, _ := Lookup("GaAs")
-	if relErr(g.DonorEV*1e3, 5.478) > 1e-3 {
+	if testutil.RelDiff(g.DonorEV*1e3, 5.478) > 1e-3 {
 		t.Errorf("GaAs hydrogenic donor %.4f meV, want 5.478", g.DonorEV*1e3)
 	}
-	if relErr(g.DonorEV*1e3, 5.8) > 0.1 {
+	if testutil.RelDiff(g.DonorEV*1e3, 5.8) > 0.1 {
 		t.Errorf("GaAs hydrogenic donor %.4f meV, more than 10 %% from 5.8 meV", g.DonorEV*1e3)
 	}
 }

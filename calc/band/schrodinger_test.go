@@ -1,6 +1,7 @@
 package band
 
 import (
+	"cleave/internal/testutil"
 	"math"
 	"math/rand/v2"
 	"sort"
@@ -51,11 +52,11 @@ func TestInfiniteWell(t *testing.T) {
 	st := g.schrodinger(make([]float64, g.n+1), nil)
 	want := []float64{56.124, 224.50}
 	for i, w := range want {
-		if relErr(st.e[i]*1e3, w) > 1e-4 {
+		if testutil.RelDiff(st.e[i]*1e3, w) > 1e-4 {
 			t.Errorf("E%d = %.5f meV, want %.3f (closed form)", i+1, st.e[i]*1e3, w)
 		}
 		closed := float64((i+1)*(i+1)) * math.Pi * math.Pi * hbar * hbar / (2 * 0.067 * me * 1e-16) / qe
-		if relErr(st.e[i], closed) > 1e-5 {
+		if testutil.RelDiff(st.e[i], closed) > 1e-5 {
 			t.Errorf("E%d = %.8g eV, closed form %.8g", i+1, st.e[i], closed)
 		}
 		// normalisation ∫|ψ|² dz = 1
@@ -143,11 +144,11 @@ func TestFiniteWell(t *testing.T) {
 				t.Fatalf("found %d bound states, want ≥ 2", len(e))
 			}
 			for i, want := range []float64{tc.e1, tc.e2} {
-				if relErr(e[i]*1e3, want) > 3e-4 {
+				if testutil.RelDiff(e[i]*1e3, want) > 3e-4 {
 					t.Errorf("E%d = %.4f meV, want %.3f (independent evaluation)", i+1, e[i]*1e3, want)
 				}
 				exact := finiteWellRoot(v0, l, 0.067, tc.mb, i == 1)
-				if relErr(e[i], exact) > 3e-4 {
+				if testutil.RelDiff(e[i], exact) > 3e-4 {
 					t.Errorf("E%d = %.6g eV, matching-condition root %.6g eV", i+1, e[i], exact)
 				}
 			}
@@ -175,16 +176,16 @@ func triangularEnergies(h float64) ([]float64, *grid, *states) {
 func TestTriangularWell(t *testing.T) {
 	e, g, st := triangularEnergies(0.01e-9)
 	scale := math.Cbrt(hbar*hbar/(2*0.067*me)) * math.Pow(qe*1e7, 2.0/3) / qe
-	if relErr(scale*1e3, 38.4547) > 1e-5 {
+	if testutil.RelDiff(scale*1e3, 38.4547) > 1e-5 {
 		t.Errorf("scale %.6f meV, want 38.4547 (closed form)", scale*1e3)
 	}
 	for i, a := range airyZeros {
-		if relErr(e[i], scale*a) > 1e-4 {
+		if testutil.RelDiff(e[i], scale*a) > 1e-4 {
 			t.Errorf("E%d = %.5f meV, Airy %.5f meV", i, e[i]*1e3, scale*a*1e3)
 		}
 	}
 	for i, want := range []float64{89.911, 157.20, 212.29} {
-		if relErr(e[i]*1e3, want) > 1e-4 {
+		if testutil.RelDiff(e[i]*1e3, want) > 1e-4 {
 			t.Errorf("E%d = %.4f meV, want %.3f (Airy zeros × scale)", i, e[i]*1e3, want)
 		}
 	}
@@ -192,7 +193,7 @@ func TestTriangularWell(t *testing.T) {
 	for j, p := range st.psi[0] {
 		mz += p * p * float64(j) * g.h * g.h
 	}
-	if relErr(mz*1e9, 5.9941) > 1e-4 {
+	if testutil.RelDiff(mz*1e9, 5.9941) > 1e-4 {
 		t.Errorf("<z>0 = %.5f nm, want 5.9941 ((2/3)E0/(eF))", mz*1e9)
 	}
 }

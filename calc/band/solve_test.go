@@ -1,6 +1,7 @@
 package band
 
 import (
+	"cleave/internal/testutil"
 	"errors"
 	"math"
 	"strings"
@@ -106,7 +107,7 @@ func TestNeutrality(t *testing.T) {
 		for _, s := range r.Subbands {
 			sum += s.N2D
 		}
-		if relErr(sum, r.TotalN2D) > 1e-9 {
+		if testutil.RelDiff(sum, r.TotalN2D) > 1e-9 {
 			t.Errorf("T = %g K: Σ subbands %g ≠ ∫n dz %g", temp, sum, r.TotalN2D)
 		}
 		// E_c at the surface is the pinning barrier.

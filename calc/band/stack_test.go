@@ -1,6 +1,7 @@
 package band
 
 import (
+	"cleave/internal/testutil"
 	"errors"
 	"math"
 	"strings"
@@ -29,17 +30,10 @@ func TestParseDoping(t *testing.T) {
 			t.Errorf("ParseDoping(%q): %v", tc.in, err)
 			continue
 		}
-		if got.Species != tc.want.Species || got.Sheet != tc.want.Sheet || relErrOr0(got.Density, tc.want.Density) > 1e-12 {
+		if got.Species != tc.want.Species || got.Sheet != tc.want.Sheet || testutil.RelDiff(got.Density, tc.want.Density) > 1e-12 {
 			t.Errorf("ParseDoping(%q) = %+v, want %+v", tc.in, got, tc.want)
 		}
 	}
-}
-
-func relErrOr0(a, b float64) float64 {
-	if b == 0 {
-		return math.Abs(a)
-	}
-	return relErr(a, b)
 }
 
 func TestParseDopingErrors(t *testing.T) {
@@ -79,7 +73,7 @@ func TestParseThickness(t *testing.T) {
 	}
 	for _, tc := range tests {
 		got, err := ParseThickness(tc.in)
-		if err != nil || relErrOr0(got, tc.want) > 1e-12 {
+		if err != nil || testutil.RelDiff(got, tc.want) > 1e-12 {
 			t.Errorf("ParseThickness(%q) = %g, %v; want %g", tc.in, got, err, tc.want)
 		}
 	}

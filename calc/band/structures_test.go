@@ -1,6 +1,7 @@
 package band
 
 import (
+	"cleave/internal/testutil"
 	"fmt"
 	"math"
 	"strings"
@@ -76,7 +77,7 @@ func TestValleyMasses(t *testing.T) {
 	}
 	for i, w := range want {
 		g := a.Valleys[i]
-		if g.Name != w.Name || g.Gv != w.Gv || math.Abs(g.EcEV-w.EcEV) > 1e-9 || relErr(g.Mz, w.Mz) > 2e-4 || relErr(g.Md, w.Md) > 2e-4 {
+		if g.Name != w.Name || g.Gv != w.Gv || math.Abs(g.EcEV-w.EcEV) > 1e-9 || testutil.RelDiff(g.Mz, w.Mz) > 2e-4 || testutil.RelDiff(g.Md, w.Md) > 2e-4 {
 			t.Errorf("AlAs valley %d = %+v, want %+v", i, g, w)
 		}
 	}
@@ -121,7 +122,7 @@ func TestXValleyWell(t *testing.T) {
 		}
 		got := st.e[0] - bottom
 		want := finiteWellRoot(v0, l, tc.mw, tc.mb, false)
-		if relErr(got, want) > 1e-3 {
+		if testutil.RelDiff(got, want) > 1e-3 {
 			t.Errorf("%s ground state %.3f meV above the AlAs X edge, finite-well root %.3f meV", valleyNames[tc.valley], got*1e3, want*1e3)
 		}
 	}

@@ -2,30 +2,15 @@ package band
 
 import (
 	"bytes"
-	"flag"
-	"os"
+	"cleave/internal/testutil"
 	"path/filepath"
 	"strings"
 	"testing"
 )
 
-var update = flag.Bool("update", false, "rewrite the golden files in testdata/")
-
 func golden(t *testing.T, name, got string) {
 	t.Helper()
-	path := filepath.Join("testdata", name)
-	if *update {
-		if err := os.WriteFile(path, []byte(got), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if got != string(want) {
-		t.Errorf("%s differs from the golden file:\n--- got\n%s--- want\n%s", name, got, want)
-	}
+	testutil.GoldenString(t, filepath.Join("testdata", name), got)
 }
 
 // TestSummaryGolden renders an invented delta-doped wafer (the stack of

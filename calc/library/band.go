@@ -182,6 +182,7 @@ func bandValue(st band.Stack, ex *band.Expectation) *calc.AnalysisResult {
 		}
 	}
 	r.Rec.Fields = append(r.Rec.Fields, calc.RecordField{Name: "profile", Value: profileData(res)})
+	r.Detail = &BandDetail{Stack: st, Expectation: ex}
 	r.Warnings = append(r.Warnings, ex.Warnings...)
 	if ex.AnalyticNote != "" {
 		r.Rec.Fields = append(r.Rec.Fields, calc.RecordField{Name: "analytic", Value: calc.String("analytic: not applicable (" + ex.AnalyticNote + ")")})

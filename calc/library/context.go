@@ -26,7 +26,7 @@ func entryRecord(e *calc.Env, kind string) *calc.Record {
 }
 
 // field follows a path of field names from a record; nil when a step is missing.
-func field(r *calc.Record, path ...string) calc.Value {
+func pathField(r *calc.Record, path ...string) calc.Value {
 	var v calc.Value = r
 	for _, p := range path {
 		rec, ok := v.(*calc.Record)
@@ -42,8 +42,8 @@ func field(r *calc.Record, path ...string) calc.Value {
 }
 
 // fieldText is a text field ("" when missing or not text).
-func fieldText(r *calc.Record, path ...string) string {
-	switch v := field(r, path...).(type) {
+func pathText(r *calc.Record, path ...string) string {
+	switch v := pathField(r, path...).(type) {
 	case calc.String:
 		return strings.TrimSpace(string(v))
 	case calc.Quantity:
@@ -53,8 +53,8 @@ func fieldText(r *calc.Record, path ...string) string {
 }
 
 // fieldQuantity is a quantity field of dimension d.
-func fieldQuantity(r *calc.Record, d quantity.Dim, path ...string) (quantity.Quantity, bool) {
-	v, ok := field(r, path...).(calc.Quantity)
+func pathQuantity(r *calc.Record, d quantity.Dim, path ...string) (quantity.Quantity, bool) {
+	v, ok := pathField(r, path...).(calc.Quantity)
 	if !ok || v.Q.Dim() != d {
 		return quantity.Quantity{}, false
 	}
@@ -84,9 +84,9 @@ func ParsePair(s string) (a, b string, ok bool) {
 func hallOptions(e *calc.Env, ycol string) []transport.Option {
 	var opts []transport.Option
 	w := entryRecord(e, "wafer")
-	if c := fieldText(w, "carrier"); c == "electrons" || c == "holes" {
+	if c := pathText(w, "carrier"); c == "electrons" || c == "holes" {
 		from := "the wafer"
-		if id := fieldText(w, "id"); id != "" {
+		if id := pathText(w, "id"); id != "" {
 			from = "wafer " + id
 		}
 		opts = append(opts, transport.WithCarrier(c, from))
@@ -95,20 +95,20 @@ func hallOptions(e *calc.Env, ycol string) []transport.Option {
 	if cd == nil {
 		return opts
 	}
-	switch fieldText(cd, "convention", "electrons") {
+	switch pathText(cd, "convention", "electrons") {
 	case "negative":
 		return append(opts, transport.WithOrientation(1, "the cooldown's convention (electrons: negative)"))
 	case "positive":
 		return append(opts, transport.WithOrientation(-1, "the cooldown's convention (electrons: positive)"))
 	}
 	field, fdesc := 1, "B up (out of the grown surface)"
-	if fieldText(cd, "convention", "field") == "down" {
+	if pathText(cd, "convention", "field") == "down" {
 		field, fdesc = -1, "B down (into the grown surface, convention: {field: down})"
 	}
-	src, drn, ok1 := ParsePair(fieldText(cd, "wiring", "current"))
-	pair := fieldText(cd, "wiring", ycol)
+	src, drn, ok1 := ParsePair(pathText(cd, "wiring", "current"))
+	pair := pathText(cd, "wiring", ycol)
 	if pair == "" {
-		pair = fieldText(cd, "wiring", "Rxy")
+		pair = pathText(cd, "wiring", "Rxy")
 	}
 	plus, minus, ok2 := ParsePair(pair)
 	if !ok1 || !ok2 {

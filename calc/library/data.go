@@ -132,7 +132,7 @@ func dataCall(e *calc.Env, args []calc.Value) (calc.Value, error) {
 	lname, larg := strings.TrimSpace(string(ls)), 1
 	cd := entryRecord(e, "cooldown")
 	if !hasOff {
-		off, _ = fieldQuantity(cd, dField, "magnet", "offset")
+		off, _ = pathQuantity(cd, dField, "magnet", "offset")
 	}
 	if lname == "" {
 		lname, larg = cooldownLayout(cd, string(s)), 0
@@ -152,7 +152,7 @@ func dataCall(e *calc.Env, args []calc.Value) (calc.Value, error) {
 		return nil, &calc.ArgError{Arg: larg, Err: err}
 	}
 	if l.UsesExcitation() {
-		if I, ok := fieldQuantity(cd, dCurrent, "excitation", "current"); ok {
+		if I, ok := pathQuantity(cd, dCurrent, "excitation", "current"); ok {
 			l.Excitation = I.Value()
 		}
 	}
@@ -170,7 +170,7 @@ func dataCall(e *calc.Env, args []calc.Value) (calc.Value, error) {
 // cooldownLayout is the layout the cooldown's data entry for path names ("" when none):
 // `data: [{file: PATH, layout: NAME}]`.
 func cooldownLayout(cd *calc.Record, p string) string {
-	list, ok := field(cd, "data").(calc.List)
+	list, ok := pathField(cd, "data").(calc.List)
 	if !ok {
 		return ""
 	}
@@ -180,8 +180,8 @@ func cooldownLayout(cd *calc.Record, p string) string {
 		if !ok {
 			continue
 		}
-		if f := fieldText(r, "file"); f != "" && path.Clean(f) == want {
-			return fieldText(r, "layout")
+		if f := pathText(r, "file"); f != "" && path.Clean(f) == want {
+			return pathText(r, "layout")
 		}
 	}
 	return ""

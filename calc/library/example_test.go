@@ -64,3 +64,29 @@ func ExampleAll() {
 	// Output:
 	// 10.460 ± 0.040 Ohm <nil>
 }
+
+// A growth log and a fab run as calc lines: a RHEED rate, the Al fraction, a TLM fit and a
+// cold contact check against it (invented numbers).
+func ExampleNewEnv_growthAndFab() {
+	env := library.NewEnv()
+	block := []string{
+		"r_GaAs = rheed_rate(1.25 s, GaAs)",
+		"r_AlAs = rheed_rate(2.54 s, AlAs)",
+		"al_fraction(r_AlAs, r_GaAs)",
+		"tl = tlm([5 um, 10 um, 20 um, 40 um, 80 um], [51.8 Ohm, 89.6 Ohm, 168.9 Ohm, 323.2 Ohm, 636.4 Ohm], 100 um)",
+		"contact_resistance(232 Ohm, 208 Ohm, width = 96 um, reference = tl).ratio",
+		"T_anneal = 440 °C",
+		"T_anneal + T_anneal",
+	}
+	for i, line := range block {
+		fmt.Println(env.EvalLine(line, i+1).Display)
+	}
+	// Output:
+	// 0.22613 nm/s
+	// 0.11144 nm/s
+	// 0.32982
+	// Rc = 6.13 ± 0.29 Ohm, Rc_W 0.613 ± 0.029 Ohm mm, LT 786 ± 38 nm, Rsh 779.7 ± 1.4 Ohm, rho_c (4.82 ± 0.46)e-6 Ohm cm^2
+	// 1.879 ± 0.089
+	// 440.00 °C
+	// error: 7:10: cannot add two absolute temperatures (440.00 °C + 440.00 °C): on the Celsius scale the sum has no meaning; to raise a temperature by an amount, write the amount in K (e.g. 440.00 °C + 10 K)
+}

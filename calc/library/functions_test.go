@@ -69,6 +69,9 @@ func TestFunctionsThroughLanguage(t *testing.T) {
 		{"min of list", "min([3 T, 1 T, 2 T])", "T", 1, 0},
 		{"max of args", "max(3 T, 1 T, 2 T)", "T", 3, 0},
 		{"mean", "mean(1 T, 2 T, 6 T)", "T", 3, 1e-15},
+		// Absolute temperatures in °C: the mean is meaningful (T/K = t/°C + 273.15, [src:SI2019]).
+		{"mean of °C", "mean(580 °C, 600 °C, 610 °C)", "°C", 596.66666666666667, 1e-13},
+		{"min of °C", "min(580 °C, 600 °C)", "K", 853.15, 1e-15},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -174,16 +177,20 @@ func TestAll(t *testing.T) {
 	}
 	sort.Strings(names)
 	want := []string{
-		"abs", "antisymmetrize", "bohr_radius", "check_sweep", "compare_densities", "corbino_conductance", "corbino_sigma", "cos",
-		"cyclotron_energy", "cyclotron_frequency", "data", "density_from_slope", "density_of_states",
-		"dingle_factor", "dingle_temperature", "dirac_fermi_energy", "dirac_landau_level",
-		"exp", "expected_density", "fermi_energy", "fermi_velocity", "fermi_wavevector",
-		"field_at_filling", "filling_factor", "gate_capacitance", "hall_density", "hall_pairs", "hall_resistance",
-		"landau_fan", "landau_level", "lk_mass", "ln", "log10", "magnetic_length", "material",
-		"max", "mean", "mean_free_path", "min", "mobility", "mobility_power_law", "plateaus",
-		"quantum_lifetime", "quantum_mobility", "sdh_density", "sdh_frequency", "sheet_resistance",
-		"sin", "split_sweep", "sqrt", "squares", "symmetrize", "tanh", "thermal_damping", "transport_time",
-		"vdp_contacts", "vdp_hall_density", "vdp_sheet_resistance", "zeeman_energy", "zero_field",
+		"abs", "al_fraction", "antisymmetrize", "arrhenius_fit", "bohr_radius", "cell_calibration",
+		"cell_density", "cell_flux", "check_sweep", "compare_densities", "contact_resistance",
+		"corbino_conductance", "corbino_sigma", "cos", "cyclotron_energy", "cyclotron_frequency", "data",
+		"delta_density", "density_from_slope", "density_of_states", "dingle_factor",
+		"dingle_temperature", "dirac_fermi_energy", "dirac_landau_level", "dose", "etch_depth",
+		"etch_rate", "exp", "expected_density", "fermi_energy", "fermi_velocity", "fermi_wavevector",
+		"field_at_filling", "filling_factor", "gate_capacitance", "growth_check", "hall_density",
+		"hall_pairs", "hall_resistance", "landau_fan", "landau_level", "lk_mass", "ln", "log10",
+		"magnetic_length", "material", "max", "mean", "mean_free_path", "metal_thickness", "min",
+		"mobility", "mobility_power_law", "monolayer", "plateaus", "quantum_lifetime",
+		"quantum_mobility", "rheed_rate", "sdh_density", "sdh_frequency", "sheet_resistance", "sin",
+		"split_sweep", "sqrt", "squares", "symmetrize", "tanh", "thermal_damping", "tlm",
+		"transport_time", "vdp_contacts", "vdp_hall_density", "vdp_sheet_resistance", "zeeman_energy",
+		"zero_field",
 	}
 	if strings.Join(names, " ") != strings.Join(want, " ") {
 		t.Errorf("All() has\n%v\nwant\n%v", names, want)

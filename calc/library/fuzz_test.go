@@ -30,6 +30,14 @@ var evalSeeds = []string{
 	`split_sweep(data("raw/a.csv"))`, `check_sweep(data("raw/a.csv"))`, `split_sweep(data("raw/a.csv")).up`,
 	"[1, 2][-1]", "[1][5]", `device["width"]`, "device.mask[0]", "squares()", "corbino_sigma(1 mS, 1 um, 0 um)",
 	"vdp_contacts()", "1 meV -> K", "2 tesla", "1e6 cm^2/Vs", "fermi_energy(1e12 cm^-2, Si)", "fermi_energy(1e12 cm^-2, graphene)",
+	// temperatures in °C and growth units
+	"-20 °C", "20 °C + 30 °C", "2*(20 °C)", "(115 °C - 110 °C) -> degC", "mean(580 °C, 600 °C)",
+	"0.8 ML(GaAs)/s", "ML(Al(0.3)Ga(0.7)As)", "5 ML(GaAs", "4000 rpm * 2", "1 ℃ -> K",
+	// fabrication and growth
+	"tlm([5 um, 10 um, 20 um], [60 Ohm, 110 Ohm, 210 Ohm], 100 um)", `tlm("TLM-A", [1 Ohm])`, "tlm(device)",
+	"contact_resistance(3 kOhm, 2 kOhm, width = 0 um, reference = 0 Ohm)", `metal_thickness("Ti/Au 10/90 nm")`,
+	"etch_rate(device)", "rheed_rate(0 s, GaAs)", "al_fraction(0 nm/s, 0 nm/s)", "arrhenius_fit([1 K, 1 K, 1 K], [1, 1, 1])",
+	`cell_calibration("Si", [device])`, "growth_check([device])", "delta_density(1 cm^-2 s^-1, 1 s)",
 }
 
 // fuzzResolver is a notebook stand-in: an invented device with a width and a mask.

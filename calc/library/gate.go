@@ -30,9 +30,11 @@ func gateFuncs() []calc.Func {
 				if err != nil {
 					return nil, err
 				}
-				return withWarnings(newResult("gate_capacitance", "C", []string{"threshold"},
+				res := withWarnings(newResult("gate_capacitance", "C", []string{"threshold"},
 					"C", est(r.Capacitance, dCapArea), "dn_dV", est(r.Slope, dPerVolt), "threshold", est(r.Threshold, dVolt),
-					"points", num(float64(r.Points))), r.Warnings), nil
+					"points", num(float64(r.Points))), r.Warnings)
+				res.Detail = &GateDetail{GateResult: r, Vg: vg, N: n, SigmaN: sn}
+				return res, nil
 			}},
 		{Name: "mobility_power_law",
 			Doc:    "fit mu ∝ n^alpha to mobilities against densities (two lists), optionally over a density range",
@@ -57,9 +59,11 @@ func gateFuncs() []calc.Func {
 				if err != nil {
 					return nil, err
 				}
-				return withWarnings(newResult("mobility_power_law", "alpha", nil, "alpha", est(r.Alpha, dNone),
+				res := withWarnings(newResult("mobility_power_law", "alpha", nil, "alpha", est(r.Alpha, dNone),
 					"mu_ref", est(r.Prefactor, dMobility), "n_ref", calc.Q(quantity.New(r.NRef, dDensity)),
-					"points", num(float64(r.Points))), r.Warnings), nil
+					"points", num(float64(r.Points))), r.Warnings)
+				res.Detail = &PowerLawDetail{PowerLawResult: r, N: n, Mu: mu}
+				return res, nil
 			}},
 	}
 }

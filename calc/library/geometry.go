@@ -124,21 +124,21 @@ func geometryOf(e *calc.Env) (*geom, error) {
 		return nil, errors.New("geometry is not a record")
 	}
 	g := &geom{rec: r, shape: ShapeHallBar}
-	if s := fieldText(r, "shape"); s != "" {
+	if s := pathText(r, "shape"); s != "" {
 		g.shape = s
 	}
 	switch g.shape {
 	case ShapeHallBar, ShapeL:
 	case ShapeVdP, ShapeCloverleaf:
-		c, err := Corners(field(r, "contacts"))
+		c, err := Corners(pathField(r, "contacts"))
 		if err != nil {
 			return nil, err
 		}
 		g.corners = c
 	case ShapeCorbino:
 		var ok1, ok2 bool
-		g.rIn, ok1 = fieldQuantity(r, quantity.Length, "inner_radius")
-		g.rOut, ok2 = fieldQuantity(r, quantity.Length, "outer_radius")
+		g.rIn, ok1 = pathQuantity(r, quantity.Length, "inner_radius")
+		g.rOut, ok2 = pathQuantity(r, quantity.Length, "outer_radius")
 		if !ok1 || !ok2 {
 			return nil, errors.New("a Corbino disc needs inner_radius and outer_radius, lengths such as `50 um` (in the mask or the device's as_built)")
 		}
@@ -181,19 +181,19 @@ func (g *geom) hallBar() (physics.HallBar, error) {
 // direction}) for an L-shaped bar, and `contacts` ({source, drain}).
 func HallBarOf(g *calc.Record) (physics.HallBar, error) {
 	var hb physics.HallBar
-	if c, ok := field(g, "contacts").(*calc.Record); ok {
-		hb.Source, hb.Drain = fieldName(c, "source"), fieldName(c, "drain")
+	if c, ok := pathField(g, "contacts").(*calc.Record); ok {
+		hb.Source, hb.Drain = pathName(c, "source"), pathName(c, "drain")
 	}
-	if sl, ok := field(g, "sections").(calc.List); ok {
+	if sl, ok := pathField(g, "sections").(calc.List); ok {
 		for i, it := range sl {
 			r, ok := it.(*calc.Record)
 			if !ok {
 				return hb, fmt.Errorf("section %d: expected a map with name, width and length", i+1)
 			}
-			s := physics.Section{Name: fieldName(r, "name"), Direction: fieldText(r, "direction")}
+			s := physics.Section{Name: pathName(r, "name"), Direction: pathText(r, "direction")}
 			var ok1, ok2 bool
-			s.Width, ok1 = fieldQuantity(r, quantity.Length, "width")
-			s.Length, ok2 = fieldQuantity(r, quantity.Length, "length")
+			s.Width, ok1 = pathQuantity(r, quantity.Length, "width")
+			s.Length, ok2 = pathQuantity(r, quantity.Length, "length")
 			if s.Name == "" || !ok1 || !ok2 {
 				return hb, fmt.Errorf("section %d: needs a name, a width and a length (lengths such as `50 um`)", i+1)
 			}
@@ -201,16 +201,16 @@ func HallBarOf(g *calc.Record) (physics.HallBar, error) {
 		}
 	}
 	if len(hb.Sections) == 0 {
-		w, ok := field(g, "width").(calc.Quantity)
+		w, ok := pathField(g, "width").(calc.Quantity)
 		switch {
-		case field(g, "width") == nil:
+		case pathField(g, "width") == nil:
 			return hb, errors.New("geometry has no width (set mask.width or device.as_built.width)")
 		case !ok || w.Q.Dim() != quantity.Length:
-			return hb, fmt.Errorf("geometry width: expected a length such as `100 um`, got %s", calc.Display(field(g, "width")))
+			return hb, fmt.Errorf("geometry width: expected a length such as `100 um`, got %s", calc.Display(pathField(g, "width")))
 		}
 		hb.Width = w.Q
 	}
-	pv := field(g, "probes")
+	pv := pathField(g, "probes")
 	if pv == nil {
 		return hb, errors.New("geometry has no probes (set mask.probes or device.as_built.probes)")
 	}
@@ -223,16 +223,16 @@ func HallBarOf(g *calc.Record) (physics.HallBar, error) {
 		if !ok {
 			return hb, fmt.Errorf("probe %d: expected a map with name and position", i+1)
 		}
-		p := physics.Probe{Name: fieldName(rec, "name"), Side: fieldName(rec, "side"), Section: fieldName(rec, "section")}
+		p := physics.Probe{Name: pathName(rec, "name"), Side: pathName(rec, "side"), Section: pathName(rec, "section")}
 		if p.Name == "" {
 			return hb, fmt.Errorf("probe %d: no name", i+1)
 		}
-		pos, ok := fieldQuantity(rec, quantity.Length, "position")
+		pos, ok := pathQuantity(rec, quantity.Length, "position")
 		if !ok {
 			return hb, fmt.Errorf("probe %q: position must be a length such as `250 um`", p.Name)
 		}
 		p.Position = pos
-		if aw, ok := fieldQuantity(rec, quantity.Length, "arm_width"); ok {
+		if aw, ok := pathQuantity(rec, quantity.Length, "arm_width"); ok {
 			p.ArmWidth = aw
 		}
 		hb.Probes = append(hb.Probes, p)
@@ -256,8 +256,8 @@ func nameArg(v calc.Value) string {
 }
 
 // fieldName is a name field of a record, text or a bare number.
-func fieldName(r *calc.Record, name string) string {
-	v := field(r, name)
+func pathName(r *calc.Record, name string) string {
+	v := pathField(r, name)
 	if v == nil {
 		return ""
 	}

@@ -9,7 +9,6 @@ import (
 	"testing/fstest"
 
 	"cleave/calc"
-	"cleave/calc/quantity"
 	"cleave/calc/transport"
 	"cleave/internal/testutil"
 )
@@ -20,21 +19,8 @@ import (
 // μ = 1e6 cm^2/(V s), 5 squares between the R_xx probes and a 10 nA excitation.
 const instrumentDir = "../transport/testdata/instruments"
 
-// stubResolver answers names with fixed records, as the notebook does for an entry's lineage.
-type stubResolver map[string]calc.Value
-
-func (s stubResolver) Lookup(name string) (calc.Value, bool) { v, ok := s[name]; return v, ok }
-
 // rec builds a record from name, value pairs.
 func rec(path string, kv ...any) *calc.Record { return calc.NewRecord(path, kv...) }
-
-func qv(s string) calc.Value {
-	q, err := quantity.ParseQuantity(s)
-	if err != nil {
-		panic(err)
-	}
-	return calc.Q(q)
-}
 
 // instrumentFS is a notebook folder with the fixtures under data/ and their layouts under
 // layouts/.

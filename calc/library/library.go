@@ -19,6 +19,9 @@
 //	data.go       data files and sweeps: data(), symmetrize, zero_field, check_sweep
 //	geometry.go   device geometry: squares, Hall pairs, van der Pauw contacts, Corbino discs
 //	materials.go  material(name)
+//	fab.go        fabrication: tlm, contact_resistance, etch_rate, etch_depth, dose, metal_thickness
+//	growth.go     growth: monolayer, rheed_rate, al_fraction, arrhenius_fit, cell_calibration,
+//	              cell_density, cell_flux, delta_density, growth_check
 //
 // The package keeps no state of its own: [All] builds the functions, [ReadData] is the
 // data-file reader, and [NewEnv] gives an environment with both installed.
@@ -51,6 +54,8 @@ func All() []calc.Func {
 		dataFuncs(),
 		geometryFuncs(),
 		materialFuncs(),
+		fabFuncs(),
+		growthFuncs(),
 	} {
 		out = append(out, family...)
 	}

@@ -55,13 +55,15 @@ func lifetimeFuncs() []calc.Func {
 					if err != nil {
 						return nil, err
 					}
-					return withWarnings(newResult("lk_mass", "mass", []string{"extrema"},
+					res := withWarnings(newResult("lk_mass", "mass", []string{"extrema"},
 						"mass", est(r.Mass, dMass),
 						"mass_ratio", est(r.MassRatio, dNone),
 						"extrema", calc.String(fmt.Sprintf("%d extrema, %d temperatures", len(r.Extrema), len(r.Temperatures))),
 						"frequency", calc.Q(quantity.New(r.Frequency, dField)),
 						"chi2", num(r.Chi2),
-					), r.Warnings), nil
+					), r.Warnings)
+					res.Detail = r
+					return res, nil
 				case *DataSet:
 					bq, ok := a[1].(calc.Quantity)
 					if !ok || bq.Q.Dim() != dField {
@@ -81,12 +83,14 @@ func lifetimeFuncs() []calc.Func {
 					if err != nil {
 						return nil, err
 					}
-					return withWarnings(newResult("lk_mass", "mass", nil,
+					res := withWarnings(newResult("lk_mass", "mass", nil,
 						"mass", est(r.Mass, dMass),
 						"mass_ratio", est(r.MassRatio, dNone),
 						"A0", est(r.A0, ac.Dim),
 						"chi2", num(r.Chi2),
-					), r.Warnings), nil
+					), r.Warnings)
+					res.Detail = r
+					return res, nil
 				}
 				return nil, &calc.ArgError{Arg: 0, Err: fmt.Errorf("%w: expected a list of data sets or a table, found %s", calc.ErrArgument, a[0].Type())}
 			}},
@@ -141,7 +145,9 @@ func lifetimeFuncs() []calc.Func {
 					kv = append(kv, "tau_t", est(r.TransportLifetime, dTime), "dingle_ratio", est(r.DingleRatio, dNone))
 					extra = append(extra, "dingle_ratio")
 				}
-				return withWarnings(newResult("quantum_lifetime", "tau_q", extra, kv...), r.Warnings), nil
+				res := withWarnings(newResult("quantum_lifetime", "tau_q", extra, kv...), r.Warnings)
+				res.Detail = r
+				return res, nil
 			}},
 		closedForm("thermal_damping", "Lifshitz-Kosevich X/sinh X", []calc.Param{req("T", dTemp), req("B", dField), mass("m")},
 			func(a []calc.Value) (q, error) { return physics.ThermalDamping(qa(a, 0), qa(a, 1), qa(a, 2)) }),

@@ -85,9 +85,29 @@ func mathFuncs() []calc.Func {
 			if err != nil {
 				return nil, err
 			}
+			if qs[0].Temp() == quantity.TempCelsius {
+				// Absolute temperatures in °C: their sum has no meaning, their mean does,
+				// as the first plus the mean of the differences from it.
+				dsum := quantity.New(0, qs[0].Dim())
+				for _, q := range qs[1:] {
+					d, err := quantity.Sub(q, qs[0])
+					if err != nil {
+						return nil, &calc.ArgError{Arg: 0, Err: err}
+					}
+					dsum, _ = quantity.Add(dsum, d.Marked(quantity.TempPlain))
+				}
+				m, err := quantity.Add(qs[0], dsum.Scale(1/float64(len(qs))))
+				if err != nil {
+					return nil, &calc.ArgError{Arg: 0, Err: err}
+				}
+				return calc.Q(m), nil
+			}
 			sum := qs[0]
 			for _, q := range qs[1:] {
-				sum, _ = quantity.Add(sum, q) // dimensions checked by quantityList
+				var err error
+				if sum, err = quantity.Add(sum, q); err != nil { // dimensions checked by quantityList
+					return nil, &calc.ArgError{Arg: 0, Err: err}
+				}
 			}
 			return calc.Q(sum.Scale(1 / float64(len(qs)))), nil
 		}})

@@ -103,9 +103,11 @@ func plateauFuncs() []calc.Func {
 				if err != nil {
 					return nil, err
 				}
-				return withWarnings(newResult("landau_fan", "n", []string{"intercept"}, "n", est(r.Density, dDensity),
+				res := withWarnings(newResult("landau_fan", "n", []string{"intercept"}, "n", est(r.Density, dDensity),
 					"slope", est(r.Slope, dField), "intercept", est(r.Intercept, dNone),
-					"points", num(float64(r.Points))), r.Warnings), nil
+					"points", num(float64(r.Points))), r.Warnings)
+				res.Detail = &FanDetail{FanResult: r, B: b, SigmaB: sb, Nu: nu}
+				return res, nil
 			}},
 		closedForm("hall_resistance", "R_K/nu", []calc.Param{req("nu", dNone)},
 			func(a []calc.Value) (quantity.Quantity, error) { return physics.HallResistance(qa(a, 0)) }),

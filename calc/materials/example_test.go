@@ -26,3 +26,11 @@ func ExampleParseAlloy() {
 	// Output:
 	// InGaAs 0.53 <nil>
 }
+
+func ExampleMaterial_Monolayer() {
+	m, _ := materials.Lookup("GaAs")
+	ml, _ := m.Monolayer()
+	fmt.Printf("a = %.5f Å, one (001) monolayer = %.5f nm\n", m.A, ml*1e9)
+	// Output:
+	// a = 5.65325 Å, one (001) monolayer = 0.28266 nm
+}

@@ -29,6 +29,7 @@ type Material struct {
 	G       float64           // effective g-factor (signed); NaN where no single value applies
 	Gs, Gv  int               // spin and valley degeneracy
 	VF      float64           // Fermi velocity in m/s (graphene only)
+	A       float64           // cubic lattice constant in Å at 300 K (zincblende III-V only); NaN otherwise
 	Carrier string            // "electron" or "hole"
 	Sources map[string]string // field name -> source
 }
@@ -45,7 +46,38 @@ const (
 	srcGusynin     = "Gusynin & Sharapov, Phys. Rev. Lett. 95, 146801 (2005); Novoselov et al., Nature 438, 197 (2005)"
 	srcSpin        = "spin-1/2 carriers, no Zeeman splitting resolved (textbook)"
 	srcGammaValley = "single Γ valley (textbook)"
+	srcLattice     = "lattice constant at 300 K, " + srcVurgaftman
+	srcNoLattice   = "not a zincblende III-V: no monolayer of (001) zincblende growth"
 )
+
+// Cubic lattice constants at 300 K in Å, Vurgaftman, Meyer and Ram-Mohan (2001), their
+// tables of the binaries: GaAs 5.65325, AlAs 5.6611, InAs 6.0583, InP 5.8697, AlSb 6.1355
+// (the same numbers calc/band's strain uses), InSb 6.4794 (from memory, unverified).
+// Alloys follow Vegard's law (linear in x), as Vurgaftman et al. recommend for the
+// lattice constants of these ternaries.
+const (
+	aGaAs = 5.65325
+	aAlAs = 5.6611
+	aInAs = 6.0583
+	aInP  = 5.8697
+	aAlSb = 6.1355
+	aInSb = 6.4794
+)
+
+// vegard interpolates a lattice constant between the end points a1 (x = 1) and a0 (x = 0);
+// written as calc/band writes its interpolation, so that both give the same float.
+func vegard(x, a1, a0 float64) float64 { return x*a1 + (1-x)*a0 - x*(1-x)*0 }
+
+// Monolayer returns the thickness of one monolayer of (001) growth in metres: half the cubic
+// lattice constant, since a zincblende cell holds two group-III and two group-V planes along
+// [001] and one monolayer is one plane of each (common practice). It is an error for a
+// material without a zincblende lattice constant (Si, Ge, graphene).
+func (m Material) Monolayer() (float64, error) {
+	if math.IsNaN(m.A) || m.A <= 0 {
+		return 0, fmt.Errorf("materials: %s has no zincblende lattice constant, so no (001) monolayer; monolayers are defined here for GaAs, AlAs, InAs, InP, AlSb, InSb and their alloys", m.Name)
+	}
+	return m.A * 1e-10 / 2, nil
+}
 
 // Γ-valley masses of the Al(x)Ga(1-x)As end points (Vurgaftman et al. 2001) and the Ioffe
 // handbook permittivity ε_r = 12.90 - 2.84x.
@@ -72,6 +104,7 @@ func AlGaAs(x float64) (Material, error) {
 		Mstar: (1-x)*mGaAs + x*mAlAsGamma, // exact at both end points
 
 		EpsR:    algaasEps0 + algaasEpsX*x,
+		A:       vegard(x, aAlAs, aGaAs),
 		G:       math.NaN(),
 		Gs:      2,
 		Gv:      1,
@@ -84,6 +117,7 @@ func AlGaAs(x float64) (Material, error) {
 			"Gs":   srcSpin,
 			"Gv":   srcGammaValley,
 			"X":    "alloy fraction as written",
+			"A":    "Vegard's law between AlAs and GaAs; " + srcLattice,
 		},
 	}, nil
 }
@@ -100,8 +134,9 @@ func alloyName(a, b, anion string, x float64) string {
 
 func gaas() Material {
 	return Material{
-		Name: "GaAs", X: math.NaN(), Mstar: mGaAs, EpsR: algaasEps0, G: -0.44, Gs: 2, Gv: 1, Carrier: "electron",
+		Name: "GaAs", X: math.NaN(), Mstar: mGaAs, EpsR: algaasEps0, G: -0.44, Gs: 2, Gv: 1, Carrier: "electron", A: aGaAs,
 		Sources: map[string]string{
+			"A":     srcLattice,
 			"Mstar": srcVurgaftman + " (Adachi: 0.067)",
 			"EpsR":  srcIoffe,
 			"G":     srcGaAsG,
@@ -117,13 +152,15 @@ func alas() Material {
 	m.X = math.NaN()
 	m.Sources["Mstar"] = "Γ valley 0.15, " + srcVurgaftman + " (Adachi: 0.124); the lowest conduction band is X (indirect gap)"
 	m.Sources["EpsR"] = "12.90 - 2.84x at x = 1 from " + srcIoffe + "; public tables disagree (10.06, 10.1, 10.9)"
+	m.Sources["A"] = srcLattice
 	return m
 }
 
 func inas() Material {
 	return Material{
-		Name: "InAs", X: math.NaN(), Mstar: 0.026, EpsR: 15.15, G: -15, Gs: 2, Gv: 1, Carrier: "electron",
+		Name: "InAs", X: math.NaN(), Mstar: 0.026, EpsR: 15.15, G: -15, Gs: 2, Gv: 1, Carrier: "electron", A: aInAs,
 		Sources: map[string]string{
+			"A":     srcLattice,
 			"Mstar": srcVurgaftman + " (from memory, unverified); Adachi 0.024, Ioffe 0.023",
 			"EpsR":  srcIoffe,
 			"G":     "about -15 (from memory, unverified)",
@@ -145,8 +182,9 @@ func InGaAs(x float64) (Material, error) {
 	y := 1 - x
 	m := Material{
 		Name: alloyName("In", "Ga", "As", x), X: x, Mstar: x*0.026 + (1-x)*0.067 - x*(1-x)*0.0091,
-		EpsR: 15.1 - 2.87*y + 0.67*y*y, G: math.NaN(), Gs: 2, Gv: 1, Carrier: "electron",
+		EpsR: 15.1 - 2.87*y + 0.67*y*y, G: math.NaN(), Gs: 2, Gv: 1, Carrier: "electron", A: vegard(x, aInAs, aGaAs),
 		Sources: map[string]string{
+			"A":     "Vegard's law between InAs and GaAs; " + srcLattice,
 			"Mstar": "0.026x + 0.067(1-x) - 0.0091x(1-x), bowing of " + srcVurgaftman + " (InAs 0.026 from memory, unverified); at x = 0.53: 0.0430, commonly quoted 0.041-0.043",
 			"EpsR":  "15.1 - 2.87y + 0.67y² with y = 1-x the Ga fraction, " + srcIoffe + " (formula from memory, unverified); 13.9 at x = 0.53",
 			"G":     "not tabulated except at x = 0.53",
@@ -171,8 +209,9 @@ func InAlAs(x float64) (Material, error) {
 	}
 	return Material{
 		Name: alloyName("In", "Al", "As", x), X: x, Mstar: x*0.026 + (1-x)*mAlAsGamma - x*(1-x)*0.049,
-		EpsR: x*15.15 + (1-x)*(algaasEps0+algaasEpsX), G: math.NaN(), Gs: 2, Gv: 1, Carrier: "electron",
+		EpsR: x*15.15 + (1-x)*(algaasEps0+algaasEpsX), G: math.NaN(), Gs: 2, Gv: 1, Carrier: "electron", A: vegard(x, aInAs, aAlAs),
 		Sources: map[string]string{
+			"A":     "Vegard's law between InAs and AlAs; " + srcLattice,
 			"Mstar": "0.026x + 0.15(1-x) - 0.049x(1-x), Γ masses and bowing of " + srcVurgaftman + " (InAs 0.026 from memory, unverified)",
 			"EpsR":  "linear between AlAs 10.06 and InAs 15.15 (" + srcIoffe + "); linear interpolation is common practice",
 			"G":     "not tabulated",
@@ -185,8 +224,9 @@ func InAlAs(x float64) (Material, error) {
 
 func inp() Material {
 	return Material{
-		Name: "InP", X: math.NaN(), Mstar: 0.0795, EpsR: 12.5, G: math.NaN(), Gs: 2, Gv: 1, Carrier: "electron",
+		Name: "InP", X: math.NaN(), Mstar: 0.0795, EpsR: 12.5, G: math.NaN(), Gs: 2, Gv: 1, Carrier: "electron", A: aInP,
 		Sources: map[string]string{
+			"A":     srcLattice,
 			"Mstar": srcVurgaftman,
 			"EpsR":  "12.5, " + srcIoffe + " (from memory, unverified)",
 			"G":     "not tabulated",
@@ -198,8 +238,9 @@ func inp() Material {
 
 func alsb() Material {
 	return Material{
-		Name: "AlSb", X: math.NaN(), Mstar: 0.14, EpsR: 12.04, G: math.NaN(), Gs: 2, Gv: 1, Carrier: "electron",
+		Name: "AlSb", X: math.NaN(), Mstar: 0.14, EpsR: 12.04, G: math.NaN(), Gs: 2, Gv: 1, Carrier: "electron", A: aAlSb,
 		Sources: map[string]string{
+			"A":     srcLattice,
 			"Mstar": "Γ valley 0.14, " + srcVurgaftman + "; the lowest conduction band is X (indirect gap)",
 			"EpsR":  "12.04, " + srcIoffe + " (from memory, unverified)",
 			"G":     "not tabulated",
@@ -211,8 +252,9 @@ func alsb() Material {
 
 func insb() Material {
 	return Material{
-		Name: "InSb", X: math.NaN(), Mstar: 0.0135, EpsR: 16.8, G: -51, Gs: 2, Gv: 1, Carrier: "electron",
+		Name: "InSb", X: math.NaN(), Mstar: 0.0135, EpsR: 16.8, G: -51, Gs: 2, Gv: 1, Carrier: "electron", A: aInSb,
 		Sources: map[string]string{
+			"A":     "6.4794 Å at 300 K, " + srcVurgaftman + " (from memory, unverified)",
 			"Mstar": srcVurgaftman + " (from memory, unverified); Adachi 0.013; strongly nonparabolic, m* rises with n",
 			"EpsR":  "16.8 (from memory, unverified)",
 			"G":     "about -51 (from memory, unverified)",
@@ -224,8 +266,9 @@ func insb() Material {
 
 func si100() Material {
 	return Material{
-		Name: "Si(100)", X: math.NaN(), Mstar: 0.19, EpsR: 11.7, G: 2, Gs: 2, Gv: 2, Carrier: "electron",
+		Name: "Si(100)", X: math.NaN(), Mstar: 0.19, EpsR: 11.7, G: 2, Gs: 2, Gv: 2, Carrier: "electron", A: math.NaN(),
 		Sources: map[string]string{
+			"A":     srcNoLattice,
 			"Mstar": "in-plane transverse mass 0.19 (0.916 along z), " + srcAFS + " (masses from memory, unverified)",
 			"EpsR":  "Si 11.7 (from memory, unverified)",
 			"G":     "about 2, close to the free-electron value (from memory)",
@@ -237,8 +280,9 @@ func si100() Material {
 
 func geHoles() Material {
 	return Material{
-		Name: "Ge(holes)", X: math.NaN(), Mstar: 0.061, EpsR: 16.2, G: math.NaN(), Gs: 2, Gv: 1, Carrier: "hole",
+		Name: "Ge(holes)", X: math.NaN(), Mstar: 0.061, EpsR: 16.2, G: math.NaN(), Gs: 2, Gv: 1, Carrier: "hole", A: math.NaN(),
 		Sources: map[string]string{
+			"A":     srcNoLattice,
 			"Mstar": "0.061 at p = 2.2e11 cm^-2 (about 0.05 extrapolated to p -> 0; rises with p), strained Ge QW in SiGe, " + srcLodari,
 			"EpsR":  "Ge 16.2 (from memory, unverified)",
 			"G":     "not tabulated: heavy-hole-like with a strongly anisotropic g",
@@ -250,8 +294,9 @@ func geHoles() Material {
 
 func graphene() Material {
 	return Material{
-		Name: "graphene", X: math.NaN(), Mstar: 0, EpsR: math.NaN(), G: 2, Gs: 2, Gv: 2, VF: 1e6, Carrier: "electron",
+		Name: "graphene", X: math.NaN(), Mstar: 0, EpsR: math.NaN(), G: 2, Gs: 2, Gv: 2, VF: 1e6, Carrier: "electron", A: math.NaN(),
 		Sources: map[string]string{
+			"A":       srcNoLattice,
 			"Mstar":   "linear dispersion: cyclotron mass m_c = ħ√(πn)/v_F depends on n",
 			"EpsR":    "depends on the substrate and encapsulation",
 			"G":       "about 2, close to the free-electron value (from memory)",

@@ -280,3 +280,49 @@ func FuzzParseAlloy(f *testing.F) {
 		}
 	})
 }
+
+// TestLatticeAndMonolayer checks the lattice constants (300 K) against [src:VURGAFTMAN2001]
+// and the (001) monolayer a/2 (common practice): GaAs 5.65325 Å → 0.282663 nm.
+func TestLatticeAndMonolayer(t *testing.T) {
+	tests := []struct {
+		name   string
+		a      float64 // Å
+		ml     float64 // m; 0: no monolayer
+		source string
+	}{
+		{"GaAs", 5.65325, 0.2826625e-9, "Vurgaftman 2001, GaAs table; a/2"},
+		{"AlAs", 5.6611, 0.28305500e-9, "Vurgaftman 2001, AlAs table (from memory, unverified)"},
+		{"InAs", 6.0583, 0.302915e-9, "Vurgaftman 2001, InAs table"},
+		{"InP", 5.8697, 0.293485e-9, "Vurgaftman 2001, InP table"},
+		{"AlSb", 6.1355, 0.306775e-9, "Vurgaftman 2001, AlSb table"},
+		{"InSb", 6.4794, 0.32397e-9, "Vurgaftman 2001 (from memory)"},
+		// Vegard: 0.3·5.6611 + 0.7·5.65325 = 5.655605 Å.
+		{"Al0.3Ga0.7As", 5.655605, 0.28278025e-9, "Vegard between AlAs and GaAs"},
+		// 0.53·6.0583 + 0.47·5.65325 = 3.210899 + 2.6570275 = 5.8679265 Å (InP: 5.8697, within 0.03 %).
+		{"In0.53Ga0.47As", 5.8679265, 0.293396325e-9, "Vegard between InAs and GaAs"},
+		{"Si", nan, 0, "diamond lattice: no zincblende monolayer"},
+		{"graphene", nan, 0, "not a cubic crystal"},
+	}
+	for _, tc := range tests {
+		m, err := Lookup(tc.name)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !testutil.Within(m.A, tc.a, 1e-12, 1e-12) {
+			t.Errorf("%s: a = %v Å, want %v (%s)", tc.name, m.A, tc.a, tc.source)
+		}
+		if m.Sources["A"] == "" {
+			t.Errorf("%s: no source for A", tc.name)
+		}
+		ml, err := m.Monolayer()
+		if tc.ml == 0 {
+			if err == nil || !strings.Contains(err.Error(), "zincblende") {
+				t.Errorf("%s: Monolayer() = %v, %v; want an error naming zincblende", tc.name, ml, err)
+			}
+			continue
+		}
+		if err != nil || !testutil.WithinRel(ml, tc.ml, 1e-7) {
+			t.Errorf("%s: Monolayer() = %v, %v; want %v m (%s)", tc.name, ml, err, tc.ml, tc.source)
+		}
+	}
+}

@@ -82,3 +82,32 @@ func ExampleHallBar() {
 	// probes V1-V2 (top): spacing/width = 2.5, below the customary 3; the finite arm widths then weigh more on L/W and so on rho_xx = R_xx W/L
 	// probes V3-V4 (bottom): spacing/width = 2.5, below the customary 3; the finite arm widths then weigh more on L/W and so on rho_xx = R_xx W/L
 }
+
+// The contact parameters from a transfer-length line R_T = 10 Ohm + 10 Ohm/um · d on pads
+// 100 um wide: R_c = 5 Ohm, R_c W = 0.5 Ohm mm, L_T = 0.5 um, ρ_c = 2.5e-6 Ohm cm².
+func ExampleTransferLength() {
+	tl, err := physics.TransferLength(val(10e6, "Ohm/m"), val(10, "Ohm"), val(100, "um"), val(0, "um"))
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	rcw, _ := quantity.FormatIn(tl.RcW, quantity.MustUnit("Ohm mm"))
+	lt, _ := quantity.FormatIn(tl.LT, quantity.MustUnit("um"))
+	fmt.Println(tl.Rc, rcw, lt, tl.RhoC)
+	// Output:
+	// 5.0000 Ohm 0.50000 Ohm mm 0.50000 um 2.5000e-6 Ohm cm^2
+}
+
+func ExampleParseStack() {
+	layers, err := physics.ParseStack("Ni/AuGe/Ni/Au 5/150/30/100 nm")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(len(layers), layers[1].Metal, layers[1].Thickness, physics.StackThickness(layers))
+	_, err = physics.ParseStack("Ti/Au 10 nm")
+	fmt.Println(err)
+	// Output:
+	// 4 AuGe 150.00 nm 285.00 nm
+	// metal stack "Ti/Au 10 nm", column 7: 2 metals but 1 thicknesses: give one thickness per metal
+}

@@ -3,9 +3,12 @@
 // standard uncertainty with exact correlations. It also parses and formats
 // units and quantities the way the trade writes them.
 //
-// It leaves out on purpose: affine units (degrees Celsius), logarithmic
-// units (dB), and any notion of which quantity a value is beyond its
-// dimension.
+// It leaves out on purpose: logarithmic units (dB), Fahrenheit, and any
+// notion of which quantity a value is beyond its dimension, with one
+// exception: a temperature remembers whether it was written as an absolute
+// temperature in °C or is a difference ([TempKind]), so that the Celsius
+// scale's one affine unit converts exactly (T/K = t/°C + 273.15) and
+// ambiguous arithmetic (20 °C + 30 °C) is refused.
 //
 // # Uncertainty
 //
@@ -30,10 +33,18 @@
 // units with special names (m g s A K mol cd Hz N Pa J W C V F Ohm S Wb T H
 // rad sr; "ohm", "Ω" are aliases of Ohm), all SI prefixes y..Y with u, µ and
 // μ for micro, and eV, G (gauss), Å / Angstrom, m_e (CODATA 2018 electron
-// mass), min, h (hour), deg / °, bar, Torr, sq (the "per square" of Ohm/sq,
-// the number 1), % and 1. A symbol is matched whole first, then as prefix +
-// unit: "mT" is millitesla, "Pa" the pascal, "A" the ampere (the ångström
-// is "Å" or "Angstrom").
+// mass), min, h (hour), deg / °, bar, Torr (with prefixes: mTorr), sq (the
+// "per square" of Ohm/sq, the number 1), % and 1, and the units of growth
+// and fabrication: °C / degC / ℃ (an absolute temperature when written
+// alone, a difference inside a compound unit such as °C/min), inch / in, L
+// (with prefixes: mL, uL), Oe (the oersted, a magnetic field strength H in
+// A/m, not a flux density), ppm, ppb, rpm, sccm and slm (gas flows as
+// amounts per time at 0 °C and 101325 Pa), and ML(material), one monolayer
+// of (001) growth, half the cubic lattice constant of the named zincblende
+// material (ML(GaAs) = 0.28266 nm; ML(Al0.3Ga0.7As)/s is a growth rate). A
+// symbol is matched whole first, then as prefix + unit: "mT" is millitesla,
+// "Pa" the pascal, "A" the ampere (the ångström is "Å" or "Angstrom"), "mL"
+// the millilitre and "ML" the monolayer.
 //
 // # Display units
 //
@@ -43,9 +54,16 @@
 // field mT below 10 mT, else T; resistance Ohm; time ps below 1 ns then ns,
 // us, ms, s; temperature mK below 0.1 K, else K; frequency Hz, kHz, MHz, GHz,
 // THz by size; mass m_e; voltage mV below 1 V, else V; current nA, uA, mA, A by size;
-// capacitance pF, nF, uF; capacitance per area nF/cm^2; velocity m/s;
-// wavevector m^-1; Hall slope Ohm/T; magnetic moment meV/T; meV/K; density
-// of states cm^-2 meV^-1; conductance S; area um^2, mm^2, m^2.
+// capacitance pF, nF, uF; capacitance per area nF/cm^2; velocity nm/s below
+// 1 mm/s (growth and etch rates), else m/s; wavevector m^-1; Hall slope
+// Ohm/T; magnetic moment meV/T; meV/K; density of states cm^-2 meV^-1;
+// conductance S; area um^2, mm^2, m^2; field sweep rate T/min; temperature
+// ramp K/min; intensity
+// mW/cm^2; dose mJ/cm^2 (e-beam dose uC/cm^2); specific contact resistivity
+// Ohm cm^2; volume uL, mL, L; gas flow sccm; field strength A/m; an absolute
+// temperature written in °C stays in °C. A value written in rpm, Torr, Oe,
+// inch, ppm or sccm carries [Unit.Keep] so that a program can show it as
+// written until something is computed from it.
 //
 // Two choices need care. Frequency and angular frequency share the
 // dimension s^-1; values of that dimension are shown in Hz (a cyclic

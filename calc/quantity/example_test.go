@@ -90,3 +90,20 @@ func ExampleEngineering() {
 	// 417.80 GHz
 	// 417.80 GHz
 }
+
+// Temperatures in °C are absolute; their difference is in K; their sum is refused.
+func ExampleCelsius() {
+	bake := quantity.Celsius(115, 0)
+	fmt.Println(bake, bake.Value())
+	d, _ := quantity.Sub(quantity.Celsius(120, 0), bake)
+	fmt.Println(d)
+	_, err := quantity.Add(bake, bake)
+	fmt.Println(err != nil)
+	ml := quantity.MustUnit("ML(GaAs)")
+	fmt.Println(quantity.New(ml.Scale, ml.D))
+	// Output:
+	// 115.00 °C 388.15
+	// 5.0000 K
+	// true
+	// 0.28266 nm
+}

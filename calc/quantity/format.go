@@ -59,7 +59,25 @@ var displayTable = []struct {
 	{dimCapacit, displayRule{steps: []step{{1e-9, "pF"}, {1e-6, "nF"}, {inf, "uF"}}, zero: "pF"}},
 	{dimCapacit.Div(Length.Pow(2)), fixed("nF/cm^2")},
 	{dimCapacit.Div(Length), fixed("F/m")},
-	{Length.Div(Time), fixed("m/s")},
+	// Velocities: growth and etch rates (below 1 mm/s) in nm/s, everything faster (a Fermi
+	// velocity) in m/s. Å/s, um/h and nm/min are asked for with `->`.
+	{Length.Div(Time), displayRule{steps: []step{{1e-3, "nm/s"}, {inf, "m/s"}}, zero: "m/s"}},
+	// Field sweep rates, temperature ramps.
+	{dimField.Div(Time), fixed("T/min")},
+	{Temperature.Div(Time), fixed("K/min")},
+	// Light intensity, exposure dose, e-beam dose.
+	{dimPower.Div(Length.Pow(2)), fixed("mW/cm^2")},
+	{dimEnergy.Div(Length.Pow(2)), fixed("mJ/cm^2")},
+	{dimCharge.Div(Length.Pow(2)), fixed("uC/cm^2")},
+	// Specific contact resistivity. (Contact resistance times width, R_c W, has the
+	// dimension of a resistivity, shown in Ohm cm; a TLM result asks for Ohm mm itself.)
+	{dimResistance.Mul(Length.Pow(2)), fixed("Ohm cm^2")},
+	// Volumes of chemicals, gas flows, the magnetic field strength H.
+	{Length.Pow(3), displayRule{steps: []step{{1e-6, "uL"}, {1e-3, "mL"}, {inf, "L"}}, zero: "mL"}},
+	{Amount.Div(Time), fixed("sccm")},
+	// Dopant fluxes from a cell.
+	{Length.Pow(-2).Div(Time), fixed("cm^-2 s^-1")},
+	{Current.Div(Length), fixed("A/m")},
 	{dimVoltage.Div(Length), fixed("V/m")},
 	{dimEnergy.Div(dimField), fixed("meV/T")},
 	{dimEnergy.Div(Temperature), fixed("meV/K")},
@@ -83,10 +101,13 @@ var displayRules = func() map[Dim]displayRule {
 	return m
 }()
 
+// celsiusSymbol is how an absolute temperature in °C is written.
+const celsiusSymbol = "°C"
+
 // parsedDisplay caches the parsed display units.
 var parsedDisplay = func() map[string]Unit {
 	// The empty symbol is the dimensionless unit 1, which ParseUnit spells "1".
-	m := map[string]Unit{"": {Symbol: "", Scale: 1}}
+	m := map[string]Unit{"": {Symbol: "", Scale: 1}, celsiusSymbol: MustUnit(celsiusSymbol)}
 	for _, r := range displayRules {
 		for _, s := range append(r.steps, step{sym: r.zero}) {
 			if _, ok := m[s.sym]; !ok {
@@ -104,7 +125,12 @@ var parsedDisplay = func() map[string]Unit {
 // out of range that it would overflow or fall into the subnormal range in
 // the customary unit: 1e300 g is about 1e327 electron masses, beyond the
 // largest float64, but prints as 1e297 kg.
+//
+// An absolute temperature written in °C ([TempCelsius]) is shown in °C.
 func Customary(q Quantity) Unit {
+	if q.temp == TempCelsius {
+		return parsedDisplay[celsiusSymbol]
+	}
 	si := Unit{Symbol: q.d.String(), Scale: 1, D: q.d}
 	r, ok := displayRules[q.d]
 	if !ok {
@@ -212,12 +238,7 @@ func formatUncertain(v, u float64) string {
 		// The uncertainty is below float64 resolution of v.
 		return formatExact(v) + " ± " + formatExact(u)
 	}
-	var n float64
-	if last < 0 {
-		n = math.Round(math.Abs(v) * math.Pow10(-last))
-	} else {
-		n = math.Round(math.Abs(v) / math.Pow10(last))
-	}
+	n := math.Round(scale10(math.Abs(v), -last))
 	vdigits := strconv.FormatFloat(n, 'f', 0, 64)
 	e := eu
 	if n != 0 {
@@ -237,6 +258,21 @@ func formatUncertain(v, u float64) string {
 		return vs + " ± " + uss
 	}
 	return "(" + vs + " ± " + uss + ")e" + strconv.Itoa(x)
+}
+
+// scale10 returns x·10^k without overflowing on the way when the result is finite: a
+// subnormal uncertainty (1e-310) puts its last digit near 10^-311, and 10^311 alone is
+// beyond the largest float64, so the power is applied in steps.
+func scale10(x float64, k int) float64 {
+	for k > 300 {
+		x *= 1e300
+		k -= 300
+	}
+	for k < -300 {
+		x *= 1e-300
+		k += 300
+	}
+	return x * math.Pow10(k)
 }
 
 // placePoint writes the integer digits times 10^k in positional notation.
@@ -288,10 +324,20 @@ func (e *SyntaxError) Unwrap() error { return ErrSyntax }
 // Errors are a *[SyntaxError] or a *[UnitError], with byte offsets into s,
 // or a *[DimError] when the uncertainty's unit differs in dimension.
 func ParseQuantity(s string) (Quantity, error) {
+	q, _, err := parseQuantity(s)
+	return q, err
+}
+
+// ParseQuantityUnit is [ParseQuantity] that also gives the unit the value was written in
+// (the dimensionless unit, scale 1, for a bare number), for a caller that shows a value as
+// written when its unit says so ([Unit.Keep]).
+func ParseQuantityUnit(s string) (Quantity, Unit, error) { return parseQuantity(s) }
+
+func parseQuantity(s string) (Quantity, Unit, error) {
 	p := &qparser{s: s}
 	p.space()
 	if p.pos == len(s) {
-		return Quantity{}, p.fail(p.pos, "empty quantity (expected a number such as 20, 3.1e11 or 12.5 ± 0.2)")
+		return Quantity{}, Unit{}, p.fail(p.pos, "empty quantity (expected a number such as 20, 3.1e11 or 12.5 ± 0.2)")
 	}
 	var val, sig string
 	if p.s[p.pos] == '(' {
@@ -300,19 +346,19 @@ func ParseQuantity(s string) (Quantity, error) {
 		p.space()
 		var err error
 		if val, err = p.number(); err != nil {
-			return Quantity{}, err
+			return Quantity{}, Unit{}, err
 		}
 		p.space()
 		if !p.plusMinus() {
-			return Quantity{}, p.fail(p.pos, "expected '±' or '+/-' after the value in parentheses")
+			return Quantity{}, Unit{}, p.fail(p.pos, "expected '±' or '+/-' after the value in parentheses")
 		}
 		p.space()
 		if sig, err = p.number(); err != nil {
-			return Quantity{}, err
+			return Quantity{}, Unit{}, err
 		}
 		p.space()
 		if p.pos >= len(s) || s[p.pos] != ')' {
-			return Quantity{}, p.fail(open, "unclosed '(' (expected \"(value ± uncertainty)e<exponent>\")")
+			return Quantity{}, Unit{}, p.fail(open, "unclosed '(' (expected \"(value ± uncertainty)e<exponent>\")")
 		}
 		p.pos++
 		if p.pos < len(s) && (s[p.pos] == 'e' || s[p.pos] == 'E') {
@@ -326,7 +372,7 @@ func ParseQuantity(s string) (Quantity, error) {
 				p.pos++
 			}
 			if p.pos == d {
-				return Quantity{}, p.fail(start, "expected an integer exponent after ')e'")
+				return Quantity{}, Unit{}, p.fail(start, "expected an integer exponent after ')e'")
 			}
 			exp := s[start:p.pos]
 			val += exp
@@ -335,14 +381,14 @@ func ParseQuantity(s string) (Quantity, error) {
 	} else {
 		var err error
 		if val, err = p.number(); err != nil {
-			return Quantity{}, err
+			return Quantity{}, Unit{}, err
 		}
 		save := p.pos
 		p.space()
 		if p.plusMinus() {
 			p.space()
 			if sig, err = p.number(); err != nil {
-				return Quantity{}, err
+				return Quantity{}, Unit{}, err
 			}
 		} else {
 			p.pos = save
@@ -350,13 +396,13 @@ func ParseQuantity(s string) (Quantity, error) {
 	}
 	v, err := strconv.ParseFloat(val, 64)
 	if err != nil && !isRangeErr(err) {
-		return Quantity{}, p.fail(0, "malformed number %q", val)
+		return Quantity{}, Unit{}, p.fail(0, "malformed number %q", val)
 	}
 	var sigma float64
 	if sig != "" {
 		sigma, err = strconv.ParseFloat(sig, 64)
 		if err != nil && !isRangeErr(err) || sigma < 0 || math.IsNaN(sigma) {
-			return Quantity{}, p.fail(0, "uncertainty %q must be a non-negative number", sig)
+			return Quantity{}, Unit{}, p.fail(0, "uncertainty %q must be a non-negative number", sig)
 		}
 	}
 	p.space()
@@ -377,35 +423,45 @@ func ParseQuantity(s string) (Quantity, error) {
 			unitText = unitText[:pmAt]
 		}
 		if u, err = parseUnitIn(s, unitStart, unitText); err != nil {
-			return Quantity{}, err
+			return Quantity{}, Unit{}, err
 		}
 		if pmAt >= 0 {
 			p.pos = unitStart + pmAt
 			p.plusMinus()
 			p.space()
 			if sig, err = p.number(); err != nil {
-				return Quantity{}, err
+				return Quantity{}, Unit{}, err
 			}
 			sigma, err = strconv.ParseFloat(sig, 64)
 			if err != nil && !isRangeErr(err) || sigma < 0 || math.IsNaN(sigma) {
-				return Quantity{}, p.fail(0, "uncertainty %q must be a non-negative number", sig)
+				return Quantity{}, Unit{}, p.fail(0, "uncertainty %q must be a non-negative number", sig)
 			}
 			sigma = toSI(sigma, u.Scale)
 			p.space()
 			if p.pos < len(s) {
 				su, err := parseUnitIn(s, p.pos, s[p.pos:])
 				if err != nil {
-					return Quantity{}, err
+					return Quantity{}, Unit{}, err
 				}
 				if su.D != u.D {
-					return Quantity{}, &DimError{Op: "±", Left: u.D, Right: su.D}
+					return Quantity{}, Unit{}, &DimError{Op: "±", Left: u.D, Right: su.D}
 				}
 				sigma = toSI(fromSI(sigma, u.Scale), su.Scale)
 			}
-			return Uncertain(toSI(v, u.Scale), sigma, u.D), nil
+			return inUnit(v, sigma, u), u, nil
 		}
 	}
-	return Uncertain(toSI(v, u.Scale), toSI(sigma, u.Scale), u.D), nil
+	return inUnit(v, toSI(sigma, u.Scale), u), u, nil
+}
+
+// inUnit is the quantity v (in unit u) with standard uncertainty sigma (SI): an absolute
+// temperature marked TempCelsius when u is °C.
+func inUnit(v, sigma float64, u Unit) Quantity {
+	q := Uncertain(toSI(v, u.Scale)+u.Offset, sigma, u.D)
+	if u.Offset != 0 {
+		q = q.Marked(TempCelsius)
+	}
+	return q
 }
 
 // parseUnitIn parses the unit text found at byte offset off of s, with

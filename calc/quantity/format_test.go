@@ -59,6 +59,12 @@ func TestFormatUncertain(t *testing.T) {
 		{5e6, 5e6, "(5.0 ± 5.0)e6"},
 		{1, 1e-18, "1.0000 ± 1.0000e-18"},
 		{1, math.Inf(1), "1.0000 ± Inf"},
+		// Subnormal numbers (below 2.2e-308): the last printed digit sits beyond 10^-308,
+		// whose inverse power overflows (issue 13: "(N.aN ± 0.10)e-309").
+		{0, 1e-310, "(0.0 ± 1.0)e-310"},
+		{1e-310, 1e-311, "(1.00 ± 0.10)e-310"},
+		{-3e-315, 2e-316, "(-3.00 ± 0.20)e-315"},
+		{1e308, 1e307, "(1.00 ± 0.10)e308"},
 	}
 	for _, tt := range tests {
 		if got := formatUncertain(tt.v, tt.u); got != tt.want {
@@ -78,6 +84,8 @@ var goldenCases = []string{
 	"25812.807459 Ohm", "3.874045865e-5 S", "1e18 cm^-3", "100 um^2", "1 Torr", "1 mol", "1 W/K",
 	"0 um", "-Inf Ohm", "NaN", "45 deg", "10 %", "1.054571817e-34 J s", "8.8541878128e-12 F/m",
 	"12.5 +/- 0.2 um", "100 ± 0 Ohm",
+	"115 °C", "-20 degC", "1150 ± 2 °C", "1 T/min", "1 W/cm^2", "1 nm/s", "0.8 ML(GaAs)/s", "1 um/h",
+	"90 mJ/cm^2", "20 sccm", "5 mL", "1 Oe", "3 inch", "5 ppm", "2.5e-6 Ohm cm^2", "4000 rpm", "5 mTorr",
 }
 
 func TestFormatGolden(t *testing.T) {

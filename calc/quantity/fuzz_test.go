@@ -10,6 +10,8 @@ var unitSeeds = []string{
 	"m", "um", "µm", "cm^-2", "cm^2/(V s)", "kOhm", "Ω", "m_e", "Å", "A", "meV/T", "(m^2)^(1/2)",
 	"kg m^2 s^-2", "J·s", "1/T", "cm^2/V s", "m^(1/2)", "", "((m))", "m^-(1)", "%", "deg", "°",
 	"Torr", "mbar", "dam", "m^(-3/3)", "kg*m", "m^100 m^100", "\xff", "m^", "(",
+	"°C", "degC/min", "\u2103", "°F", "°", "ML(GaAs)/s", "ML(Al(0.3)Ga(0.7)As)", "ML(", "ML()", "ML(Si)",
+	"sccm", "rpm^2", "mTorr", "kOe", "uL", "inch", "ppm",
 }
 
 // FuzzParseUnit: ParseUnit never panics; an accepted unit has a positive

@@ -27,7 +27,8 @@ var nextID atomic.Uint64
 type Quantity struct {
 	v     float64
 	d     Dim
-	terms []term // sorted by id, no zero derivatives; never modified after creation
+	terms []term   // sorted by id, no zero derivatives; never modified after creation
+	temp  TempKind // for a temperature: how it is to be read (see TempKind)
 }
 
 // New returns an exact quantity of value v (SI) and dimension d.
@@ -163,21 +164,32 @@ func combine2(ka float64, a []term, kb float64, b []term) []term {
 func scaleTerms(k float64, a []term) []term { return combine2(k, a, 0, nil) }
 
 // Add returns a + b. The dimensions must agree, else the error is a
-// *[DimError] (errors.Is(err, [ErrDimMismatch])).
+// *[DimError] (errors.Is(err, [ErrDimMismatch])). The sum of two absolute
+// temperatures written in °C is a *[TempError]; see [TempKind] for how the
+// kinds of temperature combine.
 func Add(a, b Quantity) (Quantity, error) {
 	if a.d != b.d {
 		return Quantity{}, &DimError{Op: "+", Left: a.d, Right: b.d}
 	}
-	return Quantity{v: a.v + b.v, d: a.d, terms: combine2(1, a.terms, 1, b.terms)}, nil
+	k, err := sumKind("+", a, b)
+	if err != nil {
+		return Quantity{}, err
+	}
+	return Quantity{v: a.v + b.v, d: a.d, terms: combine2(1, a.terms, 1, b.terms), temp: k}, nil
 }
 
 // Sub returns a - b. The dimensions must agree, else the error is a
-// *[DimError].
+// *[DimError]. Two absolute temperatures in °C give a difference; an absolute
+// temperature subtracted from a difference is a *[TempError].
 func Sub(a, b Quantity) (Quantity, error) {
 	if a.d != b.d {
 		return Quantity{}, &DimError{Op: "-", Left: a.d, Right: b.d}
 	}
-	return Quantity{v: a.v - b.v, d: a.d, terms: combine2(1, a.terms, -1, b.terms)}, nil
+	k, err := sumKind("-", a, b)
+	if err != nil {
+		return Quantity{}, err
+	}
+	return Quantity{v: a.v - b.v, d: a.d, terms: combine2(1, a.terms, -1, b.terms), temp: k}, nil
 }
 
 // Mul returns a * b.

@@ -7,16 +7,33 @@ import (
 	"strings"
 	"unicode"
 	"unicode/utf8"
+
+	"cleave/calc/materials"
 )
 
 // Unit is a unit of measurement: the SI value of a number n written in this
-// unit is n*Scale, with dimension D. Symbol is the text that names it and
-// that [ParseUnit] accepts.
+// unit is n*Scale + Offset, with dimension D. Symbol is the text that names
+// it and that [ParseUnit] accepts.
 type Unit struct {
 	Symbol string
 	Scale  float64
 	D      Dim
+	// Offset is the SI value of the unit's zero. It is 273.15 (K) for °C
+	// written alone, an absolute temperature on the Celsius scale, and 0 for
+	// every other unit; °C inside a compound unit ("°C/min", "°C^-1") or
+	// raised to a power is a temperature difference, 1 °C = 1 K.
+	Offset float64
+	// Keep says that a value written in this unit is shown in it as long as
+	// nothing has been computed from it: the trade's own units (rpm, Torr,
+	// Oe, inch, ppm, sccm) whose dimension's customary unit would read
+	// oddly (a spin speed in Hz). Only a unit that is one such symbol,
+	// possibly with a prefix, keeps.
+	Keep bool
 }
+
+// CelsiusZero is 0 °C in kelvin: T/K = t/°C + 273.15 exactly (SI Brochure,
+// 9th ed. (2019), section 2.3.1 [src:SI2019]).
+const CelsiusZero = 273.15
 
 // Physical values used by the unit table.
 const (
@@ -51,6 +68,24 @@ type unitDef struct {
 	d        Dim
 	prefixOK bool
 }
+
+// keptUnits are the symbols whose values are shown as written (see Unit.Keep), with or
+// without a prefix.
+var keptUnits = map[string]bool{"Torr": true, "inch": true, "in": true, "Oe": true, "ppm": true, "ppb": true,
+	"rpm": true, "sccm": true, "slm": true}
+
+// celsiusUnits are the spellings of the degree Celsius (see Unit.Offset).
+var celsiusUnits = map[string]bool{"°C": true, "degC": true, "\u2103": true}
+
+// Values behind the growth and fabrication units below.
+const (
+	// molarGas is R = N_A k_B in J/(mol K), exact since N_A and k_B are (CODATA 2018).
+	molarGas = 6.02214076e23 * 1.380649e-23
+	// sccmMolPerS is one standard cubic centimetre per minute as an amount of gas per
+	// second: p0 V/(R T0) over 60 s, with the standard conditions of mass-flow controllers,
+	// T0 = 273.15 K and p0 = 101325 Pa (SEMI E12; from memory): 7.4358e-7 mol/s.
+	sccmMolPerS = 101325 * 1e-6 / (molarGas * CelsiusZero) / 60
+)
 
 // units maps every accepted symbol to its definition. The SI derived units
 // follow the SI Brochure, 9th ed. (BIPM 2019), Table 4; the non-SI units
@@ -103,9 +138,33 @@ var units = map[string]unitDef{
 	"h":   {3600, 0, Time, false},
 	"deg": {math.Pi / 180, 0, Dimensionless, false},
 	"°":   {math.Pi / 180, 0, Dimensionless, false},
-	// Pressure in growth chambers: 1 bar = 1e5 Pa, 1 Torr = 101325/760 Pa.
+	// Pressure in growth chambers: 1 bar = 1e5 Pa, 1 Torr = 101325/760 Pa (mTorr in
+	// sputtering and etching).
 	"bar":  {1, 5, dimPressure, true},
-	"Torr": {101325.0 / 760, 0, dimPressure, false},
+	"Torr": {101325.0 / 760, 0, dimPressure, true},
+	// Degree Celsius [src:SI2019]: alone, an absolute temperature t with T/K = t/°C +
+	// 273.15; in a compound unit a difference, 1 °C = 1 K. U+2103 is the DEGREE CELSIUS sign.
+	"°C":     {1, 0, Temperature, false},
+	"degC":   {1, 0, Temperature, false},
+	"\u2103": {1, 0, Temperature, false},
+	// Inch: 0.0254 m exactly (the international inch of 1959; NIST SP 811, appendix B,
+	// from memory), for wafer diameters.
+	"inch": {254, -4, Length, false},
+	"in":   {254, -4, Length, false},
+	// Litre: 1 L = 1e-3 m^3 exactly (SI Brochure 9th ed., Table 8 [src:SI2019]).
+	"L": {1, -3, Length.Pow(3), true},
+	// Oersted, the CGS unit of the magnetic field strength H: 1 Oe = (1000/4π) A/m
+	// (SI Brochure 8th ed. (2006), Table 9, from memory). It is not the tesla: μ0 H is.
+	"Oe": {1000 / (4 * math.Pi), 0, Current.Div(Length), true},
+	// Parts per million and per billion: 1e-6 and 1e-9 (common practice).
+	"ppm": {1, -6, Dimensionless, false},
+	"ppb": {1, -9, Dimensionless, false},
+	// Revolutions per minute: one cycle per 60 s (spin coaters, substrate rotation).
+	"rpm": {1.0 / 60, 0, dimFrequency, false},
+	// Gas flows: standard cubic centimetres and standard litres per minute, as amounts of
+	// gas per time (see sccmMolPerS).
+	"sccm": {sccmMolPerS, 0, Amount.Div(Time), false},
+	"slm":  {sccmMolPerS * 1000, 0, Amount.Div(Time), false},
 	// "Per square": sheet resistance is written Ohm/sq; sq is the number 1.
 	"sq": {1, 0, Dimensionless, false},
 	"%":  {1, -2, Dimensionless, false},
@@ -168,6 +227,11 @@ func (f factor) inv() factor {
 type unitParser struct {
 	s   string
 	pos int
+	// What ParseUnit needs to decide Unit.Offset and Unit.Keep: how many atoms the unit
+	// has, whether any was raised to a power, and the symbol of the last one looked up.
+	atoms   int
+	powered bool
+	base    string // the last symbol looked up, without its prefix
 }
 
 func (p *unitParser) fail(off int, format string, args ...any) error {
@@ -238,7 +302,14 @@ func ParseUnit(s string) (Unit, error) {
 	} else {
 		scale *= math.Pow(10, f.exp10)
 	}
-	return Unit{Symbol: strings.TrimSpace(s), Scale: scale, D: d}, nil
+	u := Unit{Symbol: strings.TrimSpace(s), Scale: scale, D: d}
+	if p.atoms == 1 && !p.powered {
+		u.Keep = keptUnits[p.base]
+		if celsiusUnits[p.base] {
+			u.Offset = CelsiusZero
+		}
+	}
+	return u, nil
 }
 
 // MustUnit is [ParseUnit] for literals in package tables; it panics with a
@@ -320,6 +391,7 @@ func (p *unitParser) power() (factor, error) {
 	if err != nil {
 		return factor{}, err
 	}
+	p.powered = true
 	r := factor{mant: 1}
 	if den == 1 {
 		// Integer power: repeated multiplication keeps exact mantissas exact.
@@ -396,7 +468,7 @@ func (p *unitParser) signedInt() (int, error) {
 }
 
 func isSymbolRune(r rune) bool {
-	return unicode.IsLetter(r) || r == '_' || r == '%' || r == '°'
+	return unicode.IsLetter(r) || r == '_' || r == '%' || r == '°' || r == '\u2103'
 }
 
 func (p *unitParser) atom() (factor, error) {
@@ -423,6 +495,8 @@ func (p *unitParser) atom() (factor, error) {
 		if p.pos < len(p.s) && p.s[p.pos] >= '0' && p.s[p.pos] <= '9' {
 			return factor{}, p.fail(p.pos-1, "a number is not a unit (only 1 is allowed)")
 		}
+		p.atoms++
+		p.base = ""
 		return factor{mant: 1}, nil
 	case isSymbolRune(r):
 		start := p.pos
@@ -432,17 +506,30 @@ func (p *unitParser) atom() (factor, error) {
 				break
 			}
 			p.pos += n
-			if r == '%' || r == '°' {
+			if r == '%' || r == '\u2103' {
 				break // these stand alone
 			}
+			if r == '°' {
+				// "°" alone is the angle degree; "°C" the degree Celsius, "°F" refused below.
+				if r2, n2 := p.peek(); n2 > 0 && unicode.IsLetter(r2) {
+					p.pos += n2
+				}
+				break
+			}
 		}
-		return p.lookup(start, p.s[start:p.pos])
+		sym := p.s[start:p.pos]
+		if sym == "ML" {
+			return p.monolayer(start)
+		}
+		return p.lookup(start, sym)
 	}
 	return factor{}, p.fail(p.pos, "unexpected %q (expected a unit symbol such as m, T, eV or Ohm)", r)
 }
 
 func (p *unitParser) lookup(off int, sym string) (factor, error) {
-	mk := func(u unitDef, pexp int) factor {
+	mk := func(u unitDef, pexp int, base string) factor {
+		p.atoms++
+		p.base = base
 		f := factor{mant: u.mant, exp10: float64(u.exp10 + pexp)}
 		for i, e := range u.d {
 			f.d[i] = int(e)
@@ -450,23 +537,76 @@ func (p *unitParser) lookup(off int, sym string) (factor, error) {
 		return f
 	}
 	if u, ok := units[sym]; ok {
-		return mk(u, 0), nil
+		return mk(u, 0, sym), nil
 	}
 	for _, pre := range prefixes {
 		if rest, ok := strings.CutPrefix(sym, pre.sym); ok {
 			if u, ok := units[rest]; ok && u.prefixOK {
-				return mk(u, pre.exp), nil
+				return mk(u, pre.exp, rest), nil
 			}
 		}
+	}
+	switch sym {
+	case "°F", "degF", "F°":
+		return factor{}, p.fail(off, "unknown unit %q: Fahrenheit is not supported (write °C or K)", sym)
+	case "C°", "Celsius", "celsius", "°c":
+		return factor{}, p.fail(off, "unknown unit %q (the degree Celsius is written °C or degC)", sym)
 	}
 	return factor{}, p.fail(off, "unknown unit %q (expected a unit such as m, um, T, mT, G, K, eV, meV, Ohm, kOhm, V, A, s, Hz, m_e or 1)", sym)
 }
 
+// monolayer reads "ML(material)" at off, the "ML" already consumed: one monolayer of (001)
+// growth of a zincblende material, half its cubic lattice constant (calc/materials,
+// [materials.Material.Monolayer]). The material is named in parentheses right after ML, as
+// a layer table writes it: ML(GaAs), ML(Al0.3Ga0.7As), ML(Al(0.3)Ga(0.7)As).
+func (p *unitParser) monolayer(off int) (factor, error) {
+	if r, _ := p.peek(); r != '(' {
+		return factor{}, p.fail(off, "ML (a monolayer) needs its material right after it, e.g. ML(GaAs) or ML(Al0.3Ga0.7As)/s (millilitres are mL)")
+	}
+	open := p.pos
+	depth := 0
+	for p.pos < len(p.s) {
+		c := p.s[p.pos]
+		p.pos++
+		if c == '(' {
+			depth++
+		} else if c == ')' {
+			depth--
+			if depth == 0 {
+				break
+			}
+		}
+	}
+	if depth != 0 {
+		return factor{}, p.fail(open, "unclosed '(' after ML (expected ML(GaAs))")
+	}
+	name := strings.TrimSpace(p.s[open+1 : p.pos-1])
+	m, err := materials.Lookup(name)
+	if err != nil {
+		return factor{}, p.fail(open+1, "ML(%s): %v", name, err)
+	}
+	ml, err := m.Monolayer()
+	if err != nil {
+		return factor{}, p.fail(open+1, "ML(%s): %v", name, strings.TrimPrefix(err.Error(), "materials: "))
+	}
+	p.atoms++
+	p.base = ""
+	return factor{mant: ml, d: [7]int{IdxLength: 1}}, nil
+}
+
 // In returns the number that expresses q in unit u. The dimensions must
-// agree, else the error is a *[DimError] with Op "in".
+// agree, else the error is a *[DimError] with Op "in". In °C a temperature
+// reads as absolute (388.15 K is 115 °C); a temperature difference
+// ([TempDifference]) cannot be expressed in °C (a *[TempError]).
 func (q Quantity) In(u Unit) (float64, error) {
 	if q.d != u.D {
 		return 0, &DimError{Op: "in", Left: q.d, Right: u.D}
+	}
+	if u.Offset != 0 {
+		if q.temp == TempDifference {
+			return 0, differenceInCelsius(q)
+		}
+		return fromSI(q.v-u.Offset, u.Scale), nil
 	}
 	return fromSI(q.v, u.Scale), nil
 }

@@ -107,6 +107,38 @@ func TestUnitTable(t *testing.T) {
 		{"J*s", 1, dimEnergy.Mul(Time), "star product"},
 		{"meV / T", 1.602176634e-22, dimEnergy.Div(dimField), "spaces around /"},
 		{" um ", 1e-6, Length, "surrounding spaces"},
+		// Growth and fabrication units.
+		{"°C", 1, Temperature, "[src:SI2019] 2.3.1: a Celsius degree is a kelvin (the offset is in Unit.Offset)"},
+		{"degC", 1, Temperature, "ASCII spelling of °C"},
+		{"\u2103", 1, Temperature, "DEGREE CELSIUS sign"},
+		{"°C/min", 1.0 / 60, Temperature.Div(Time), "a ramp rate: °C in a compound unit is a difference"},
+		{"inch", 0.0254, Length, "international inch, exactly 25.4 mm (NIST SP 811, from memory)"},
+		{"in", 0.0254, Length, "same"},
+		{"L", 1e-3, Length.Pow(3), "[SI9] Table 8: 1 L = 1 dm^3"},
+		{"mL", 1e-6, Length.Pow(3), "[SI9] Tables 7, 8"},
+		{"uL", 1e-9, Length.Pow(3), "[SI9] Tables 7, 8"},
+		{"µL", 1e-9, Length.Pow(3), "[SI9] Tables 7, 8"},
+		{"Oe", 79.57747154594767, Current.Div(Length), "CGS oersted, 1000/(4π) A/m ([SI 8th ed.] Table 9, from memory)"},
+		{"kOe", 79577.47154594767, Current.Div(Length), "kilo-oersted"},
+		{"ppm", 1e-6, Dimensionless, "parts per million"},
+		{"ppb", 1e-9, Dimensionless, "parts per billion"},
+		{"rpm", 1.0 / 60, dimFrequency, "one revolution per minute"},
+		// p0 V/(R T0)/60 s with p0 = 101325 Pa, T0 = 273.15 K, R = N_A k_B = 8.31446261815324 J/(mol K)
+		// (exact, CODATA 2018): 4.461503340547e-5 mol per standard cm^3 (computed).
+		{"sccm", 7.43583890091172e-07, Amount.Div(Time), "standard cm^3 per minute (SEMI E12 standard conditions, from memory)"},
+		{"slm", 7.43583890091172e-04, Amount.Div(Time), "standard litre per minute"},
+		{"mTorr", 101325.0 / 760 / 1000, dimPressure, "[TORR] with the SI prefix milli"},
+		{"ML(GaAs)", 0.2826625e-9, Length, "a/2 with a = 5.65325 Å [src:VURGAFTMAN2001] (common practice)"},
+		{"ML(AlAs)/s", 0.283055e-9, Length.Div(Time), "a/2 with a = 5.6611 Å [src:VURGAFTMAN2001]"},
+		{"ML(Al(0.3)Ga(0.7)As)", 0.28278025e-9, Length, "Vegard: a = 5.655605 Å"},
+		{"T/min", 1.0 / 60, dimField.Div(Time), "sweep rate"},
+		{"mW/cm^2", 10, dimPower.Div(Length.Pow(2)), "intensity: 1e-3/1e-4"},
+		{"mJ/cm^2", 10, dimEnergy.Div(Length.Pow(2)), "dose"},
+		{"uC/cm^2", 1e-2, dimCharge.Div(Length.Pow(2)), "e-beam dose: 1e-6/1e-4"},
+		{"Ohm mm", 1e-3, dimResistance.Mul(Length), "contact resistance times width"},
+		{"Ohm cm^2", 1e-4, dimResistance.Mul(Length.Pow(2)), "specific contact resistivity"},
+		{"um/h", 1e-6 / 3600, Length.Div(Time), "growth rate"},
+		{"Å/s", 1e-10, Length.Div(Time), "growth rate"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.sym, func(t *testing.T) {
@@ -169,6 +201,13 @@ func TestParseUnitErrors(t *testing.T) {
 		{"m^100 m^100", 0}, // dimension out of range
 		{"m $", 2},         // bad character
 		{"msr", 0},         // the steradian takes no prefix here
+		{"°F", 0},          // Fahrenheit is not supported
+		{"m °K", 2},        // the kelvin has no degree sign
+		{"ML", 0},          // a monolayer needs its material
+		{"ML/s", 0},        // same, in a rate
+		{"ML(GaAs", 2},     // unclosed
+		{"ML(Si)", 3},      // not a zincblende III-V
+		{"ML(Unobtainium)", 3},
 	}
 	for _, tt := range tests {
 		t.Run(tt.in, func(t *testing.T) {

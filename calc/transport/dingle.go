@@ -17,6 +17,7 @@ type DingleResult struct {
 	Fit               *PolyFit // the weighted line through the Dingle plot
 
 	InvB, Y   []float64  // the Dingle plot: 1/B (1/T) and ln[ΔR sinh X/(4 R_0 X)]
+	Sigma     []float64  // standard uncertainty of each Y (the fit's weights are 1/Sigma²)
 	Extrema   []Extremum // the extrema used
 	Frequency float64    // SdH frequency used to place the extrema, T
 	FreqFrom  string     // where it came from
@@ -131,7 +132,7 @@ func QuantumLifetime(d *Dataset, bmin, bmax, mstar, n, T float64, opts ...Option
 		ys = append(ys, math.Log(a/(4*e.Background*g)))
 		ss = append(ss, math.Hypot(e.Value.Uncertainty/a, dingleFloor))
 	}
-	res.Y = ys
+	res.Y, res.Sigma = ys, ss
 	if len(ys) < MinDingleExtrema {
 		return nil, fmt.Errorf("%s: Dingle analysis of %s over %g–%g T: %d significant extrema (%d dropped); need at least %d: %w",
 			d.Name, yc.Name, bmin, bmax, len(ys), dropped, MinDingleExtrema, ErrTooFewPoints)

@@ -50,3 +50,19 @@ func ExampleHallDensity() {
 	// Output:
 	// n = 3.000 e11 cm^-2 (electrons), 0 warnings
 }
+
+// A five-gap TLM pattern: the line gives twice the contact resistance at zero gap and the
+// sheet resistance over the width as its slope.
+func ExampleFitTLM() {
+	gaps := []float64{5e-6, 10e-6, 20e-6, 40e-6, 80e-6} // m
+	R := []float64{60.2, 109.7, 210.4, 409.9, 810.1}    // Ohm
+	f, err := transport.FitTLM(gaps, R, nil)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Printf("2Rc = %.2f ± %.2f Ohm, Rsh/W = %.4f ± %.4f Ohm/um, %d warnings\n",
+		f.Intercept.Value, f.Intercept.Uncertainty, f.Slope.Value*1e-6, f.Slope.Uncertainty*1e-6, len(f.Warnings))
+	// Output:
+	// 2Rc = 10.05 ± 0.21 Ohm, Rsh/W = 10.0002 ± 0.0051 Ohm/um, 0 warnings
+}

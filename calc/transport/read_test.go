@@ -119,6 +119,7 @@ func TestReadErrors(t *testing.T) {
 		{"comments only", "# a: 1\n\n# b: 2\n", "f.csv:3:1: no header row: expected a line of column names such as \"B (T), Rxx (Ohm)\"", ErrNoHeader},
 		{"numbers instead of a header", "# x\n0.1,2\n", "f.csv:2:1: no header row: this line holds numbers; expected column names such as \"B (T), Rxx (Ohm)\"", ErrNoHeader},
 		{"unknown unit", "B (T), Rxx (Ohmz)\n", "f.csv:1:13: unknown unit \"Ohmz\" in column \"Rxx\": ", ErrUnknownUnit},
+		{"absolute temperatures in °C", "B (T), T (°C)\n", "f.csv:1:11: unknown unit \"°C\" in column \"T\": a column in °C holds absolute temperatures with an offset, which data files do not convert: write the column in K", ErrUnknownUnit},
 		{"wrong dimension for a known column", "B (Ohm),Rxx (Ohm)\n", "f.csv:1:4: unit \"Ohm\" of column \"B\" is a resistance; expected a magnetic field (T)", ErrUnitDim},
 		{"temperature in tesla", "T [T]\n", "f.csv:1:4: unit \"T\" of column \"T\" is a magnetic field; expected a temperature (K)", ErrUnitDim},
 		{"field in a length unit", "B (mm)\n", "f.csv:1:4: unit \"mm\" of column \"B\" is a length; expected a magnetic field (T)", ErrUnitDim},

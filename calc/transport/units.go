@@ -1,6 +1,7 @@
 package transport
 
 import (
+	"fmt"
 	"strings"
 
 	"cleave/calc/quantity"
@@ -205,6 +206,10 @@ func parseUnit(s string) (float64, quantity.Dim, error) {
 	u, err := quantity.ParseUnit(s)
 	if err != nil {
 		return 0, quantity.Dim{}, err
+	}
+	if u.Offset != 0 {
+		// Columns are scaled, never shifted: an absolute °C column would read 273.15 K low.
+		return 0, quantity.Dim{}, fmt.Errorf("a column in °C holds absolute temperatures with an offset, which data files do not convert: write the column in K")
 	}
 	return u.Scale, u.D, nil
 }

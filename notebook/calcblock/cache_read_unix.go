@@ -17,7 +17,9 @@ func ReadFile(name string) ([]byte, error) {
 	var fd int
 	var err error
 	for {
-		fd, err = syscall.Open(name, syscall.O_RDONLY|syscall.O_CLOEXEC, 0)
+		// O_NONBLOCK: a FIFO put where a file was expected must not block the open (for a
+		// regular file the flag changes nothing).
+		fd, err = syscall.Open(name, syscall.O_RDONLY|syscall.O_CLOEXEC|syscall.O_NONBLOCK, 0)
 		if err != syscall.EINTR {
 			break
 		}

@@ -2,8 +2,8 @@ package calcblock
 
 import (
 	"bytes"
+	"cleave/internal/testutil"
 	"errors"
-	"flag"
 	"fmt"
 	"os"
 	"path/filepath"
@@ -12,8 +12,6 @@ import (
 
 	"cleave/notebook/mdsrc"
 )
-
-var update = flag.Bool("update", false, "rewrite the golden files in testdata")
 
 var demoFields = map[string]string{"width": "20 um"}
 
@@ -89,19 +87,7 @@ func assertSettled(t *testing.T, out []byte, rep2 *FileReport) {
 
 func checkGolden(t *testing.T, path string, got []byte) {
 	t.Helper()
-	if *update {
-		if err := os.WriteFile(path, got, 0o644); err != nil {
-			t.Fatal(err)
-		}
-		return
-	}
-	want, err := os.ReadFile(path)
-	if err != nil {
-		t.Fatalf("%v (run go test -update to create it)", err)
-	}
-	if !bytes.Equal(got, want) {
-		t.Errorf("%s differs:\ngot:\n%q\nwant:\n%q", path, got, want)
-	}
+	testutil.Golden(t, path, got)
 }
 
 // skeleton returns the bytes of raw outside every result region, with the

@@ -56,5 +56,10 @@
 //
 // [WriteAtomic] replaces a file only if it still holds the bytes that were
 // read, through a temporary file in the same directory, keeping the file mode,
-// with fsync before the rename and of the directory after it.
+// with fsync before the swap and of the directory after it. On Linux the swap
+// is an exchange (renameat2 with RENAME_EXCHANGE) followed by a check of what
+// came out, so a save that lands at any moment is kept; elsewhere a last stat
+// comparison just before the rename narrows that window. A read-only file is
+// refused. Temporary files are named `.NAME.tmp-RANDOM` ([IsTempName]) and
+// locked while in use; [RemoveStaleTemps] removes those a killed run left.
 package calcblock

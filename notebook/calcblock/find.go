@@ -28,18 +28,18 @@ type Line struct {
 	LineNo int        // 1-based line number in the file
 }
 
-// Kind classifies a line's code.
-type Kind int
+// LineKind classifies a line's code.
+type LineKind int
 
 // Kinds of calc lines.
 const (
-	Blank   Kind = iota // nothing but blanks (possibly followed by a result region)
-	Comment             // first non-blank character is '#'
-	Code                // anything else: evaluated
+	Blank   LineKind = iota // nothing but blanks (possibly followed by a result region)
+	Comment                 // first non-blank character is '#'
+	Code                    // anything else: evaluated
 )
 
 // Kind reports whether the line is blank, a comment or code.
-func (l Line) Kind() Kind {
+func (l Line) Kind() LineKind {
 	c := strings.TrimSpace(l.Code)
 	switch {
 	case c == "":
@@ -70,7 +70,7 @@ func Find(s *mdsrc.Source) ([]Block, error) {
 	var blocks []Block
 	var err error
 	var claimed map[int]bool
-	ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+	ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 		if !entering {
 			return ast.WalkContinue, nil
 		}
@@ -236,7 +236,7 @@ func claimedLines(s *mdsrc.Source) map[int]bool {
 			claimed[ln] = true
 		}
 	}
-	ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+	ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 		if !entering || n.Type() != ast.TypeBlock {
 			return ast.WalkContinue, nil
 		}

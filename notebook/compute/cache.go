@@ -14,6 +14,7 @@ import (
 	"sort"
 	"strings"
 	"sync"
+	"unsafe"
 
 	"cleave/notebook"
 	"cleave/notebook/calcblock"
@@ -49,23 +50,25 @@ type fileRec struct {
 	report *storedReport     // a Markdown file with calc blocks: the report of its last run
 }
 
-// storedReport is a file's report when it had nothing stale: its failed lines (which stay
-// failed while neither the file nor any of its inputs change).
+// storedReport is a file's report: its stale and its failed lines, which stay what they are
+// while neither the file nor any of its inputs change.
 type storedReport struct {
 	key    string // the results' key it was made with
 	code   int
 	errors []calcblock.Change
+	stale  []calcblock.Change
 }
 
 type cacheRec struct {
 	key  string
 	deps []depValue // sorted by name
 	outs []calcblock.Outcome
+	okey string // outsKey(outs)
 }
 
 type depValue struct{ name, value string }
 
-const cacheHeader = "cleave-engine-cache 2\n"
+const cacheHeader = "cleave-engine-cache 5\n"
 
 // cacheShards is how many files the cache is kept in.
 const cacheShards = 16
@@ -163,6 +166,15 @@ func (c *Cache) knownSummary(stamps map[string]string) func(string) (*notebook.S
 // lookup returns the stored outcomes of the file at path when its key matches and every
 // recorded dependency still has its recorded value.
 func (c *Cache) lookup(rs *runState, path, key string, n int) ([]calcblock.Outcome, bool) {
+	r, ok := c.find(rs, path, key, n)
+	if !ok {
+		return nil, false
+	}
+	return r.outs, true
+}
+
+// find is lookup returning the record.
+func (c *Cache) find(rs *runState, path, key string, n int) (*cacheRec, bool) {
 	c.mu.Lock()
 	r, ok := c.cur[path]
 	if !ok {
@@ -180,12 +192,12 @@ func (c *Cache) lookup(rs *runState, path, key string, n int) ([]calcblock.Outco
 	c.mu.Lock()
 	c.cur[path] = r
 	c.mu.Unlock()
-	return r.outs, true
+	return r, true
 }
 
 // store keeps what an evaluation of the file at path computed and read.
 func (c *Cache) store(path, key string, rec deps, outs []calcblock.Outcome) {
-	r := &cacheRec{key: key, outs: outs}
+	r := &cacheRec{key: key, outs: outs, okey: outsKey(outs)}
 	for k, v := range rec {
 		r.deps = append(r.deps, depValue{k, v})
 	}
@@ -202,51 +214,56 @@ func (c *Cache) store(path, key string, rec deps, outs []calcblock.Outcome) {
 func (c *Cache) Save(nb *notebook.Notebook) error {
 	c.mu.Lock()
 	defer c.mu.Unlock()
-	all := make(map[string]*cacheRec, len(c.old)+len(c.cur))
-	for p, r := range c.old {
-		if _, ok := nb.File(p); ok {
-			all[p] = r
-		} else {
+	for p := range c.old {
+		if _, ok := nb.File(p); !ok {
+			delete(c.old, p)
 			c.dirty[shardOf(p)] = true
 		}
 	}
-	maps.Copy(all, c.cur)
-	files := make(map[string]*fileRec, len(c.files)+len(c.curFiles))
+	maps.Copy(c.old, c.cur)
 	for p, r := range c.files {
-		if _, ok := nb.File(p); ok || r.sum == nil {
-			files[p] = r
-		} else {
+		if _, ok := nb.File(p); !ok && r.sum != nil {
+			delete(c.files, p)
 			c.dirty[shardOf(p)] = true
 		}
 	}
-	maps.Copy(files, c.curFiles)
-	var errs []error
+	maps.Copy(c.files, c.curFiles)
+	c.cur, c.curFiles = map[string]*cacheRec{}, map[string]*fileRec{}
+	var todo []int
 	for i := range cacheShards {
-		if !c.dirty[i] {
-			continue
+		if c.dirty[i] {
+			todo = append(todo, i)
 		}
-		m, f := map[string]*cacheRec{}, map[string]*fileRec{}
-		for p, r := range all {
-			if shardOf(p) == i {
-				m[p] = r
-			}
+	}
+	if len(todo) == 0 {
+		return nil
+	}
+	if err := os.MkdirAll(c.dir, 0o755); err != nil {
+		return err
+	}
+	ms := make([]map[string]*cacheRec, cacheShards)
+	fs := make([]map[string]*fileRec, cacheShards)
+	for _, i := range todo {
+		ms[i], fs[i] = map[string]*cacheRec{}, map[string]*fileRec{}
+	}
+	for p, r := range c.old {
+		if m := ms[shardOf(p)]; m != nil {
+			m[p] = r
 		}
-		for p, r := range files {
-			if shardOf(p) == i {
-				f[p] = r
-			}
+	}
+	for p, r := range c.files {
+		if f := fs[shardOf(p)]; f != nil {
+			f[p] = r
 		}
-		if err := os.MkdirAll(c.dir, 0o755); err != nil {
-			return err
-		}
-		if err := calcblock.ReplaceFile(c.shardFile(i), encodeCache(m, f)); err != nil {
+	}
+	var errs []error
+	for _, i := range todo {
+		if err := calcblock.ReplaceFile(c.shardFile(i), encodeCache(ms[i], fs[i])); err != nil {
 			errs = append(errs, err)
 			continue
 		}
 		c.dirty[i] = false
 	}
-	c.old, c.cur = all, map[string]*cacheRec{}
-	c.files, c.curFiles = files, map[string]*fileRec{}
 	os.Remove(filepath.Join(c.dir, "results")) // the single file of an earlier version
 	return errors.Join(errs...)
 }
@@ -266,6 +283,7 @@ func encodeCache(m map[string]*cacheRec, files map[string]*fileRec) []byte {
 		r := m[p]
 		b = appendStr(b, p)
 		b = appendStr(b, r.key)
+		b = appendStr(b, r.okey)
 		b = binary.AppendUvarint(b, uint64(len(r.deps)))
 		for _, d := range r.deps {
 			b = appendStr(b, d.name)
@@ -317,7 +335,7 @@ func decodeCache(data []byte) (map[string]*cacheRec, map[string]*fileRec, error)
 			break
 		}
 		p := d.str()
-		r := &cacheRec{key: d.str()}
+		r := &cacheRec{key: d.str(), okey: d.str()}
 		nd := d.count()
 		r.deps = make([]depValue, 0, nd)
 		for range nd {
@@ -349,8 +367,9 @@ func appendStr(b []byte, s string) []byte {
 }
 
 type decoder struct {
-	b   []byte
-	err error
+	b    []byte
+	err  error
+	strs map[string]string // interned strings: dependency names and values repeat across files
 }
 
 func (d *decoder) uvarint() uint64 {
@@ -381,7 +400,10 @@ func (d *decoder) str() string {
 	if d.err != nil {
 		return ""
 	}
-	s := string(d.b[:n])
+	if n == 0 {
+		return ""
+	}
+	s := unsafe.String(&d.b[0], n)
 	d.b = d.b[n:]
 	return s
 }

@@ -2,7 +2,7 @@ package compute
 
 import (
 	"bytes"
-	"flag"
+	"cleave/internal/testutil"
 	"fmt"
 	"io/fs"
 	"math"
@@ -15,8 +15,6 @@ import (
 	"cleave/calc"
 	"cleave/calc/transport"
 )
-
-var update = flag.Bool("update", false, "rewrite golden files")
 
 // Truth of the synthetic sweep written into the test notebook.
 const (
@@ -109,14 +107,7 @@ func TestCalcGolden(t *testing.T) {
 			t.Errorf("%s: calc changed bytes outside result regions", n)
 		}
 	}
-	golden := filepath.Join("testdata", "calc.golden")
-	if *update {
-		if err := os.WriteFile(golden, []byte(g.String()), 0o644); err != nil {
-			t.Fatal(err)
-		}
-	} else if want, err := os.ReadFile(golden); err != nil || string(want) != g.String() {
-		t.Errorf("calc output differs from %s (rerun with -update if intended):\n%s", golden, g.String())
-	}
+	testutil.GoldenString(t, filepath.Join("testdata", "calc.golden"), g.String())
 	var errs []string
 	for _, f := range rep.Files {
 		for _, c := range f.Errors {

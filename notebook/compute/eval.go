@@ -202,12 +202,13 @@ func fileEnv(root, inFile string) (*calc.Env, error) {
 	return env, nil
 }
 
-// WriteCSV writes a data-set value (a data file, a symmetrised sweep, a band profile) as CSV
-// with `# key: value` metadata lines and units in the header, the format data("...") reads.
+// WriteCSV writes a data-set value (a data file, a symmetrised sweep, a band profile) or a fit
+// result's points with its fitted curve (see library.Points) as CSV with `# key: value`
+// metadata lines and units in the header, the format data("...") reads.
 func WriteCSV(w io.Writer, v calc.Value) error {
-	d, ok := v.(*library.DataSet)
-	if !ok {
-		return fmt.Errorf("--csv needs a data set (data(\"...\"), symmetrize(...), a band profile), found a %s", v.Type())
+	d, err := library.Points(v)
+	if err != nil {
+		return err
 	}
-	return transport.WriteCSV(w, d.D)
+	return transport.WriteCSV(w, d)
 }

@@ -51,6 +51,7 @@ func appendFileRec(b []byte, r *fileRec) []byte {
 			b = appendStr(appendPos(b, notebook.Pos{Line: p.Line, Col: p.Col}), p.Msg)
 		}
 		b = appendBool(b, s.Fence)
+		b = appendBool(b, s.Plots)
 	}
 	if r.digest != "" {
 		b = appendStr(b, r.digest)
@@ -61,10 +62,12 @@ func appendFileRec(b []byte, r *fileRec) []byte {
 	if rep := r.report; rep != nil {
 		b = appendStr(b, rep.key)
 		b = binary.AppendUvarint(b, uint64(rep.code))
-		b = binary.AppendUvarint(b, uint64(len(rep.errors)))
-		for _, c := range rep.errors {
-			b = appendPos(b, notebook.Pos{Line: c.Line, Col: c.Col})
-			b = appendStr(appendStr(b, c.Old), c.New)
+		for _, cs := range [][]calcblock.Change{rep.errors, rep.stale} {
+			b = binary.AppendUvarint(b, uint64(len(cs)))
+			for _, c := range cs {
+				b = appendPos(b, notebook.Pos{Line: c.Line, Col: c.Col})
+				b = appendStr(appendStr(b, c.Old), c.New)
+			}
 		}
 	}
 	return b
@@ -118,6 +121,7 @@ func (d *decoder) fileRec(p string) *fileRec {
 			s.Problems = append(s.Problems, notebook.Problem{Path: p, Line: pos.Line, Col: pos.Col, Msg: d.str()})
 		}
 		s.Fence = d.bool()
+		s.Plots = d.bool()
 		r.sum = s
 	}
 	if flags&hasDigest != 0 {
@@ -128,9 +132,11 @@ func (d *decoder) fileRec(p string) *fileRec {
 	}
 	if flags&hasReport != 0 {
 		rep := &storedReport{key: d.str(), code: int(d.uvarint())}
-		for range d.count() {
-			pos := d.pos()
-			rep.errors = append(rep.errors, calcblock.Change{Path: p, Line: pos.Line, Col: pos.Col, Old: d.str(), New: d.str()})
+		for _, cs := range []*[]calcblock.Change{&rep.errors, &rep.stale} {
+			for range d.count() {
+				pos := d.pos()
+				*cs = append(*cs, calcblock.Change{Path: p, Line: pos.Line, Col: pos.Col, Old: d.str(), New: d.str()})
+			}
 		}
 		r.report = rep
 	}

@@ -7,6 +7,8 @@ import (
 	"fmt"
 	"io/fs"
 	"testing/fstest"
+
+	"cleave/calc"
 )
 
 // recFS is the notebook's file system as one evaluation's calc environment sees it (data files,
@@ -23,8 +25,15 @@ type recFS struct {
 func (r recFS) ReadFile(name string) ([]byte, error) {
 	b, err := readRegular(r.fsys, name)
 	r.rec["read:"+name] = readValue(b, err)
+	if afterRead != nil {
+		afterRead(name)
+	}
 	return b, err
 }
+
+// afterRead, when set (by tests), runs after each data read of an evaluation: a test replaces
+// the file there, as if it were swapped while the evaluation went on.
+var afterRead func(name string)
 
 // Open implements fs.FS for whatever reads through Open: the file is read whole (and recorded)
 // and served from memory.
@@ -53,7 +62,7 @@ func (r recFS) ReadLink(name string) (string, error) {
 // errNotRegular is the error for a data path that is not a regular file.
 var errNotRegular = errors.New("not a regular file")
 
-// readRegular reads name if it is a regular file (after links).
+// readRegular reads name if it is a regular file (after links) of at most calc.MaxDataBytes.
 func readRegular(fsys fs.FS, name string) ([]byte, error) {
 	fi, err := fs.Stat(fsys, name)
 	if err != nil {
@@ -65,6 +74,9 @@ func readRegular(fsys fs.FS, name string) ([]byte, error) {
 			what = "a folder"
 		}
 		return nil, &fs.PathError{Op: "read", Path: name, Err: fmt.Errorf("%w (it is %s)", errNotRegular, what)}
+	}
+	if fi.Size() > calc.MaxDataBytes {
+		return nil, &fs.PathError{Op: "read", Path: name, Err: calc.DataSizeError(fi.Size())}
 	}
 	return fs.ReadFile(fsys, name)
 }

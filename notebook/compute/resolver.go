@@ -3,6 +3,7 @@ package compute
 import (
 	"errors"
 	"fmt"
+	"strings"
 
 	"cleave/calc"
 	"cleave/notebook"
@@ -46,7 +47,8 @@ func (r *resolver) lookup(name string) calc.Value {
 	for _, k := range notebook.Kinds() {
 		if string(k) == name {
 			if a, ok := r.v.nearest(r.e, k); ok {
-				return entryRecord(a, name)
+				// Records are never changed once made, so the files of a run share them.
+				return r.v.run.shared(a.Path+"\x00"+name, func() calc.Value { return entryRecord(a, name) })
 			}
 			return nil
 		}
@@ -60,12 +62,26 @@ func (r *resolver) lookup(name string) calc.Value {
 
 // geometry is the Hall-bar geometry calculations use: the device's as-built width and
 // probes where given, otherwise the mask's drawn ones.
-func (r *resolver) geometry() (*calc.Record, error) {
+func (r *resolver) geometry() (calc.Value, error) {
 	src := geometrySources(r.v, r.e)
 	dev, hasDev, mask := src.dev, src.hasDev, src.mask
 	if mask == nil && !hasDev {
 		return nil, errors.New("geometry: no device or mask in this entry's lineage")
 	}
+	key := "geometry\x00"
+	if hasDev {
+		key += dev.Path
+	}
+	key += "\x00"
+	if mask != nil {
+		key += mask.Path
+	}
+	return r.v.run.shared(key, func() calc.Value { return buildGeometry(src) }), nil
+}
+
+// buildGeometry makes the geometry record of a device and its mask.
+func buildGeometry(src geomSources) calc.Value {
+	dev, hasDev, mask := src.dev, src.hasDev, src.mask
 	g := &calc.Record{Path: "geometry"}
 	pick := func(field string) {
 		if hasDev {
@@ -83,7 +99,7 @@ func (r *resolver) geometry() (*calc.Record, error) {
 	for _, f := range []string{"shape", "width", "length", "probes", "sections", "contacts", "inner_radius", "outer_radius"} {
 		pick(f)
 	}
-	return g, nil
+	return g
 }
 
 // geomSources names the entries the geometry of an entry is read from: the nearest device
@@ -131,6 +147,19 @@ func (r *resolver) register(env *calc.Env) {
 		Params: []calc.Param{{Name: "density", Default: calc.String("n_SdH|n_H")}, {Name: "mobility", Default: calc.String("mu")}},
 		Call: func(e *calc.Env, args []calc.Value) (calc.Value, error) {
 			return r.scorecard(e, displayName(args[0]), displayName(args[1]))
+		},
+	})
+	env.Register(calc.Func{
+		Name:   "entry",
+		Doc:    "the front matter of the entry with this id (a wafer's with its layers), as a record: calibration wafers for cell_calibration, a mask outside the lineage",
+		Params: []calc.Param{{Name: "id"}},
+		Call: func(_ *calc.Env, args []calc.Value) (calc.Value, error) {
+			id := strings.TrimSpace(displayName(args[0]))
+			en, ok := r.v.entry(id) // recorded: which file holds id, and that file's text
+			if !ok {
+				return nil, &calc.ArgError{Arg: 0, Err: fmt.Errorf("%w: no entry has id %q", calc.ErrArgument, id)}
+			}
+			return entryRecord(en, string(en.Kind)), nil
 		},
 	})
 }

@@ -16,6 +16,7 @@ import (
 
 	"cleave/calc"
 	"cleave/calc/library"
+	"cleave/calc/plot"
 	"cleave/notebook"
 	"cleave/notebook/calcblock"
 	"cleave/notebook/mdsrc"
@@ -24,7 +25,7 @@ import (
 // Version is mixed into every cache key (with a hash of the executable, see EngineSalt), so
 // a new engine never reuses old results.
 // Bump it whenever a formula, a display rule or a function changes.
-const Version = "cleave-engine 2"
+const Version = "cleave-engine 3"
 
 // Options tunes Run.
 type Options struct {
@@ -43,6 +44,10 @@ type Options struct {
 	// learnt about a file at the same stamp (its summary, input digest, data hash, last report)
 	// is reused without reading it. nb should then have been loaded with the same stamps.
 	Stamps map[string]string
+	// Write says the caller will write the changed files: their reports then carry NewBytes
+	// (a file known from the cache with stale results is read to build them). Without it, a
+	// report of a file not read this run has NewBytes nil.
+	Write bool
 }
 
 // Report is the outcome of a run over a notebook: typed results, nothing to parse.
@@ -55,7 +60,8 @@ type Report struct {
 }
 
 // FileResult is one file's outcome: which results are stale or failed, and the file with its
-// result regions brought up to date.
+// result regions brought up to date (NewBytes and Original are nil for a file the cache
+// answered without reading it; with Options.Write every changed file is read).
 type FileResult struct {
 	*calcblock.FileReport
 	FromCache bool // the results came from the cache, nothing was evaluated
@@ -126,6 +132,7 @@ func Run(fsys fs.FS, nb *notebook.Notebook, opt Options) (*Report, error) {
 	if opt.Cache != nil {
 		rs.cache, rs.stamps = opt.Cache, opt.Stamps
 	}
+	rs.write = opt.Write
 	sel := selector(opt.Paths)
 	var todo []*notebook.File
 	for _, f := range nb.Files {
@@ -232,10 +239,22 @@ type runState struct {
 
 	cache  *Cache            // nil: no cache
 	stamps map[string]string // see Options.Stamps
+	write  bool              // see Options.Write
 
 	mu     sync.Mutex
 	parsed map[string]*parsedFile
 	values map[string]string // current values of dependencies (see current)
+	vals   sync.Map          // records made from entries, shared by the files of the run (see shared)
+}
+
+// shared returns the value made by mk for key, made once per run: the record of an entry's
+// front matter, a geometry. Such values are never changed after they are made.
+func (rs *runState) shared(key string, mk func() calc.Value) calc.Value {
+	if v, ok := rs.vals.Load(key); ok {
+		return v.(calc.Value)
+	}
+	v, _ := rs.vals.LoadOrStore(key, mk())
+	return v.(calc.Value)
 }
 
 type parsedFile struct {
@@ -261,7 +280,9 @@ func (rs *runState) parse(f *notebook.File) *parsedFile {
 	}
 	rs.mu.Unlock()
 	p.once.Do(func() {
-		p.blocks, p.err = calcblock.Find(f.Source())
+		if f.MayHoldBlock() { // a file without the fence's word has no block to find
+			p.blocks, p.err = calcblock.Find(f.Source())
+		}
 		if p.err != nil {
 			p.blocks = nil
 		}
@@ -315,9 +336,10 @@ func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileRepo
 	if f.Known() {
 		// Not read this run: its bytes are those of its last report. When its results are
 		// still good, so is that report.
-		if r := cache.fileAt(f.Path, rs.stamps[f.Path]); r != nil && r.report != nil {
-			if outs, ok := cache.lookup(rs, f.Path, rs.key(f), r.report.code); ok && outsKey(outs) == r.report.key {
-				return &calcblock.FileReport{Path: f.Path, Errors: r.report.errors, Code: r.report.code}, true, nil
+		if r := cache.fileAt(f.Path, rs.stamps[f.Path]); r != nil && r.report != nil && !(rs.write && len(r.report.stale) > 0) {
+			if rec, ok := cache.find(rs, f.Path, rs.key(f), r.report.code); ok && rec.okey == r.report.key {
+				rep := r.report
+				return &calcblock.FileReport{Path: f.Path, Errors: rep.errors, Stale: rep.stale, Code: rep.code, Changed: len(rep.stale) > 0}, true, nil
 			}
 		}
 	}
@@ -357,18 +379,18 @@ func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileRepo
 	return fr, false, err
 }
 
-// keepReport remembers a file's report for the next run when nothing in it is stale (a stale
-// file needs its bytes anyway, to be written).
+// keepReport remembers a file's report for the next run.
 func (rs *runState) keepReport(f *notebook.File, fr *calcblock.FileReport, outs []calcblock.Outcome) {
-	if rs.cache == nil || fr == nil || len(fr.Stale) > 0 || fr.Changed {
+	if rs.cache == nil || fr == nil {
 		return
 	}
 	stamp := rs.stamps[f.Path]
 	key := outsKey(outs)
-	if r := rs.cache.fileAt(f.Path, stamp); r != nil && r.report != nil && r.report.key == key && r.report.code == fr.Code && len(r.report.errors) == len(fr.Errors) {
+	if r := rs.cache.fileAt(f.Path, stamp); r != nil && r.report != nil && r.report.key == key && r.report.code == fr.Code &&
+		len(r.report.errors) == len(fr.Errors) && len(r.report.stale) == len(fr.Stale) {
 		return // known already
 	}
-	rep := &storedReport{key: key, code: fr.Code, errors: fr.Errors}
+	rep := &storedReport{key: key, code: fr.Code, errors: fr.Errors, stale: fr.Stale}
 	rs.cache.learn(f.Path, stamp, func(r *fileRec) { r.report = rep })
 }
 
@@ -431,6 +453,7 @@ func newEnv(v *view, f *notebook.File, depth int) *calc.Env {
 	r := newResolver(v, f.Entry, depth)
 	env := library.NewEnv(calc.WithFS(recFS{fsys: v.run.fsys, rec: v.rec}, path.Dir(f.Path)), calc.WithResolver(r))
 	r.register(env)
+	env.Register(plot.Func(f.Path)) // draws in memory; `cleave calc` writes the file (notebook/plotfiles)
 	return env
 }
 

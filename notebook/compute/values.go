@@ -48,7 +48,10 @@ func scalarValue(s string) calc.Value {
 	if t == "" {
 		return calc.String(s)
 	}
-	if q, err := quantity.ParseQuantity(t); err == nil {
+	if q, u, err := quantity.ParseQuantityUnit(t); err == nil {
+		if u.Keep { // 4000 rpm stays in rpm, as the literal does in a calc block
+			return calc.Quantity{Q: q, Unit: &u}
+		}
 		return calc.Q(q)
 	}
 	return calc.String(s)
@@ -76,13 +79,53 @@ func layersValue(rows []notebook.LayerRow, path string) calc.List {
 		if row.ThicknessQ.Dim() == quantity.Length {
 			th = calc.Q(row.ThicknessQ)
 		}
-		l = append(l, &calc.Record{Path: path, Fields: []calc.RecordField{
+		rec := &calc.Record{Path: path, Fields: []calc.RecordField{
 			{Name: "index", Value: calc.Q(quantity.Scalar(float64(i + 1)))},
 			{Name: "layer", Value: calc.String(row.Layer)},
 			{Name: "material", Value: calc.String(row.Material)},
 			{Name: "thickness", Value: th},
 			{Name: "doping", Value: calc.String(row.Doping)},
-		}})
+		}}
+		rec.Fields = append(rec.Fields, growthFields(row)...)
+		l = append(l, rec)
 	}
 	return l
+}
+
+// growthFields are a layer row's growth columns, those it has: time, rate, grown (rate ×
+// time), nominal (the thickness column, beside grown), t_sub, cells (a record of cell
+// temperatures), shutters.
+func growthFields(row notebook.LayerRow) []calc.RecordField {
+	g := row.Growth
+	if g == nil {
+		return nil
+	}
+	var out []calc.RecordField
+	add := func(name string, v calc.Value) { out = append(out, calc.RecordField{Name: name, Value: v}) }
+	if g.HasTime {
+		add("time", calc.Q(g.TimeQ))
+	}
+	if g.HasRate {
+		add("rate", calc.Q(g.RateQ))
+	}
+	if g.HasGrown {
+		add("grown", calc.Q(g.Grown))
+		if !g.FromGrowth && row.ThicknessQ.Dim() == quantity.Length {
+			add("nominal", calc.Q(row.ThicknessQ))
+		}
+	}
+	if g.HasTSub {
+		add("t_sub", calc.Q(g.TSubQ))
+	}
+	if len(g.CellTemps) > 0 {
+		cells := &calc.Record{}
+		for _, c := range g.CellTemps {
+			cells.Fields = append(cells.Fields, calc.RecordField{Name: c.Cell, Value: calc.Q(c.T)})
+		}
+		add("cells", cells)
+	}
+	if g.Shutters != "" {
+		add("shutters", calc.String(g.Shutters))
+	}
+	return out
 }

@@ -110,7 +110,7 @@ func measures(nb *notebook.Notebook, e, c *notebook.Entry) bool {
 			if d.ID == e.ID {
 				return true
 			}
-			id, has := d.Text("from")
+			id, has := fromLink(d)
 			if !has {
 				break
 			}
@@ -118,4 +118,15 @@ func measures(nb *notebook.Notebook, e, c *notebook.Entry) bool {
 		}
 	}
 	return false
+}
+
+// fromLink is the id an entry's `from:` link names (read from its links, so an entry known from
+// its summary is not read for it).
+func fromLink(e *notebook.Entry) (string, bool) {
+	for _, l := range e.Links() {
+		if l.Field == "from" {
+			return l.ID, true
+		}
+	}
+	return "", false
 }

@@ -43,10 +43,30 @@ func (w WorkTree) Cache() *Cache {
 // Write brings the files the report found changed up to date on disk. A file that changed
 // since it was read is left alone and reported.
 func (w WorkTree) Write(rep *Report) (written []string, failures []error) {
-	for _, f := range rep.Changed() {
-		full := filepath.Join(w.Root, filepath.FromSlash(f.Path))
-		if err := calcblock.WriteAtomic(full, f.NewBytes, f.Original); err != nil {
-			failures = append(failures, fmt.Errorf("%s: %w", f.Path, err))
+	files := rep.Changed()
+	errs := make([]error, len(files))
+	// Each write waits for the disk (fsync of the file and its folder): several at a time.
+	var next atomic.Int64
+	var wg sync.WaitGroup
+	for range min(8, len(files)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for {
+				i := int(next.Add(1)) - 1
+				if i >= len(files) {
+					return
+				}
+				f := files[i]
+				full := filepath.Join(w.Root, filepath.FromSlash(f.Path))
+				errs[i] = calcblock.WriteAtomic(full, f.NewBytes, f.Original)
+			}
+		}()
+	}
+	wg.Wait()
+	for i, f := range files {
+		if errs[i] != nil {
+			failures = append(failures, fmt.Errorf("%s: %w", f.Path, errs[i]))
 			continue
 		}
 		written = append(written, f.Path)
@@ -71,6 +91,7 @@ const digestFile = "last-good-check"
 type Scan struct {
 	Stamps map[string]string // slash path → stamp (mode, size, modification time, inode); "" when racy
 	Racy   bool              // a file was modified less than a second before the scan began
+	Temps  []string          // WriteAtomic's temporary files (calcblock.IsTempName), not in the digest
 	digest string
 }
 
@@ -81,7 +102,7 @@ func (w WorkTree) Scan() (*Scan, error) {
 	start := time.Now()
 	// Folders are listed one by one (cheap), the files' stat data is read by parallel workers
 	// (one system call each: the bulk of the time).
-	var files []string
+	var files, temps []string
 	var walk func(rel string) error
 	walk = func(rel string) error {
 		ents, err := os.ReadDir(filepath.Join(w.Root, filepath.FromSlash(rel)))
@@ -99,6 +120,8 @@ func (w WorkTree) Scan() (*Scan, error) {
 				if err := walk(p); err != nil {
 					return err
 				}
+			case calcblock.IsTempName(d.Name()):
+				temps = append(temps, p)
 			default:
 				files = append(files, p)
 			}
@@ -147,7 +170,7 @@ func (w WorkTree) Scan() (*Scan, error) {
 	if err := failed.Load(); err != nil {
 		return nil, *err
 	}
-	sc := &Scan{Stamps: make(map[string]string, len(files)), Racy: racy.Load()}
+	sc := &Scan{Stamps: make(map[string]string, len(files)), Racy: racy.Load(), Temps: temps}
 	h := sha256.New()
 	fmt.Fprintf(h, "%s\n", saltIn(w.StateDir))
 	for i, f := range files {
@@ -195,7 +218,8 @@ func (w WorkTree) ForgetGoodCheck() {
 }
 
 // Rel turns command-line paths (absolute, or relative to the working directory) into the slash
-// paths Options.Paths takes, refusing a path outside the notebook or one that does not exist.
+// paths Options.Paths takes, refusing a path outside the notebook, one that does not exist,
+// and one that goes through a symbolic link (which the run would not follow).
 func (w WorkTree) Rel(paths []string) ([]string, error) {
 	var out []string
 	for _, p := range paths {
@@ -208,6 +232,9 @@ func (w WorkTree) Rel(paths []string) ([]string, error) {
 		}
 		if _, err := os.Stat(p); err != nil {
 			return nil, fmt.Errorf("%s: %w", p, errors.Unwrap(err))
+		}
+		if err := throughLink(w.Root, p, rel); err != nil {
+			return nil, err
 		}
 		out = append(out, rel)
 	}
@@ -239,9 +266,11 @@ type CheckOptions struct {
 // CheckResult is what a check or calc of a work tree did.
 type CheckResult struct {
 	*Report
-	Unchanged     bool     // nothing changed since the last good check: nothing was run
-	Written       []string // files rewritten on disk
-	WriteFailures []error  // files that could not be written
+	Notebook      *notebook.Notebook // the notebook as the run loaded it (nil when Unchanged)
+	Unchanged     bool               // nothing changed since the last good check: nothing was run
+	Removed       []string           // temporary files an interrupted calc left, removed (slash paths)
+	Written       []string           // files rewritten on disk
+	WriteFailures []error            // files that could not be written
 }
 
 // Bad counts the problems: stale results (for a check), failed lines, invalid entries, files
@@ -274,13 +303,15 @@ func (w WorkTree) Check(opt CheckOptions) (*CheckResult, error) {
 	if err != nil {
 		return nil, err
 	}
+	removed := w.removeStaleTemps(sc.Temps)
 	if !opt.NoCache && whole && w.GoodCheck(sc.Digest()) {
-		return &CheckResult{Unchanged: true}, nil
+		return &CheckResult{Unchanged: true, Removed: removed}, nil
 	}
 	res, err := w.run(opt, sc)
 	if err != nil {
 		return nil, err
 	}
+	res.Removed = removed
 	switch {
 	case res.Bad(opt.Write) > 0:
 		w.ForgetGoodCheck()
@@ -305,16 +336,34 @@ func (w WorkTree) run(opt CheckOptions, sc *Scan) (*CheckResult, error) {
 	if err != nil {
 		return nil, err
 	}
-	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths, Salt: saltIn(w.StateDir), Stamps: stamps})
+	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths, Salt: saltIn(w.StateDir), Stamps: stamps, Write: opt.Write})
 	if err != nil {
 		return nil, err
 	}
 	if cache != nil {
 		_ = cache.Save(nb) // the cache only saves time
 	}
-	res := &CheckResult{Report: rep}
+	res := &CheckResult{Report: rep, Notebook: nb}
 	if opt.Write {
 		res.Written, res.WriteFailures = w.Write(rep)
 	}
 	return res, nil
+}
+
+// removeStaleTemps removes the temporary files (slash paths) a killed WriteAtomic left and
+// returns those it removed.
+func (w WorkTree) removeStaleTemps(temps []string) []string {
+	if len(temps) == 0 {
+		return nil
+	}
+	full := make([]string, len(temps))
+	for i, p := range temps {
+		full[i] = filepath.Join(w.Root, filepath.FromSlash(p))
+	}
+	var out []string
+	for _, p := range calcblock.RemoveStaleTemps(full) {
+		rel, _ := filepath.Rel(w.Root, p)
+		out = append(out, filepath.ToSlash(rel))
+	}
+	return out
 }

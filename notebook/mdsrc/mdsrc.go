@@ -59,16 +59,25 @@ func (s Span) Len() int { return s.End - s.Start }
 
 // Source is one Markdown file, parsed, with its raw bytes kept unchanged.
 type Source struct {
-	Raw             []byte   // the file as read, never modified
-	BOM             int      // 3 if Raw starts with a UTF-8 BOM, else 0
-	HasFrontMatter  bool     // true if a closed front-matter block was found
-	FrontMatter     Span     // the YAML text between the delimiter lines (without them)
-	FrontMatterLine int      // 1-based line number of the first YAML line (0 without front matter)
-	Body            int      // offset where the Markdown body starts (after the closing delimiter line)
-	Doc             ast.Node // goldmark (GFM) parse of Masked(); all offsets are offsets into Raw
+	Raw             []byte // the file as read, never modified
+	BOM             int    // 3 if Raw starts with a UTF-8 BOM, else 0
+	HasFrontMatter  bool   // true if a closed front-matter block was found
+	FrontMatter     Span   // the YAML text between the delimiter lines (without them)
+	FrontMatterLine int    // 1-based line number of the first YAML line (0 without front matter)
+	Body            int    // offset where the Markdown body starts (after the closing delimiter line)
 
 	masked     []byte
 	lineStarts []int // offset of the first byte of each line; lineStarts[0] == 0
+	docOnce    sync.Once
+	doc        ast.Node
+}
+
+// Doc is the goldmark (GFM) parse of Masked(); all offsets are offsets into Raw. It is made
+// on the first call (a file whose blocks and tables nobody asks for is never parsed), and
+// safe to call from several goroutines.
+func (s *Source) Doc() ast.Node {
+	s.docOnce.Do(func() { s.doc = markdownParser().Parse(text.NewReader(s.masked)) })
+	return s.doc
 }
 
 // PosError reports a problem at a position in the file.
@@ -96,13 +105,17 @@ func markdownParser() parser.Parser {
 	return md.Parser()
 }
 
-// Parse splits raw into BOM, front matter and body and parses the body with
-// goldmark. raw is kept as Source.Raw and never modified; callers must not
+// Parse splits raw into BOM, front matter and body; [Source.Doc] parses the
+// body with goldmark when first asked. raw is kept as Source.Raw and never modified; callers must not
 // modify it either while the Source is in use.
 //
-// The only error is a *PosError for front matter that is opened but never
-// closed; the returned Source is then still complete, with the front matter
-// treated as Markdown body.
+// The only errors are *PosError values: for front matter that is opened but
+// never closed (the returned Source is then still complete, with the front
+// matter treated as Markdown body), and for a file larger than [MaxFileBytes]
+// or with lists or block quotes nested deeper than [MaxNesting] (the Source's
+// Doc is then an empty document: nothing of the body is read). The nesting is
+// checked here, with one pass over the starts of the lines, so that the error
+// comes with the file even though Doc parses later.
 func Parse(raw []byte) (*Source, error) {
 	s := &Source{Raw: raw}
 	if bytes.HasPrefix(raw, bom) {
@@ -137,9 +150,115 @@ func Parse(raw []byte) (*Source, error) {
 			s.masked[i] = ' '
 		}
 	}
-	s.Doc = markdownParser().Parse(text.NewReader(s.masked))
+	if len(raw) > MaxFileBytes {
+		s.noBody()
+		return s, &PosError{Line: 1, Col: 1, Msg: fmt.Sprintf(
+			"file of %.1f MiB: the Markdown of files larger than %d MiB is not read (its calc blocks are not evaluated); keep large tables in data files", float64(len(raw))/(1<<20), MaxFileBytes>>20)}
+	}
+	if line, col, ok := tooDeep(s.masked); ok {
+		// goldmark's time grows with the square of the nesting (a list nested 50,000 deep
+		// took 15 s): such a body is not parsed at all.
+		s.noBody()
+		return s, &PosError{Line: line, Col: col, Msg: fmt.Sprintf(
+			"lists and block quotes nested more than %d deep: the Markdown of this file is not read (its calc blocks are not evaluated); nest less", MaxNesting)}
+	}
 	return s, perr
 }
+
+// noBody makes Doc an empty document: the body is never parsed.
+func (s *Source) noBody() { s.docOnce.Do(func() { s.doc = ast.NewDocument() }) }
+
+// MaxFileBytes is the largest file whose Markdown [Parse] reads: goldmark parses between 0.5
+// and 4 MB/s on a slow machine and keeps a tree many times the size of its input, and a note
+// written by hand is a few kilobytes.
+const MaxFileBytes = 4 << 20
+
+// MaxNesting is the deepest nesting of lists and block quotes [Parse] reads. Real notes nest
+// a few levels; the bound keeps the parse of a hostile file linear in its size.
+const MaxNesting = 32
+
+// tooDeep finds the first line that may open more than MaxNesting containers: it counts the
+// block-quote markers and list markers at the start of the line, and half the columns of
+// space before the last of them besides the one blank that ends each marker (a nested list
+// item is indented by at least two columns per level). The count is an upper bound of the nesting goldmark would build, so a file it
+// passes is never deeper than the bound; lines without a marker (code, text) never count.
+// It reports the 1-based line and the column of the marker that crosses the bound.
+func tooDeep(text []byte) (line, col int, found bool) {
+	line = 1
+	for start := 0; start < len(text); line++ {
+		end := bytes.IndexByte(text[start:], '\n')
+		if end < 0 {
+			end = len(text)
+		} else {
+			end += start
+		}
+		l := text[start:end]
+		markers, space, c := 0, 0, 0 // c: visual column (tabs to multiples of 4)
+		for i := 0; i < len(l); {
+			m := i // where a marker starts
+			switch b := l[i]; {
+			case b == ' ':
+				space, c, i = space+1, c+1, i+1
+				continue
+			case b == '\t':
+				w := 4 - c%4
+				space, c, i = space+w, c+w, i+1
+				continue
+			case b == '>':
+				i++
+			case (b == '-' || b == '*') && thematicBreak(l[i:]):
+				i = len(l) // "- - - -" is a rule, not lists
+				continue
+			case (b == '-' || b == '*' || b == '+') && blankAfter(l, i+1):
+				i++
+			case b >= '0' && b <= '9':
+				j := i
+				for j < len(l) && j-i < 9 && l[j] >= '0' && l[j] <= '9' {
+					j++
+				}
+				if j == len(l) || (l[j] != '.' && l[j] != ')') || !blankAfter(l, j+1) {
+					i = len(l)
+					continue
+				}
+				i = j + 1
+			default:
+				i = len(l)
+				continue
+			}
+			markers++
+			if markers+space/2 > MaxNesting {
+				return line, utf8.RuneCount(l[:m]) + 1, true
+			}
+			c = utf8.RuneCount(l[:i])
+			if i < len(l) && l[i] == ' ' {
+				i, c = i+1, c+1 // the blank that ends the marker is no indentation
+			}
+		}
+		start = end + 1
+	}
+	return 0, 0, false
+}
+
+// thematicBreak reports whether l is a thematic break: three or more of the same '-', '*'
+// or '_', with spaces or tabs between them and nothing else.
+func thematicBreak(l []byte) bool {
+	var mark byte
+	n := 0
+	for _, b := range l {
+		switch {
+		case b == ' ' || b == '\t' || b == '\r':
+		case (b == '-' || b == '*' || b == '_') && (mark == 0 || b == mark):
+			mark = b
+			n++
+		default:
+			return false
+		}
+	}
+	return n >= 3
+}
+
+// blankAfter reports whether l ends at i or has a space or tab there.
+func blankAfter(l []byte, i int) bool { return i >= len(l) || l[i] == ' ' || l[i] == '\t' }
 
 // SplitFrontMatter returns the YAML text of raw's front matter by the rules
 // [Parse] applies (see the package documentation), without parsing the

@@ -3,6 +3,7 @@ package mdsrc
 import (
 	"bytes"
 	"errors"
+	"strings"
 	"testing"
 	"unicode/utf8"
 
@@ -14,7 +15,7 @@ import (
 func fences(t *testing.T, s *Source) []string {
 	t.Helper()
 	var out []string
-	ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+	ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 		if fc, ok := n.(*ast.FencedCodeBlock); ok && entering {
 			info := ""
 			if fc.Info != nil {
@@ -157,9 +158,9 @@ func TestParse(t *testing.T) {
 				t.Errorf("fenced blocks = %q, want %q", got, tc.wantFences)
 			}
 			if tc.wantHeading {
-				h, ok := s.Doc.FirstChild().(*ast.Heading)
+				h, ok := s.Doc().FirstChild().(*ast.Heading)
 				if !ok || h.Level != 1 {
-					t.Errorf("first body node is %T, want a level-1 heading", s.Doc.FirstChild())
+					t.Errorf("first body node is %T, want a level-1 heading", s.Doc().FirstChild())
 				}
 			}
 		})
@@ -187,7 +188,7 @@ func TestFencePosition(t *testing.T) {
 		t.Fatal(err)
 	}
 	var pos = -1
-	ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+	ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 		if fc, ok := n.(*ast.FencedCodeBlock); ok && entering {
 			pos = fc.Pos()
 			seg := fc.Lines().At(0)
@@ -295,7 +296,7 @@ func FuzzParse(f *testing.F) {
 			}
 		}
 		// Every content segment goldmark reports lies inside Raw.
-		ast.Walk(s.Doc, func(n ast.Node, entering bool) (ast.WalkStatus, error) {
+		ast.Walk(s.Doc(), func(n ast.Node, entering bool) (ast.WalkStatus, error) {
 			if entering && n.Type() == ast.TypeBlock {
 				lines := n.Lines()
 				for i := 0; i < lines.Len(); i++ {
@@ -308,4 +309,95 @@ func FuzzParse(f *testing.F) {
 			return ast.WalkContinue, nil
 		})
 	})
+}
+
+// TestNestingBound (issue 13: a list nested 50,000 deep took 15 s to parse): lines that may
+// nest lists and quotes deeper than MaxNesting make Parse refuse the body with the position of
+// the marker that crosses the bound; everything shallower, rules of dashes and indented text
+// without markers, parses as before.
+func TestNestingBound(t *testing.T) {
+	indented := func(levels int) string {
+		var b strings.Builder
+		for i := range levels {
+			b.WriteString(strings.Repeat("  ", i) + "- item\n")
+		}
+		return b.String()
+	}
+	tests := []struct {
+		name      string
+		body      string
+		line, col int // 0: parsed
+	}{
+		{"32 quotes", strings.Repeat(">", 32) + " x\n", 0, 0},
+		{"33 quotes", "text\n\n" + strings.Repeat(">", 50000) + " x\n", 3, 33},
+		{"33 quotes with spaces", strings.Repeat("> ", 33) + "x\n", 1, 65},
+		{"list markers", strings.Repeat("- ", 50000) + "x\n", 1, 65},
+		{"ordered markers", strings.Repeat("1. ", 40) + "x\n", 1, 97},
+		{"quotes and lists", strings.Repeat("> - ", 20) + "x\n", 1, 65},
+		{"32 levels by indentation", indented(32), 0, 0},
+		{"deeper by indentation", indented(300), 33, 65},
+		{"a long rule of dashes", strings.Repeat("- ", 200) + "\n\n" + strings.Repeat("* ", 100) + "\n", 0, 0},
+		{"deeply indented code", "```\n" + strings.Repeat(" ", 400) + "x = 1\n```\n", 0, 0},
+		{"a number that is no marker", strings.Repeat("1.5 ", 100) + "\n", 0, 0},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			src := []byte("---\nid: x\n---\n" + tc.body)
+			s, err := Parse(src)
+			if s == nil || !bytes.Equal(s.Raw, src) {
+				t.Fatal("no source, or Raw changed")
+			}
+			if tc.line == 0 {
+				if err != nil {
+					t.Fatalf("unexpected error %v", err)
+				}
+				if s.Doc().ChildCount() == 0 {
+					t.Error("the body was not parsed")
+				}
+				return
+			}
+			var pe *PosError
+			if !errors.As(err, &pe) {
+				t.Fatalf("err = %v, want a *PosError", err)
+			}
+			if pe.Line != tc.line+3 || pe.Col != tc.col || !strings.Contains(pe.Msg, "nested more than 32") {
+				t.Errorf("got %d:%d %s, want %d:%d", pe.Line, pe.Col, pe.Msg, tc.line+3, tc.col)
+			}
+			if s.Doc().ChildCount() != 0 {
+				t.Error("the body was parsed")
+			}
+			if !s.HasFrontMatter {
+				t.Error("the front matter was lost")
+			}
+		})
+	}
+}
+
+// TestSizeBound: a file beyond MaxFileBytes keeps its front matter and bytes, and its body is
+// not parsed.
+func TestSizeBound(t *testing.T) {
+	src := []byte("---\nid: x\n---\n" + strings.Repeat("- item\n", MaxFileBytes/7+1))
+	s, err := Parse(src)
+	var pe *PosError
+	if !errors.As(err, &pe) || pe.Line != 1 || !strings.Contains(pe.Msg, "larger than 4 MiB") {
+		t.Fatalf("err = %v", err)
+	}
+	if !s.HasFrontMatter || s.Doc().ChildCount() != 0 || !bytes.Equal(s.Raw, src) {
+		t.Error("want the front matter, the raw bytes and no body")
+	}
+}
+
+// BenchmarkParseDeep parses 1 MB of lists nested as deep as the bound allows: about as fast
+// as 1 MB of a flat list (0.5 MB/s on the 2-core machine; ordinary prose parses at 4 MB/s).
+func BenchmarkParseDeep(b *testing.B) {
+	line := strings.Repeat("- ", MaxNesting) + "x\n"
+	src := []byte(strings.Repeat(line, (1<<20)/len(line)))
+	b.SetBytes(int64(len(src)))
+	for b.Loop() {
+		s, err := Parse(src)
+		if err != nil {
+			b.Fatal(err)
+		}
+		s.Doc()
+	}
 }
