@@ -108,7 +108,33 @@ func run(args []string, stdout, stderr io.Writer) int {
 		usage(stderr)
 		return 2
 	}
+	if wantsHelp(rest[1:]) {
+		fmt.Fprintf(stdout, "usage: cleave %s %s\n  %s\n", cmd.name, cmd.args, cmd.summary)
+		return 0
+	}
 	return cmd.run(c, rest[1:])
+}
+
+// wantsHelp reports whether a command's arguments ask for its help (-h, -help or --help
+// before any "--").
+func wantsHelp(args []string) bool {
+	for _, a := range args {
+		switch a {
+		case "--":
+			return false
+		case "-h", "-help", "--help":
+			return true
+		}
+	}
+	return false
+}
+
+// plural is "1 entry" or "3 entries".
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
 }
 
 func lookup(name string) (command, bool) {
@@ -318,10 +344,10 @@ func runValidate(c *cli, args []string) int {
 		fmt.Fprintln(c.out, p.Error())
 	}
 	if len(probs) > 0 {
-		fmt.Fprintf(c.err, "cleave validate: %d problem(s) in %d entries\n", len(probs), len(nb.Entries))
+		fmt.Fprintf(c.err, "cleave validate: %s in %s\n", plural(len(probs), "problem", "problems"), plural(len(nb.Entries), "entry", "entries"))
 		return 1
 	}
-	fmt.Fprintf(c.out, "%d entries, %d files: no problems\n", len(nb.Entries), len(nb.Files))
+	fmt.Fprintf(c.out, "%s, %s: no problems\n", plural(len(nb.Entries), "entry", "entries"), plural(len(nb.Files), "file", "files"))
 	return 0
 }
 

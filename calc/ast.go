@@ -76,6 +76,14 @@ type FieldAccess struct {
 	Name string
 }
 
+// IndexExpr is x[i]: an item of a list by its 0-based index (negative counts from the end),
+// or a field of a record by its name in quotes.
+type IndexExpr struct {
+	Pos   Pos // the "["
+	X     Node
+	Index Node
+}
+
 // Arg is one argument of a call; Name is "" for a positional argument.
 type Arg struct {
 	Pos   Pos // the argument's name, or its value when positional
@@ -106,6 +114,7 @@ func (n *Binary) Position() Pos      { return n.Pos }
 func (n *RangeExpr) Position() Pos   { return n.Pos }
 func (n *ListExpr) Position() Pos    { return n.Pos }
 func (n *FieldAccess) Position() Pos { return n.Pos }
+func (n *IndexExpr) Position() Pos   { return n.Pos }
 func (n *Call) Position() Pos        { return n.Pos }
 func (n *Convert) Position() Pos     { return n.Pos }
 
@@ -117,6 +126,7 @@ func (*Binary) node()      {}
 func (*RangeExpr) node()   {}
 func (*ListExpr) node()    {}
 func (*FieldAccess) node() {}
+func (*IndexExpr) node()   {}
 func (*Call) node()        {}
 func (*Convert) node()     {}
 
@@ -198,6 +208,11 @@ func formatNode(b *strings.Builder, n Node) {
 		formatNode(b, n.X)
 		b.WriteString(".")
 		b.WriteString(n.Name)
+	case *IndexExpr:
+		formatNode(b, n.X)
+		b.WriteString("[")
+		formatNode(b, n.Index)
+		b.WriteString("]")
 	case *Call:
 		b.WriteString(n.Func)
 		b.WriteString("(")

@@ -44,26 +44,12 @@ const maxLinkHops = 40
 // check needs an FS that implements fs.ReadLinkFS (os.DirFS and fstest.MapFS do); an FS
 // without it is trusted not to follow links out of its root (an os.Root's FS never does).
 func (e *Env) OpenData(p string) (Value, error) {
-	if e.fsys == nil {
-		if err := checkDataPath(p); err != nil {
-			return nil, err // a bad path is the first thing to say
-		}
-		return nil, fmt.Errorf("no notebook folder is open, so data(%s) cannot be read", quoteString(p))
-	}
-	name, real, err := e.resolveDataPath(p)
+	name, b, err := e.ReadDataFile(p)
 	if err != nil {
 		return nil, err
 	}
-	b, err := fs.ReadFile(e.fsys, real)
-	if err != nil {
-		if errors.Is(err, fs.ErrNotExist) {
-			return nil, fmt.Errorf("data file %s does not exist", name)
-		}
-		return nil, fmt.Errorf("reading data file %s: %w", name, err)
-	}
 	sum := sha256.Sum256(b)
 	hash := "sha256:" + hex.EncodeToString(sum[:])
-	e.addDep("file:"+name, hash)
 	if e.loader != nil {
 		v, err := e.loader(name, bytes.NewReader(b))
 		if err != nil {
@@ -72,6 +58,48 @@ func (e *Env) OpenData(p string) (Value, error) {
 		return v, nil
 	}
 	return &DataFile{Path: name, Hash: hash, Size: len(b)}, nil
+}
+
+// ReadDataFile reads the data file at p (relative to the entry's directory, with the
+// rules of [Env.OpenData]), records the dependency "file:<path>" with its SHA-256, and
+// returns its notebook path and bytes. Functions that read a data file in a way of
+// their own (with a layout) use it.
+func (e *Env) ReadDataFile(p string) (string, []byte, error) {
+	return e.readFile(p, e.dir, "data file")
+}
+
+// ReadNotebookFile reads the file at p, a slash path relative to the notebook's root
+// (not the entry's folder), with the rules of data paths, records the dependency
+// "file:<path>" with its SHA-256, and returns its notebook path and bytes. what names
+// the file in errors ("layout").
+func (e *Env) ReadNotebookFile(p, what string) (string, []byte, error) {
+	return e.readFile(p, ".", what)
+}
+
+func (e *Env) readFile(p, dir, what string) (string, []byte, error) {
+	if e.fsys == nil {
+		if err := checkDataPath(p); err != nil {
+			return "", nil, err // a bad path is the first thing to say
+		}
+		if what == "data file" {
+			return "", nil, fmt.Errorf("no notebook folder is open, so data(%s) cannot be read", quoteString(p))
+		}
+		return "", nil, fmt.Errorf("no notebook folder is open, so the %s %s cannot be read", what, quoteString(p))
+	}
+	name, real, err := ResolveDataPath(e.fsys, dir, p)
+	if err != nil {
+		return "", nil, err
+	}
+	b, err := fs.ReadFile(e.fsys, real)
+	if err != nil {
+		if errors.Is(err, fs.ErrNotExist) {
+			return "", nil, fmt.Errorf("%s %s does not exist", what, name)
+		}
+		return "", nil, fmt.Errorf("reading %s %s: %w", what, name, err)
+	}
+	sum := sha256.Sum256(b)
+	e.addDep("file:"+name, "sha256:"+hex.EncodeToString(sum[:]))
+	return name, b, nil
 }
 
 // resolveDataPath returns the cleaned notebook path of p and the path with symbolic links

@@ -8,6 +8,7 @@ import (
 	"strings"
 	"unicode/utf8"
 
+	"cleave/calc/constants"
 	"cleave/calc/quantity"
 )
 
@@ -96,7 +97,9 @@ func (e *Env) eval(n Node) (Value, error) {
 		}
 		return out, nil
 	case *FieldAccess:
-		return e.evalField(n)
+		return e.evalPostfix(n)
+	case *IndexExpr:
+		return e.evalPostfix(n)
 	case *Call:
 		return e.evalCall(n)
 	case *Convert:
@@ -384,20 +387,22 @@ func convertValue(v Value, u quantity.Unit, n *Convert) (Value, error) {
 	}
 	switch v := v.(type) {
 	case Quantity:
-		if err := check(v.Q.Dim()); err != nil {
+		q := thermal(v.Q, u.D)
+		if err := check(q.Dim()); err != nil {
 			return nil, err
 		}
 		// In °C a temperature is absolute from here on, in K thermodynamic (it may be scaled).
-		q, err := v.Q.ExpressedIn(u)
+		q, err := q.ExpressedIn(u)
 		if err != nil {
 			return nil, posErr(n.Pos, err, "%v", err)
 		}
 		return Quantity{Q: q, Unit: &u}, nil
 	case Range:
-		if err := check(v.Lo.Dim()); err != nil {
+		lo, hi := thermal(v.Lo, u.D), thermal(v.Hi, u.D)
+		if err := check(lo.Dim()); err != nil {
 			return nil, err
 		}
-		return Range{Lo: v.Lo, Hi: v.Hi, Unit: &u}, nil
+		return Range{Lo: lo, Hi: hi, Unit: &u}, nil
 	case List:
 		out := make(List, len(v))
 		for i, x := range v {
@@ -412,23 +417,36 @@ func convertValue(v Value, u quantity.Unit, n *Convert) (Value, error) {
 	return nil, posErr(n.ArrowAt, ErrType, "-> needs a quantity, range or list, found a %s", v.Type())
 }
 
-// evalField evaluates x.a.b.…: like a run of operators (see evalBinary), the chain of field
-// names is walked in a loop.
-func (e *Env) evalField(n *FieldAccess) (Value, error) {
-	spine := []*FieldAccess{n}
+// evalPostfix evaluates a chain of field accesses and indexes (r.a[0].b) from its innermost
+// operand outwards, in a loop: a long chain costs no recursion.
+func (e *Env) evalPostfix(n Node) (Value, error) {
+	var spine []Node
+	cur := n
+spine:
 	for {
-		f, ok := spine[len(spine)-1].X.(*FieldAccess)
-		if !ok {
-			break
+		switch c := cur.(type) {
+		case *FieldAccess:
+			spine = append(spine, c)
+			cur = c.X
+		case *IndexExpr:
+			spine = append(spine, c)
+			cur = c.X
+		default:
+			break spine
 		}
-		spine = append(spine, f)
 	}
-	x, err := e.eval(spine[len(spine)-1].X)
+	x, err := e.eval(cur)
 	if err != nil {
 		return nil, err
 	}
 	for i := len(spine) - 1; i >= 0; i-- {
-		if x, err = e.field(spine[i], x); err != nil {
+		switch s := spine[i].(type) {
+		case *FieldAccess:
+			x, err = e.field(s, x)
+		case *IndexExpr:
+			x, err = e.index(s, x)
+		}
+		if err != nil {
 			return nil, err
 		}
 	}
@@ -445,8 +463,12 @@ func (e *Env) field(n *FieldAccess, x Value) (Value, error) {
 	if !ok {
 		names := f.FieldNames()
 		msg := fmt.Sprintf("no field %q", n.Name)
-		if r, ok := x.(*Record); ok && r.Path != "" {
+		r, isRec := x.(*Record)
+		if isRec && r.Path != "" {
 			msg = fmt.Sprintf("%s has no field %q", r.Path, n.Name)
+		} else if name := recordName(x); isRec && name != "a record" {
+			// A material (or another named record): say which lacks what, and what it has.
+			return nil, posErr(n.Pos, ErrUnknownName, "%s has no %s; its fields: %s", name, n.Name, strings.Join(names, ", "))
 		}
 		if s := nearest(n.Name, names); s != "" {
 			msg += " (did you mean " + s + "?)"
@@ -465,6 +487,46 @@ func (e *Env) field(n *FieldAccess, x Value) (Value, error) {
 		e.addDep("field:"+path, "")
 	}
 	return v, nil
+}
+
+// index reads x[i]: the item of a list at a 0-based index (negative counts from the end: -1
+// is the last), or the field of a record (any value with fields) named by a string.
+func (e *Env) index(n *IndexExpr, x Value) (Value, error) {
+	iv, err := e.eval(n.Index)
+	if err != nil {
+		return nil, err
+	}
+	at := n.Index.Position()
+	if name, ok := iv.(String); ok {
+		if _, ok := x.(Fielder); !ok {
+			return nil, posErr(at, ErrType, "a %s has no fields (found [%s])", x.Type(), quoteString(string(name)))
+		}
+		return e.field(&FieldAccess{Pos: at, Name: string(name)}, x)
+	}
+	l, ok := x.(List)
+	if !ok {
+		return nil, posErr(n.Pos, ErrType, "[ ] indexes a list (or a record by a field name in quotes), found a %s", x.Type())
+	}
+	q, ok := iv.(Quantity)
+	if !ok || !q.Q.Dim().IsDimensionless() || q.Q.HasUncertainty() {
+		return nil, posErr(at, ErrType, "a list index is a whole number such as 0 (the first item) or -1 (the last), found %s", Display(iv))
+	}
+	f := q.Q.Value()
+	if f != math.Trunc(f) || math.IsInf(f, 0) || math.IsNaN(f) {
+		return nil, posErr(at, ErrType, "a list index is a whole number such as 0 (the first item) or -1 (the last), found %s", Display(iv))
+	}
+	i := f
+	if i < 0 {
+		i += float64(len(l))
+	}
+	if i < 0 || i >= float64(len(l)) {
+		what := fmt.Sprintf("the list has %d items, indexes 0 to %d (or -1 to -%d from the end)", len(l), len(l)-1, len(l))
+		if len(l) == 0 {
+			what = "the list is empty"
+		}
+		return nil, posErr(at, ErrArgument, "index %g is out of range: %s", f, what)
+	}
+	return l[int(i)], nil
 }
 
 func (e *Env) evalCall(n *Call) (Value, error) {
@@ -526,6 +588,29 @@ func (e *Env) evalCall(n *Call) (Value, error) {
 				}
 			}
 			args[last] = extra
+		}
+	}
+	// A record standing in for a parameter (a material for a mass) also supplies the
+	// degeneracies gs and gv the call leaves out: Si(100) has two valleys.
+	for i, p := range f.Params {
+		if p.FromRecord == "" || args[i] == nil {
+			continue
+		}
+		fl, ok := args[i].(Fielder)
+		if !ok {
+			continue
+		}
+		if _, ok := fl.Field(p.FromRecord); !ok {
+			return nil, posErr(argPos[i], ErrArgument, "%s: argument %s: %s has no %s (its fields: %s); give a value such as `0.067 m_e`",
+				n.Func, p.Name, recordName(args[i]), p.FromRecord, strings.Join(fl.FieldNames(), ", "))
+		}
+		for j, q := range f.Params {
+			if args[j] != nil || q.Name != "gs" && q.Name != "gv" {
+				continue
+			}
+			if fv, ok := fl.Field(q.Name); ok {
+				args[j], argPos[j] = fv, argPos[i]
+			}
 		}
 	}
 	for i, p := range f.Params {
@@ -591,4 +676,32 @@ func (e *Env) evalCall(n *Call) (Value, error) {
 		}
 	}
 	return v, nil
+}
+
+// recordName is how a message names a record: its "name" field (a material's name), else
+// "a record".
+func recordName(v Value) string {
+	if r, ok := v.(*Record); ok {
+		if nv, ok := r.Field("name"); ok {
+			if s, ok := nv.(String); ok && s != "" {
+				return string(s)
+			}
+		}
+	}
+	return "a record"
+}
+
+// thermal converts an energy asked for in a temperature unit to E/k_B, and a temperature
+// asked for in an energy unit to k_B T (`1 meV -> K` is 11.6 K; common practice, k_B exact
+// in the SI since 2019 [src:CODATA2018]); anything else is returned as it is.
+func thermal(q quantity.Quantity, want quantity.Dim) quantity.Quantity {
+	energy := quantity.MustUnit("J").D
+	kB := quantity.New(constants.Value("k_B"), energy.Div(quantity.Temperature))
+	switch {
+	case q.Dim() == energy && want == quantity.Temperature:
+		return quantity.Div(q, kB)
+	case q.Dim() == quantity.Temperature && want == energy:
+		return quantity.Mul(q, kB)
+	}
+	return q
 }

@@ -290,13 +290,28 @@ func (p *parser) power() (Node, error) {
 	return x, nil
 }
 
-// postfix = primary { "." ident } .
+// postfix = primary { "." ident | "[" expr "]" } .
 func (p *parser) postfix() (Node, error) {
 	x, err := p.primary()
 	if err != nil {
 		return nil, err
 	}
-	for p.isOp(".") {
+	// A chain of indexes and field accesses is evaluated in a loop (Env.evalPostfix), so its
+	// length costs no nesting; what is inside the brackets is nested as any expression.
+	for p.isOp(".") || p.isOp("[") {
+		if p.isOp("[") {
+			open := p.next()
+			i, err := p.expr()
+			if err != nil {
+				return nil, err
+			}
+			if !p.isOp("]") {
+				return nil, p.errExpected("] to close the [ at column " + fmt.Sprint(open.pos.Col))
+			}
+			p.next()
+			x = &IndexExpr{Pos: open.pos, X: x, Index: i}
+			continue
+		}
 		p.next()
 		t := p.peek()
 		if t.kind != tIdent {

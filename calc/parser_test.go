@@ -193,6 +193,10 @@ func clearPos(n Node) {
 	case *FieldAccess:
 		n.Pos = Pos{}
 		clearPos(n.X)
+	case *IndexExpr:
+		n.Pos = Pos{}
+		clearPos(n.X)
+		clearPos(n.Index)
 	case *Call:
 		n.Pos = Pos{}
 		for i := range n.Args {
@@ -234,6 +238,7 @@ var parseSeeds = []string{
 	"Al0.33Ga0.67As.mstar", "E_F -> meV", `data("raw/hall.csv")`, "1 kg m^2 s^-2", "5 T / B",
 	"f(x -> meV, 2)", "x -> cm^2/(V s)", "-(-(1))", "1 T..2 T", "5T*x", "ħ*μ_B", ".5e-3 mK",
 	"(3.070 ± 0.040)e11 cm^-2", "(-1.05 ± 0.01)e6 T", "Si(100).gv",
+	"sp.wells[0].n", "x[-1]", "[1, 2][i + 1]", `r["n"]`, "f(x)[0][1].y", "a[0] ^ 2",
 	"-20 °C", "0.8 ML(Al(0.3)Ga(0.7)As)/s", "5 ML(GaAs", "x -> ℃",
 }
 

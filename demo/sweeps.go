@@ -61,6 +61,7 @@ func demoSweeps(cooldown string) []demoSweep {
 		return transport.SweepParams{
 			Density: n * cm2, Mobility: mu * cm2Vs, MassRatio: 0.067, QuantumLifetime: tq * ps,
 			Temperature: T, Squares: sqA, Noise: 0.2, Seed: seed,
+			FieldOffset: 1.8e-3, // the remanent field the cooldowns record (magnet.offset)
 		}
 	}
 	meta := func(dev string, T string, extra ...[2]string) [][2]string {

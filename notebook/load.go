@@ -297,6 +297,10 @@ func parseEntry(p string, src *mdsrc.Source) (e *Entry, probs []Problem) {
 	}
 	idNode, hasID := tmp.Field("id")
 	kindNode, hasKind := tmp.Field("kind")
+	if !hasKind {
+		// Front matter without a kind (a page's title and tags, say) makes a note, not an entry.
+		return nil, probs
+	}
 	ok := true
 	switch {
 	case !hasID:
@@ -308,9 +312,6 @@ func parseEntry(p string, src *mdsrc.Source) (e *Entry, probs []Problem) {
 		ok = false
 	}
 	switch {
-	case !hasKind:
-		prob(delimLine, 1, "front matter: missing `kind` (one of %s)", kindList())
-		ok = false
 	case kindNode.Kind != yaml.ScalarNode:
 		line, col := tmp.Pos(kindNode)
 		prob(line, col, "kind: expected one of %s, found a %s", kindList(), nodeKindName(kindNode))

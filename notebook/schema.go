@@ -179,8 +179,19 @@ var probeFields = []FieldSpec{
 	text("name", "probe name"),
 	q("position", dimLength, "250 um", "position along the bar from the source end"),
 	q("arm_width", dimLength, "10 um", "width of the probe arm"),
-	{Name: "side", Type: TypeEnum, Values: []string{"top", "bottom"}, Doc: "side of the bar"},
+	{Name: "side", Type: TypeEnum, Values: []string{"top", "bottom"}, Doc: "side of the bar: top is left of the current's path seen from above"},
+	text("section", "the section of an L-shaped bar the probe is on"),
 }
+
+var sectionFields = []FieldSpec{
+	text("name", "section name"),
+	q("width", dimLength, "50 um", "channel width of the section"),
+	q("length", dimLength, "600 um", "centre-line length from the previous bend (or the source end) to the next (or the drain end)"),
+	text("direction", "crystal direction of the current in it, e.g. [1-10]"),
+}
+
+// MaskShapes are the shapes a mask may have (the `shape:` field; hall-bar when absent).
+var MaskShapes = []string{"hall-bar", "L", "van-der-pauw", "cloverleaf", "corbino"}
 
 // calibrationFields are a calibration wafer's records of a cell: the cell temperature, and
 // the density measured in a doped layer grown at growth_rate, or the sheet density of a
@@ -298,10 +309,15 @@ var kindTable = []KindInfo{
 	}},
 	{Kind: KindMask, Folder: "masks", Doc: "a photomask or e-beam pattern: Hall-bar geometry, probes, contact numbering", Fields: []FieldSpec{
 		text("version", "mask version"),
+		{Name: "shape", Type: TypeEnum, Values: MaskShapes, Doc: "device shape (hall-bar when absent)"},
 		q("width", dimLength, "20 um", "channel width"),
 		q("length", dimLength, "500 um", "source-drain length"),
 		{Name: "probes", Type: TypeList, Fields: probeFields, Doc: "voltage probes"},
-		{Name: "contacts", Type: TypeMapOrList, Doc: "contact numbering"},
+		{Name: "sections", Type: TypeList, Fields: sectionFields, Doc: "the straight sections of an L-shaped bar, from source to drain"},
+		q("inner_radius", dimLength, "100 um", "inner radius of a Corbino disc"),
+		q("outer_radius", dimLength, "500 um", "outer radius of a Corbino disc"),
+		q("size", dimLength, "5 mm", "side of a van der Pauw square or cloverleaf"),
+		{Name: "contacts", Type: TypeMapOrList, Doc: "contacts: source and drain (a bar), corners (van der Pauw), inner and outer (Corbino), pads"},
 		{Name: "tlm", Type: TypeNamedMaps, Fields: tlmPatternFields, Doc: "transfer-length patterns by name: width, contact_length, gaps"},
 	}},
 	{Kind: KindProcess, Folder: "processes", Doc: "a fabrication run: ordered steps with parameters and cautions", Fields: []FieldSpec{
@@ -316,7 +332,10 @@ var kindTable = []KindInfo{
 		text("axis", "Hall-bar axis relative to the crystal, e.g. [1-10]"),
 		{Name: "as_built", Type: TypeMap, Doc: "measured geometry overriding the mask's",
 			Fields: []FieldSpec{q("width", dimLength, "19.6 um", "as-built channel width"), q("length", dimLength, "500 um", "as-built length"),
-				{Name: "probes", Type: TypeList, Fields: probeFields, Doc: "as-built probes"}}},
+				{Name: "probes", Type: TypeList, Fields: probeFields, Doc: "as-built probes"},
+				{Name: "sections", Type: TypeList, Fields: sectionFields, Doc: "as-built sections of an L-shaped bar"},
+				q("inner_radius", dimLength, "100 um", "as-built inner radius of a Corbino disc"),
+				q("outer_radius", dimLength, "500 um", "as-built outer radius of a Corbino disc")}},
 		{Name: "good_contacts", Type: TypeTextList, Doc: "contacts that work"},
 		{Name: "bonding", Type: TypeMap, Doc: "pin to contact"},
 	}},
@@ -338,10 +357,14 @@ var kindTable = []KindInfo{
 			text("channel", "instrument channel"), q("time_constant", dimTime, "300 ms", "time constant"),
 			text("phase", "phase setting"),
 			{Name: "sensitivity", Type: TypeQuantity, Dims: []quantity.Dim{dimVoltage, dimCurrent}, Example: "10 mV", Doc: "sensitivity (voltage or current input)"}}},
-		{Name: "wiring", Type: TypeMap, Doc: "instrument channel to contact pair"},
+		{Name: "wiring", Type: TypeMap, Doc: `instrument channel to contacts: current "1 -> 5" (source to drain), a voltage "7 - 3" (V7 − V3)`},
+		{Name: "convention", Type: TypeMap, Doc: "sign convention of the Hall data", Fields: []FieldSpec{
+			{Name: "field", Type: TypeEnum, Values: []string{"up", "down"}, Doc: "B > 0 points out of the grown surface (up, the default) or into it"},
+			{Name: "electrons", Type: TypeEnum, Values: []string{"negative", "positive"}, Doc: "the sign of the Hall slope electrons give in this cooldown's files (overrides the wiring)"}}},
 		{Name: "gate_history", Type: TypeTextList, Doc: "gate biases in order"},
 		{Name: "data", Type: TypeList, Doc: "data files", Fields: []FieldSpec{
 			text("file", "path relative to the entry"), text("note", "what it is"),
+			text("layout", "how the file is written: the name of a layout in the notebook's layouts/ folder"),
 			q("temperature", dimTemp, "20 mK", "temperature"), q("gate", dimVoltage, "-0.2 V", "gate voltage")}},
 	}},
 }

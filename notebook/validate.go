@@ -12,6 +12,7 @@ import (
 	"strings"
 	"time"
 
+	"cleave/calc/library"
 	"cleave/calc/quantity"
 
 	"go.yaml.in/yaml/v3"
@@ -79,6 +80,9 @@ func (nb *Notebook) Validate() []Problem {
 		if e.Kind == KindCooldown {
 			ps = append(ps, nb.checkDataFiles(e)...)
 		}
+		if e.Kind == KindDevice || e.Kind == KindCooldown {
+			ps = append(ps, nb.checkContacts(e)...)
+		}
 	}
 	for _, cyc := range nb.cycles() {
 		if len(cyc) == 1 {
@@ -119,6 +123,9 @@ func (e *Entry) ownProblems() []Problem {
 		return ps
 	}
 	ps = append(ps, checkFields(e, e.meta, fields, "")...)
+	if e.Kind == KindMask {
+		ps = append(ps, maskShapeProblems(e)...)
+	}
 	for _, f := range linkFields(e.Kind) {
 		n, ok := e.Field(f.Name)
 		if !ok {
@@ -476,4 +483,288 @@ func (nb *Notebook) checkDataFiles(e *Entry) []Problem {
 		}
 	}
 	return ps
+}
+
+// Contacts and device shapes: a device's bonding map and good contacts, and a cooldown's
+// wiring, name contacts of the mask; a mask carries what its shape needs.
+
+// contactRoles are the keys of a mask's `contacts` map whose values name contacts (the
+// other keys are themselves contact names, with a pad number as value).
+var contactRoles = []string{"source", "drain", "inner", "outer", "corners", "gate", "gates", "pads"}
+
+// MaskContacts lists the contact names a mask defines: its probes' names and the names in
+// `contacts` (the values of source, drain, inner, outer, corners and gates, the keys of pads,
+// the other keys of the map, or the items of a list).
+func MaskContacts(m *Entry) []string {
+	var names []string
+	add := func(n *yaml.Node) {
+		n = deref(n)
+		if n == nil {
+			return
+		}
+		switch n.Kind {
+		case yaml.ScalarNode:
+			if v := strings.TrimSpace(n.Value); v != "" && !slices.Contains(names, v) {
+				names = append(names, v)
+			}
+		case yaml.SequenceNode:
+			for _, c := range n.Content {
+				if c = deref(c); c != nil && c.Kind == yaml.MappingNode {
+					if nn := mapValue(c, "name"); nn != nil {
+						c = nn
+					}
+				}
+				if c != nil && c.Kind == yaml.ScalarNode && !slices.Contains(names, strings.TrimSpace(c.Value)) {
+					names = append(names, strings.TrimSpace(c.Value))
+				}
+			}
+		}
+	}
+	if ps, ok := m.Field("probes"); ok && ps.Kind == yaml.SequenceNode {
+		for _, p := range ps.Content {
+			if p = deref(p); p != nil && p.Kind == yaml.MappingNode {
+				add(mapValue(p, "name"))
+			}
+		}
+	}
+	if c, ok := m.Field("contacts"); ok {
+		switch c.Kind {
+		case yaml.SequenceNode:
+			add(c)
+		case yaml.MappingNode:
+			for i := 0; i+1 < len(c.Content); i += 2 {
+				k, v := c.Content[i].Value, deref(c.Content[i+1])
+				switch {
+				case k == "pads" && v != nil && v.Kind == yaml.MappingNode:
+					for j := 0; j < len(v.Content); j += 2 {
+						add(v.Content[j])
+					}
+				case slices.Contains(contactRoles, k):
+					add(v)
+				default:
+					add(c.Content[i])
+				}
+			}
+		}
+	}
+	return names
+}
+
+// maskShapeProblems checks that a mask carries what its shape needs: a Hall bar a width and
+// probes (a mask without a shape that holds only TLM patterns is no Hall bar), an L-shaped bar sections (each with a width and a length) and probes on them, a van
+// der Pauw square or cloverleaf its four corner contacts, a Corbino disc both radii.
+func maskShapeProblems(e *Entry) []Problem {
+	var ps []Problem
+	at := func(n *yaml.Node, format string, args ...any) {
+		l, c := e.Pos(n)
+		if n == nil {
+			p := e.idPos()
+			l, c = p.Line, p.Col
+		}
+		ps = append(ps, Problem{Path: e.Path, Line: l, Col: max(c, 1), Msg: fmt.Sprintf(format, args...)})
+	}
+	shape := "hall-bar"
+	sn, hasShape := e.Field("shape")
+	if hasShape {
+		if sn.Kind != yaml.ScalarNode || !slices.Contains(MaskShapes, sn.Value) {
+			return nil // reported by the schema check
+		}
+		shape = sn.Value
+	}
+	need := func(field, what string) *yaml.Node {
+		n, ok := e.Field(field)
+		if !ok {
+			at(sn, "a %s mask needs `%s:` (%s)", shape, field, what)
+			return nil
+		}
+		return n
+	}
+	if _, hasTLM := e.Field("tlm"); !hasShape && hasTLM {
+		if _, hasProbes := e.Field("probes"); !hasProbes {
+			return nil // a mask of transfer-length patterns only, no Hall bar
+		}
+	}
+	switch shape {
+	case "hall-bar":
+		need("width", "the channel width, e.g. `100 um`")
+		if p := need("probes", "the voltage probes with name, position, arm_width and side"); p != nil && p.Kind == yaml.SequenceNode && len(p.Content) == 0 {
+			at(p, "a hall-bar mask needs at least one probe in `probes:`")
+		}
+	case "L":
+		secs := need("sections", "the straight sections from source to drain, each {name, width, length, direction}")
+		var names []string
+		if secs != nil && secs.Kind == yaml.SequenceNode {
+			for i, s := range secs.Content {
+				s = deref(s)
+				if s == nil || s.Kind != yaml.MappingNode {
+					continue // reported by the schema check
+				}
+				for _, f := range []string{"name", "width", "length"} {
+					if mapValue(s, f) == nil {
+						at(s, "sections[%d]: an L-shaped bar's section needs `%s:`", i, f)
+					}
+				}
+				if n := mapValue(s, "name"); n != nil {
+					names = append(names, n.Value)
+				}
+			}
+			if len(secs.Content) < 2 {
+				at(secs, "an L-shaped bar has at least two sections (the arms on either side of the bend)")
+			}
+		}
+		if p := need("probes", "the voltage probes with name, section, position and side"); p != nil && p.Kind == yaml.SequenceNode {
+			for i, pr := range p.Content {
+				pr = deref(pr)
+				if pr == nil || pr.Kind != yaml.MappingNode {
+					continue
+				}
+				s := mapValue(pr, "section")
+				switch {
+				case s == nil:
+					at(pr, "probes[%d]: on an L-shaped bar a probe names its `section:` (one of %s)", i, strings.Join(names, ", "))
+				case len(names) > 0 && !slices.Contains(names, s.Value):
+					at(s, "probes[%d]: section %q is not one of the mask's sections (%s)", i, s.Value, strings.Join(names, ", "))
+				}
+			}
+		}
+	case "van-der-pauw", "cloverleaf":
+		c, ok := e.Field("contacts")
+		var corners *yaml.Node
+		if ok && c.Kind == yaml.MappingNode {
+			corners = deref(mapValue(c, "corners"))
+		} else if ok && c.Kind == yaml.SequenceNode {
+			corners = c
+		}
+		if corners == nil || corners.Kind != yaml.SequenceNode || len(corners.Content) != 4 {
+			n := sn
+			if corners != nil {
+				n = corners
+			}
+			at(n, "a %s mask needs its four corner contacts in order around the edge: `contacts: {corners: [\"1\", \"2\", \"3\", \"4\"]}`", shape)
+		}
+	case "corbino":
+		in := need("inner_radius", "the radius of the inner contact's edge, e.g. `100 um`")
+		out := need("outer_radius", "the radius of the outer contact's edge, e.g. `500 um`")
+		if in != nil && out != nil {
+			ri, err1 := e.Quantity("inner_radius")
+			ro, err2 := e.Quantity("outer_radius")
+			if err1 == nil && err2 == nil && ri.Dim() == ro.Dim() && !(ro.Value() > ri.Value()) {
+				at(out, "outer_radius %s must exceed inner_radius %s", out.Value, in.Value)
+			}
+		}
+	}
+	return ps
+}
+
+// checkContacts reports contacts a device's bonding map or good contacts, or a cooldown's
+// wiring, name but its mask does not define, and wired contacts that are not among the
+// device's good contacts.
+func (nb *Notebook) checkContacts(e *Entry) []Problem {
+	var ps []Problem
+	at := func(n *yaml.Node, format string, args ...any) {
+		l, c := e.Pos(n)
+		ps = append(ps, Problem{Path: e.Path, Line: l, Col: max(c, 1), Msg: fmt.Sprintf(format, args...)})
+	}
+	maskOf := func(d *Entry) (*Entry, []string) {
+		id, ok := d.Text("mask")
+		if !ok {
+			return nil, nil
+		}
+		m, ok := nb.Entry(id)
+		if !ok || m.Kind != KindMask {
+			return nil, nil // a dangling link, reported elsewhere
+		}
+		names := MaskContacts(m)
+		if len(names) == 0 {
+			return nil, nil // a mask that names no contacts: nothing to check against
+		}
+		return m, names
+	}
+	switch e.Kind {
+	case KindDevice:
+		m, names := maskOf(e)
+		if m == nil {
+			return nil
+		}
+		if b, ok := e.Field("bonding"); ok && b.Kind == yaml.MappingNode {
+			for i := 0; i+1 < len(b.Content); i += 2 {
+				v := deref(b.Content[i+1])
+				if v != nil && v.Kind == yaml.ScalarNode && v.Value != "" && !slices.Contains(names, strings.TrimSpace(v.Value)) {
+					at(v, "bonding: %s: contact %q is not on mask %s (its contacts: %s)", b.Content[i].Value, v.Value, m.ID, contactList(names))
+				}
+			}
+		}
+		if g, ok := e.Field("good_contacts"); ok && g.Kind == yaml.SequenceNode {
+			for _, v := range g.Content {
+				if v = deref(v); v != nil && v.Kind == yaml.ScalarNode && !slices.Contains(names, strings.TrimSpace(v.Value)) {
+					at(v, "good_contacts: %q is not a contact of mask %s (its contacts: %s)", v.Value, m.ID, contactList(names))
+				}
+			}
+		}
+	case KindCooldown:
+		w, ok := e.Field("wiring")
+		if !ok || w.Kind != yaml.MappingNode {
+			return nil
+		}
+		var names, good, devs []string
+		anyGood := false
+		for _, l := range e.Links() {
+			if l.Field != "devices" {
+				continue
+			}
+			d, ok := nb.Entry(l.ID)
+			if !ok || d.Kind != KindDevice {
+				continue
+			}
+			devs = append(devs, d.ID)
+			if _, ns := maskOf(d); ns != nil {
+				names = append(names, ns...)
+			}
+			if g, ok := d.Field("good_contacts"); ok && g.Kind == yaml.SequenceNode && len(g.Content) > 0 {
+				anyGood = true // an empty list is not recorded yet
+				for _, v := range g.Content {
+					if v = deref(v); v != nil && v.Kind == yaml.ScalarNode {
+						good = append(good, strings.TrimSpace(v.Value))
+					}
+				}
+			}
+		}
+		if len(names) == 0 {
+			return nil
+		}
+		for i := 0; i+1 < len(w.Content); i += 2 {
+			v := deref(w.Content[i+1])
+			if v == nil || v.Kind != yaml.ScalarNode {
+				continue
+			}
+			a, b, ok := parseWiringPair(v.Value)
+			if !ok {
+				continue
+			}
+			for _, c := range []string{a, b} {
+				switch {
+				case !slices.Contains(names, c):
+					at(v, "wiring: %s: contact %q is not on the mask of %s (its contacts: %s)", w.Content[i].Value, c, strings.Join(devs, ", "), contactList(names))
+				case anyGood && !slices.Contains(good, c):
+					at(v, "wiring: %s: contact %q is not among the good contacts of %s", w.Content[i].Value, c, strings.Join(devs, ", "))
+				}
+			}
+		}
+	}
+	return ps
+}
+
+// parseWiringPair reads a wiring entry "1 -> 5" or "7 - 3" (the notation of calc's wiring,
+// see calc/library.ParsePair); entries whose sides hold blanks (free text) are not pairs.
+func parseWiringPair(s string) (string, string, bool) {
+	a, b, ok := library.ParsePair(s)
+	if !ok || strings.ContainsAny(a, " \t") || strings.ContainsAny(b, " \t") {
+		return "", "", false
+	}
+	return a, b, true
+}
+
+// contactList shows contact names sorted, once each.
+func contactList(names []string) string {
+	return strings.Join(slices.Compact(slices.Sorted(slices.Values(names))), ", ")
 }

@@ -25,6 +25,7 @@ var (
 	dTemp       = quantity.Temperature
 	dHallSlope  = quantity.MustUnit("Ohm/T").D
 	dVolt       = quantity.MustUnit("V").D
+	dCurrent    = quantity.MustUnit("A").D
 	dCapArea    = quantity.MustUnit("F/m^2").D
 	dPerVolt    = quantity.MustUnit("m^-2/V").D
 )

@@ -1,8 +1,11 @@
 package library
 
 import (
+	"bytes"
 	"fmt"
 	"io"
+	"math"
+	"path"
 	"sort"
 	"strings"
 
@@ -17,19 +20,9 @@ import (
 // calc/transport.
 func dataFuncs() []calc.Func {
 	return []calc.Func{
-		{Name: "data", Doc: "a data file, by a path relative to the entry's folder inside the notebook",
-			Params: []calc.Param{{Name: "path"}},
-			Call: func(e *calc.Env, args []calc.Value) (calc.Value, error) {
-				s, ok := args[0].(calc.String)
-				if !ok {
-					return nil, &calc.ArgError{Arg: 0, Err: fmt.Errorf("%w: needs a string path, found a %s", calc.ErrType, args[0].Type())}
-				}
-				v, err := e.OpenData(string(s))
-				if err != nil {
-					return nil, &calc.ArgError{Arg: 0, Err: err}
-				}
-				return v, nil
-			}},
+		{Name: "data", Doc: "a data file, by a path relative to the entry's folder inside the notebook; layout= names a file layout of the notebook's layouts/ folder (default: the layout the cooldown's data entry names, else sniffed); offset= is the true field when the magnet reads zero, added to the field column (default: the cooldown's magnet.offset)",
+			Params: []calc.Param{{Name: "path"}, {Name: "layout", Default: calc.String("")}, {Name: "offset", Default: calc.String("none")}},
+			Call:   dataCall},
 		{Name: "zero_field",
 			Doc:    "a column's value at B = 0, by a local low-order fit over the points nearest zero field",
 			Params: []calc.Param{{Name: "d"}, {Name: "column", Default: calc.String("Rxx")}},
@@ -60,8 +53,40 @@ func dataFuncs() []calc.Func {
 			Doc:    "the data set over |B| with column y (default Rxy) antisymmetrised from sweeps over +B and -B",
 			Params: []calc.Param{{Name: "d"}, {Name: "y", Default: calc.String("Rxy")}, {Name: "x", Default: calc.String("B")}},
 			Call:   func(_ *calc.Env, a []calc.Value) (calc.Value, error) { return symmetrizeCall(a, -1) }},
+		{Name: "split_sweep",
+			Doc:    "the rising and falling branches of a back-and-forth sweep (from a direction column, else the field's own turns) and the field lag between them: .up, .down, .lag",
+			Params: []calc.Param{{Name: "d"}, {Name: "x", Default: calc.String("B")}},
+			Call: func(_ *calc.Env, a []calc.Value) (calc.Value, error) {
+				d, err := dataArg(a, 0)
+				if err != nil {
+					return nil, err
+				}
+				x, err := strArg(a, 1)
+				if err != nil {
+					return nil, err
+				}
+				sp, err := transport.SplitSweep(d, transport.WithField(x))
+				if err != nil {
+					return nil, err
+				}
+				lag := est(sp.Lag, dField)
+				if len(sp.LagColumns) == 0 {
+					lag = calc.Q(quantity.New(math.NaN(), dField))
+				}
+				r := newResult("split_sweep", "lag", nil,
+					"lag", lag,
+					"points_up", num(float64(sp.Up.Len())),
+					"points_down", num(float64(sp.Down.Len())),
+					"up", &DataSet{D: sp.Up},
+					"down", &DataSet{D: sp.Down},
+					"match", num(sp.Match),
+					"residual", calc.Q(quantity.New(sp.Residual, dResistance)),
+					"range", calc.Range{Lo: quantity.New(sp.BMin, dField), Hi: quantity.New(sp.BMax, dField)},
+					"directions", calc.String(sp.Source))
+				return withWarnings(r, sp.Warnings), nil
+			}},
 		{Name: "check_sweep",
-			Doc:    "the sanity checks of a raw sweep a reviewer wants flagged: R_xy away from 0 at B = 0, R_xx minima that do not reach zero (with n=), a large out-of-phase lock-in signal, too few points",
+			Doc:    "the sanity checks of a raw sweep a reviewer wants flagged, each with the field where it happens: R_xy away from 0 at B = 0, R_xx minima that do not reach zero (with n=), a large out-of-phase lock-in signal, too few points, one-point spikes, a field reading that steps back, readings stuck at an extreme (an overloaded input), a field lag or hysteresis between up and down branches",
 			Params: []calc.Param{{Name: "d"}, {Name: "n", Default: calc.String("none")}},
 			Call: func(_ *calc.Env, a []calc.Value) (calc.Value, error) {
 				d, err := dataArg(a, 0)
@@ -89,6 +114,94 @@ func dataFuncs() []calc.Func {
 	}
 }
 
+// dataCall reads a data file: with the layout the call or the cooldown's data entry
+// names, else sniffed by the Env's data loader.
+func dataCall(e *calc.Env, args []calc.Value) (calc.Value, error) {
+	s, ok := args[0].(calc.String)
+	if !ok {
+		return nil, &calc.ArgError{Arg: 0, Err: fmt.Errorf("%w: needs a string path, found a %s", calc.ErrType, args[0].Type())}
+	}
+	ls, ok := args[1].(calc.String)
+	if !ok {
+		return nil, &calc.ArgError{Arg: 1, Err: fmt.Errorf("%w: layout= needs the name of a layout in quotes, found a %s", calc.ErrType, args[1].Type())}
+	}
+	off, hasOff, err := optQ(args, 2, dField, "a field offset such as 2 mT")
+	if err != nil {
+		return nil, err
+	}
+	lname, larg := strings.TrimSpace(string(ls)), 1
+	cd := entryRecord(e, "cooldown")
+	if !hasOff {
+		off, _ = pathQuantity(cd, dField, "magnet", "offset")
+	}
+	if lname == "" {
+		lname, larg = cooldownLayout(cd, string(s)), 0
+	}
+	if lname == "" {
+		v, err := e.OpenData(string(s))
+		if err != nil {
+			return nil, &calc.ArgError{Arg: 0, Err: err}
+		}
+		if d, ok := v.(*DataSet); ok && off.Value() != 0 {
+			return &DataSet{D: d.D.WithFieldOffset(off.Value())}, nil
+		}
+		return v, nil
+	}
+	l, err := loadLayout(e, lname)
+	if err != nil {
+		return nil, &calc.ArgError{Arg: larg, Err: err}
+	}
+	if l.UsesExcitation() {
+		if I, ok := pathQuantity(cd, dCurrent, "excitation", "current"); ok {
+			l.Excitation = I.Value()
+		}
+	}
+	name, b, err := e.ReadDataFile(string(s))
+	if err != nil {
+		return nil, &calc.ArgError{Arg: 0, Err: err}
+	}
+	ds, err := transport.ReadLayout(name, bytes.NewReader(b), l)
+	if err != nil {
+		return nil, &calc.ArgError{Arg: 0, Err: err}
+	}
+	return &DataSet{D: ds.WithFieldOffset(off.Value())}, nil
+}
+
+// cooldownLayout is the layout the cooldown's data entry for path names ("" when none):
+// `data: [{file: PATH, layout: NAME}]`.
+func cooldownLayout(cd *calc.Record, p string) string {
+	list, ok := pathField(cd, "data").(calc.List)
+	if !ok {
+		return ""
+	}
+	want := path.Clean(p)
+	for _, it := range list {
+		r, ok := it.(*calc.Record)
+		if !ok {
+			continue
+		}
+		if f := pathText(r, "file"); f != "" && path.Clean(f) == want {
+			return pathText(r, "layout")
+		}
+	}
+	return ""
+}
+
+// LayoutPath is where a notebook keeps the layout of a name.
+func LayoutPath(name string) string { return "layouts/" + name + ".yaml" }
+
+// loadLayout reads layouts/NAME.yaml through the Env's file system (a dependency of the line).
+func loadLayout(e *calc.Env, name string) (*transport.Layout, error) {
+	if !transport.ValidLayoutName(name) {
+		return nil, fmt.Errorf("%w: layout %q: expected the name of a file in layouts/ without .yaml (letters, digits, '.', '_', '-')", calc.ErrArgument, name)
+	}
+	p, b, err := e.ReadNotebookFile(LayoutPath(name), "layout")
+	if err != nil {
+		return nil, err
+	}
+	return transport.ParseLayout(p, b)
+}
+
 // ReadData is the data loader of the library (see calc.WithDataLoader): it reads a CSV or
 // TSV measurement file with transport.Read and gives a *DataSet. Its errors name the file
 // and the position in it.
@@ -111,17 +224,29 @@ func (*DataSet) Type() string { return "data set" }
 func (d *DataSet) Display() string {
 	var cols []string
 	for _, c := range d.D.Columns {
-		if c.Unit != "" {
-			cols = append(cols, c.Name+" ("+c.Unit+")")
-		} else {
-			cols = append(cols, c.Name)
+		s := c.Name
+		switch {
+		case c.IsText():
+			s += " (text)"
+		case c.Unit != "" && c.Stem == "":
+			s += " (" + c.Unit + ")"
 		}
+		if c.Role != "" && !strings.EqualFold(c.Role, c.Name) && !strings.EqualFold(c.Role, c.Stem) {
+			s += " as " + c.Role
+		}
+		cols = append(cols, s)
 	}
 	h := d.D.Hash
 	if len(h) > 15 {
 		h = h[:15]
 	}
 	s := fmt.Sprintf("%s: %d rows; %s", d.D.Name, d.D.Len(), strings.Join(cols, ", "))
+	if d.D.Layout != "" {
+		s += "; layout " + d.D.Layout
+	}
+	if d.D.FieldOffset != 0 {
+		s += "; field offset " + calc.Display(calc.Q(quantity.New(d.D.FieldOffset, dField))) + " added"
+	}
 	if h != "" {
 		s += "; " + h
 	}
@@ -136,6 +261,12 @@ func (d *DataSet) Field(name string) (calc.Value, bool) {
 	if name == "hash" {
 		return calc.String(d.D.Hash), true
 	}
+	if name == "offset" {
+		return calc.Q(quantity.New(d.D.FieldOffset, dField)), true
+	}
+	if name == "layout" {
+		return calc.String(d.D.Layout), true
+	}
 	if v, ok := d.D.MetaValue(name); ok {
 		if q, err := quantity.ParseQuantity(strings.TrimSpace(v)); err == nil {
 			return calc.Q(q), true
@@ -147,7 +278,7 @@ func (d *DataSet) Field(name string) (calc.Value, bool) {
 
 // FieldNames implements Fielder.
 func (d *DataSet) FieldNames() []string {
-	names := []string{"rows", "hash"}
+	names := []string{"rows", "hash", "offset", "layout"}
 	for _, kv := range d.D.Meta {
 		if kv.Key != "" {
 			names = append(names, kv.Key)
@@ -185,7 +316,13 @@ func symmetrizeCall(a []calc.Value, sign int) (calc.Value, error) {
 	if err != nil {
 		return nil, err
 	}
-	out := &transport.Dataset{Name: d.Name, Hash: d.Hash, Meta: d.Meta}
+	if span, oneSided := transport.SweepSpan(xc.Values); oneSided && span != "no field" {
+		// Nothing to pair with: the sweep as it is, labelled.
+		out := *d
+		out.Name += " (" + span + ": not symmetrised, there is no other polarity)"
+		return &DataSet{D: &out}, nil
+	}
+	out := &transport.Dataset{Name: d.Name, Hash: d.Hash, Meta: d.Meta, Layout: d.Layout, FieldOffset: d.FieldOffset}
 	var grid []float64
 	for _, j := range jobs {
 		yc, err := d.Col(j.col)

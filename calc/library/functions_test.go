@@ -178,16 +178,19 @@ func TestAll(t *testing.T) {
 	sort.Strings(names)
 	want := []string{
 		"abs", "al_fraction", "antisymmetrize", "arrhenius_fit", "bohr_radius", "cell_calibration",
-		"cell_density", "cell_flux", "check_sweep", "compare_densities", "contact_resistance", "cos",
-		"cyclotron_energy", "cyclotron_frequency", "data", "delta_density", "density_from_slope", "density_of_states",
-		"dingle_factor", "dingle_temperature", "dirac_fermi_energy", "dirac_landau_level", "dose",
-		"etch_depth", "etch_rate", "exp", "expected_density", "fermi_energy", "fermi_velocity", "fermi_wavevector",
-		"field_at_filling", "filling_factor", "gate_capacitance", "growth_check", "hall_density", "hall_resistance",
-		"landau_fan", "landau_level", "lk_mass", "ln", "log10", "magnetic_length", "material",
-		"max", "mean", "mean_free_path", "metal_thickness", "min", "mobility", "mobility_power_law", "monolayer", "plateaus",
-		"quantum_lifetime", "quantum_mobility", "rheed_rate", "sdh_density", "sdh_frequency", "sheet_resistance",
-		"sin", "sqrt", "symmetrize", "tanh", "thermal_damping", "tlm", "transport_time",
-		"vdp_hall_density", "vdp_sheet_resistance", "zeeman_energy", "zero_field",
+		"cell_density", "cell_flux", "check_sweep", "compare_densities", "contact_resistance",
+		"corbino_conductance", "corbino_sigma", "cos", "cyclotron_energy", "cyclotron_frequency", "data",
+		"delta_density", "density_from_slope", "density_of_states", "dingle_factor",
+		"dingle_temperature", "dirac_fermi_energy", "dirac_landau_level", "dose", "etch_depth",
+		"etch_rate", "exp", "expected_density", "fermi_energy", "fermi_velocity", "fermi_wavevector",
+		"field_at_filling", "filling_factor", "gate_capacitance", "growth_check", "hall_density",
+		"hall_pairs", "hall_resistance", "landau_fan", "landau_level", "lk_mass", "ln", "log10",
+		"magnetic_length", "material", "max", "mean", "mean_free_path", "metal_thickness", "min",
+		"mobility", "mobility_power_law", "monolayer", "plateaus", "quantum_lifetime",
+		"quantum_mobility", "rheed_rate", "sdh_density", "sdh_frequency", "sheet_resistance", "sin",
+		"split_sweep", "sqrt", "squares", "symmetrize", "tanh", "thermal_damping", "tlm",
+		"transport_time", "vdp_contacts", "vdp_hall_density", "vdp_sheet_resistance", "zeeman_energy",
+		"zero_field",
 	}
 	if strings.Join(names, " ") != strings.Join(want, " ") {
 		t.Errorf("All() has\n%v\nwant\n%v", names, want)

@@ -25,6 +25,11 @@ var evalSeeds = []string{
 	`fermi_energy(n, m=GaAs.mstar, gs=1)`, "E_F -> meV", "5 T / B", "(3.070 ± 0.040)e11 cm^-2",
 	"Si(100).gv", `hall_density(data("raw/a.csv"), 0 T .. 1 T)`, `symmetrize(data("raw/a.csv"))`,
 	`material("GaAs").mstar`, "expected_density([])", "landau_fan([1 T], [1])",
+	// issue 11: layouts, sweeps, shapes, indexing
+	`data("raw/a.csv", layout = "lockin")`, `data("raw/a.csv", layout = "../x")`, `data("raw/a.csv", offset = 2 mT)`,
+	`split_sweep(data("raw/a.csv"))`, `check_sweep(data("raw/a.csv"))`, `split_sweep(data("raw/a.csv")).up`,
+	"[1, 2][-1]", "[1][5]", `device["width"]`, "device.mask[0]", "squares()", "corbino_sigma(1 mS, 1 um, 0 um)",
+	"vdp_contacts()", "1 meV -> K", "2 tesla", "1e6 cm^2/Vs", "fermi_energy(1e12 cm^-2, Si)", "fermi_energy(1e12 cm^-2, graphene)",
 	// temperatures in °C and growth units
 	"-20 °C", "20 °C + 30 °C", "2*(20 °C)", "(115 °C - 110 °C) -> degC", "mean(580 °C, 600 °C)",
 	"0.8 ML(GaAs)/s", "ML(Al(0.3)Ga(0.7)As)", "5 ML(GaAs", "4000 rpm * 2", "1 ℃ -> K",
@@ -47,8 +52,9 @@ func FuzzEval(f *testing.F) {
 		f.Add(s)
 	}
 	fsys := fstest.MapFS{
-		"e/raw/a.csv": {Data: []byte("B,R\n0,1\n")},
-		"e/up.csv":    {Data: []byte("../../x"), Mode: fs.ModeSymlink},
+		"e/raw/a.csv":         {Data: []byte("B,R\n0,1\n")},
+		"layouts/lockin.yaml": {Data: []byte("comments: [\"%\"]\nderive:\n  Rxx: {x: R, current: 10 nA}\n")},
+		"e/up.csv":            {Data: []byte("../../x"), Mode: fs.ModeSymlink},
 	}
 	um := quantity.MustUnit("um")
 	res := fuzzResolver{

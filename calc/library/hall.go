@@ -19,24 +19,25 @@ func hallFuncs() []calc.Func {
 	type q = quantity.Quantity
 	return []calc.Func{
 		{Name: "hall_density",
-			Doc:    "Hall density from a linear fit of R_xy against B over a |B| range: n = 1/(e |slope|); the sign of the slope says electrons (negative, with B along +z) or holes",
+			Doc:    "Hall density from a linear fit of R_xy against B over a |B| range: n = 1/(e |slope|); the carriers are the wafer's, checked against the slope's sign read with the cooldown's wiring or convention",
 			Params: []calc.Param{{Name: "d"}, {Name: "range"}, {Name: "x", Default: calc.String("B")}, {Name: "y", Default: calc.String("Rxy")}},
-			Call: func(_ *calc.Env, a []calc.Value) (calc.Value, error) {
+			Call: func(e *calc.Env, a []calc.Value) (calc.Value, error) {
 				d, lo, hi, err := dataAndRange(a)
 				if err != nil {
 					return nil, err
 				}
 				x, _ := strArg(a, 2)
 				y, _ := strArg(a, 3)
-				h, err := transport.HallDensity(d, x, y, lo, hi)
+				h, err := transport.HallDensity(d, x, y, lo, hi, hallOptions(e, y)...)
 				if err != nil {
 					return nil, err
 				}
 				return hallValue(h), nil
 			}},
 		{Name: "sdh_density",
-			Doc:    "Shubnikov-de Haas density from the Fourier spectrum of R_xx against 1/B over a |B| range: n = gs gv (e/h) f_B",
-			Params: []calc.Param{{Name: "d"}, {Name: "range"}, {Name: "gs", Default: num(2)}, {Name: "gv", Default: num(1)}, {Name: "x", Default: calc.String("B")}, {Name: "y", Default: calc.String("Rxx")}},
+			Doc: "Shubnikov-de Haas density from the Fourier spectrum of R_xx against 1/B over a |B| range: n = gs gv (e/h) f_B; background= is the degree (0-3) of the smooth background removed first",
+			Params: []calc.Param{{Name: "d"}, {Name: "range"}, {Name: "gs", Default: num(2)}, {Name: "gv", Default: num(1)}, {Name: "x", Default: calc.String("B")}, {Name: "y", Default: calc.String("Rxx")},
+				{Name: "background", Dim: dimp(dNone), Default: num(3)}},
 			Call: func(_ *calc.Env, a []calc.Value) (calc.Value, error) {
 				d, lo, hi, err := dataAndRange(a)
 				if err != nil {
@@ -52,7 +53,14 @@ func hallFuncs() []calc.Func {
 				}
 				x, _ := strArg(a, 4)
 				y, _ := strArg(a, 5)
-				s, err := transport.SdHDensity(d, lo, hi, float64(gs), transport.WithColumns(x, y), transport.WithValleyDegeneracy(float64(gv)))
+				bg, err := intArg(a, 6)
+				if err != nil {
+					return nil, err
+				}
+				if bg < 0 || bg > 3 {
+					return nil, &calc.ArgError{Arg: 6, Err: fmt.Errorf("%w: background = %d: the degree of the background polynomial is 0, 1, 2 or 3", calc.ErrArgument, bg)}
+				}
+				s, err := transport.SdHDensity(d, lo, hi, float64(gs), transport.WithColumns(x, y), transport.WithValleyDegeneracy(float64(gv)), transport.WithBackground(bg))
 				if err != nil {
 					return nil, err
 				}
@@ -127,6 +135,10 @@ func hallValue(h *transport.HallResult) *calc.AnalysisResult {
 		"intercept", est(h.Intercept, dResistance),
 		"points", num(float64(len(h.B))),
 		"range", calc.Range{Lo: quantity.New(h.BMin, dField), Hi: quantity.New(h.BMax, dField)},
+		"offset", calc.Q(quantity.New(h.FieldOffset, dField)),
+		"measured_carriers", calc.String(h.MeasuredCarriers),
+		"convention", calc.String(h.Convention),
+		"sweep", calc.String(h.Sweep),
 	), h.Warnings)
 	r.Detail = h
 	return r
@@ -142,6 +154,8 @@ func sdhValue(s *transport.SdHResult) *calc.AnalysisResult {
 		"gv", num(s.GV),
 		"points", num(float64(s.Points)),
 		"range", calc.Range{Lo: quantity.New(s.BMin, dField), Hi: quantity.New(s.BMax, dField)},
+		"offset", calc.Q(quantity.New(s.FieldOffset, dField)),
+		"sweep", calc.String(s.Sweep),
 	), s.Warnings)
 	r.Detail = s
 	return r

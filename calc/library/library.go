@@ -17,6 +17,7 @@
 //	gate.go       gate series: capacitance, mobility against density
 //	band.go       expected_density: the layer stack solved self-consistently
 //	data.go       data files and sweeps: data(), symmetrize, zero_field, check_sweep
+//	geometry.go   device geometry: squares, Hall pairs, van der Pauw contacts, Corbino discs
 //	materials.go  material(name)
 //	fab.go        fabrication: tlm, contact_resistance, etch_rate, etch_depth, dose, metal_thickness
 //	growth.go     growth: monolayer, rheed_rate, al_fraction, arrhenius_fit, cell_calibration,
@@ -51,6 +52,7 @@ func All() []calc.Func {
 		gateFuncs(),
 		bandFuncs(),
 		dataFuncs(),
+		geometryFuncs(),
 		materialFuncs(),
 		fabFuncs(),
 		growthFuncs(),

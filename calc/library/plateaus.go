@@ -57,7 +57,30 @@ func plateauFuncs() []calc.Func {
 						"to", calc.Q(quantity.New(p.BMax*float64(p.Sign), dField)), "Rxy", est(p.Rxy, dResistance),
 						"deviation", num(p.Deviation), "rxx_near_zero", calc.String(fmt.Sprint(p.RxxNearZero))))
 				}
-				summary := fmt.Sprintf("nu = %s at +B (%d plateaus over ±B), largest |R_xy - R_K/nu|/(R_K/nu) = %.1e", strings.Join(names, ", "), len(r.Plateaus), worst)
+				pos, neg := 0, 0
+				var negNames []string
+				for _, p := range r.Plateaus {
+					if p.Sign > 0 {
+						pos++
+					} else {
+						neg++
+						nu := fmt.Sprint(p.P)
+						if p.Q != 1 {
+							nu = fmt.Sprintf("%d/%d", p.P, p.Q)
+						}
+						negNames = append(negNames, nu)
+					}
+				}
+				var summary string
+				switch {
+				case pos > 0 && neg > 0:
+					summary = fmt.Sprintf("nu = %s at +B (%d plateaus over ±B)", strings.Join(names, ", "), len(r.Plateaus))
+				case pos > 0:
+					summary = fmt.Sprintf("nu = %s (%d plateaus, +B only)", strings.Join(names, ", "), pos)
+				default:
+					summary = fmt.Sprintf("nu = %s (%d plateaus, -B only)", strings.Join(negNames, ", "), neg)
+				}
+				summary += fmt.Sprintf(", largest |R_xy - R_K/nu|/(R_K/nu) = %.1e", worst)
 				if len(r.Plateaus) == 0 {
 					summary = "no plateau found"
 				}

@@ -153,3 +153,140 @@ func TestWarningsGolden(t *testing.T) {
 	}
 	testutil.GoldenString(t, filepath.Join("testdata", "warnings.golden"), b.String())
 }
+
+// lBar is an invented L-shaped bar: section A (50 um wide, 600 um to the bend) then
+// section B (20 um wide, 400 um from the bend to the drain), probes on both.
+func lBar() HallBar {
+	sp := func(name, sec string, pos float64, side string) Probe {
+		return Probe{Name: name, Section: sec, Position: q(pos, "um"), ArmWidth: q(4, "um"), Side: side}
+	}
+	return HallBar{Source: "S", Drain: "D",
+		Sections: []Section{{Name: "A", Width: q(50, "um"), Length: q(600, "um"), Direction: "[110]"},
+			{Name: "B", Width: q(20, "um"), Length: q(400, "um"), Direction: "[1-10]"}},
+		Probes: []Probe{sp("A1", "A", 150, "top"), sp("A2", "A", 450, "top"), sp("A3", "A", 450, "bottom"),
+			sp("B1", "B", 100, "top"), sp("B2", "B", 300, "top"), sp("B3", "B", 300, "bottom")}}
+}
+
+// TestSquaresSections: squares along the current's path, each section's length over its own
+// width (worked by hand from the geometry of lBar).
+func TestSquaresSections(t *testing.T) {
+	h := lBar()
+	for _, tc := range []struct {
+		a, b string
+		want float64
+	}{
+		{"A1", "A2", 300.0 / 50},                // one section
+		{"B1", "B2", 200.0 / 20},                // the narrow section
+		{"A2", "B2", 150.0/50 + 300.0/20},       // across the bend: 3 + 15
+		{"B2", "A2", 150.0/50 + 300.0/20},       // either order
+		{"A1", "B1", 450.0/50 + 100.0/20},       // 9 + 5
+		{"A3", "B3", (600-450)/50.0 + 300/20.0}, // bottom probes
+	} {
+		got, err := h.Squares(tc.a, tc.b)
+		if err != nil || math.Abs(got.Value()-tc.want) > 1e-12 {
+			t.Errorf("Squares(%s, %s) = %v, %v; want %v", tc.a, tc.b, got.Value(), err, tc.want)
+		}
+	}
+	// A section's width uncertainty weighs only on its own part: 2 % on W_B over the 15
+	// squares in B of the 18 gives 2 % × 15/18.
+	h.Sections[1].Width = qu(20, 0.4, "um")
+	got, err := h.Squares("A2", "B2")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := 0.02 * 15 / 18; math.Abs(relUnc(got)-want) > 1e-12 {
+		t.Errorf("relative uncertainty %v, want %v", relUnc(got), want)
+	}
+	if pairs := lBar().HallPairs(); len(pairs) != 2 || pairs[0] != [2]string{"A2", "A3"} || pairs[1] != [2]string{"B2", "B3"} {
+		t.Errorf("Hall pairs %v, want A2/A3 and B2/B3", pairs)
+	}
+	ws := lBar().Warnings()
+	if len(ws) == 0 || !strings.Contains(ws[len(ws)-1], "bend between sections A and B") || !strings.Contains(ws[len(ws)-1], "1.45 squares") {
+		t.Errorf("warnings %q: want the bend's note (20/(2·50) + 50/(2·20) = 1.45 squares)", ws)
+	}
+	bad := lBar()
+	bad.Probes[0].Section = "C"
+	if _, err := bad.Squares("A1", "A2"); err == nil || !strings.Contains(err.Error(), `section "C" is not one of the bar's sections [A B]`) {
+		t.Errorf("unknown section: %v", err)
+	}
+}
+
+// TestHallOrientation: which sign of R_xy = (V+ − V−)/I is ρ_xy. Worked by hand: for
+// electrons, current along +x means electrons moving along −x; with B along +z the Lorentz
+// force (−e)(−v x̂) × (B ẑ) = −evB ŷ pushes them to the bottom edge (−y), so the top edge is
+// at the higher potential and V_top − V_bottom > 0, while ρ_xy = −B/(ne) < 0 [src:IHN2010]:
+// plus on top gives R_xy = −ρ_xy (o = −1).
+func TestHallOrientation(t *testing.T) {
+	h := sixProbe()
+	h.Source, h.Drain = "S", "D"
+	for _, tc := range []struct {
+		src, drn, plus, minus string
+		want                  int
+	}{
+		{"S", "D", "V2", "V5", -1}, // plus on top, current from the source end
+		{"S", "D", "V5", "V2", 1},  // plus at the bottom
+		{"D", "S", "V2", "V5", 1},  // current reversed
+		{"D", "S", "V5", "V2", -1}, // both reversed
+		{"V1", "V3", "V2", "V5", -1},
+		{"V3", "V4", "V2", "V5", 1}, // current between probes, flowing towards the source end
+	} {
+		o, desc, err := h.HallOrientation(tc.src, tc.drn, tc.plus, tc.minus)
+		if err != nil || o != tc.want || desc == "" {
+			t.Errorf("HallOrientation(%s → %s, %s − %s) = %d %q, %v; want %d", tc.src, tc.drn, tc.plus, tc.minus, o, desc, err, tc.want)
+		}
+	}
+	for _, tc := range []struct{ src, drn, plus, minus, want string }{
+		{"S", "D", "V1", "V2", "do not face each other"},
+		{"X", "Y", "V2", "V5", "cannot tell which way"},
+		{"S", "D", "V2", "V9", `unknown probe "V9"`},
+	} {
+		if _, _, err := h.HallOrientation(tc.src, tc.drn, tc.plus, tc.minus); err == nil || !strings.Contains(err.Error(), tc.want) {
+			t.Errorf("HallOrientation(%s → %s, %s − %s): %v, want %q", tc.src, tc.drn, tc.plus, tc.minus, err, tc.want)
+		}
+	}
+	// On an L-shaped bar the path bends but x stays along it: the same rule per section.
+	if o, _, err := lBar().HallOrientation("S", "D", "B3", "B2"); err != nil || o != 1 {
+		t.Errorf("L bar, plus at the bottom of B: %d, %v; want +1", o, err)
+	}
+}
+
+// TestCorbino: the factor ln(r_out/r_in)/(2π) against the resistance of the annulus summed
+// ring by ring (∫ dr/(2πr), midpoint rule over 10^5 rings), for several radius ratios; the
+// conductance and the conductivity invert each other; bad radii are errors.
+func TestCorbino(t *testing.T) {
+	for _, r := range [][2]float64{{100, 500}, {10, 11}, {1, 1000}} {
+		sq, err := CorbinoSquares(q(r[0], "um"), q(r[1], "um"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		const n = 100000
+		h := (r[1] - r[0]) / n
+		sum := 0.0
+		for i := 0; i < n; i++ {
+			sum += h / (2 * math.Pi * (r[0] + (float64(i)+0.5)*h))
+		}
+		testutil.CheckRel(t, "Corbino squares", sq.Value(), sum, 1e-6)
+		sigma := q(2e-4, "S")
+		G, err := CorbinoConductance(sigma, q(r[0], "um"), q(r[1], "um"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		back, err := CorbinoSigma(G, q(r[0], "um"), q(r[1], "um"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		testutil.CheckRel(t, "sigma round trip", back.Value(), 2e-4, 1e-12)
+	}
+	// A 1 % uncertainty on the outer radius of a 100/500 um disc: ∂/∂r_out = 1/(2π r_out),
+	// so σ(squares) = 0.01/(2π) over ln 5/(2π): 0.01/ln 5 relative.
+	sq, _ := CorbinoSquares(q(100, "um"), qu(500, 5, "um"))
+	testutil.CheckRel(t, "relative uncertainty", relUnc(sq), 0.01/math.Log(5), 1e-9)
+	for _, r := range [][2]float64{{500, 100}, {0, 100}, {100, 100}} {
+		if _, err := CorbinoSquares(q(r[0], "um"), q(r[1], "um")); err == nil {
+			t.Errorf("radii %v: no error", r)
+		}
+	}
+	if _, err := CorbinoSquares(q(1, "T"), q(2, "um")); err == nil {
+		t.Error("a field as a radius: no error")
+	}
+}

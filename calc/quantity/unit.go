@@ -114,9 +114,13 @@ var units = map[string]unitDef{
 	"S":      {1, 0, dimResistance.Pow(-1), true},
 	"Wb":     {1, 0, dimFlux, true},
 	"T":      {1, 0, dimField, true},
-	"H":      {1, 0, dimInduct, true},
-	"rad":    {1, 0, Dimensionless, true},
-	"sr":     {1, 0, Dimensionless, false},
+	"Tesla":  {1, 0, dimField, false}, // spelled out, as exports write it
+	"tesla":  {1, 0, dimField, false},
+	// "Vs" is the trade's spelling of V s in a mobility, cm^2/Vs = cm^2/(V s).
+	"Vs":  {1, 0, dimFlux, false},
+	"H":   {1, 0, dimInduct, true},
+	"rad": {1, 0, Dimensionless, true},
+	"sr":  {1, 0, Dimensionless, false},
 
 	// Electronvolt: e times 1 V, exact since e is exact (CODATA 2018).
 	"eV": {ElementaryCharge, 0, dimEnergy, true},

@@ -57,6 +57,8 @@ func TestUnitTable(t *testing.T) {
 		{"T", 1, dimField, "[SI9] Table 4: T = kg s^-2 A^-1"},
 		{"mT", 1e-3, dimField, "[SI9] Table 7: mT is millitesla, matched whole-unit first"},
 		{"G", 1e-4, dimField, "[CGS] gauss"},
+		{"Tesla", 1, dimField, "spelled out"}, {"tesla", 1, dimField, "spelled out"},
+		{"kG", 0.1, dimField, "kilogauss"}, {"cm^2/Vs", 1e-4, MustUnit("m^2/(V s)").D, "the trade's spelling of cm^2/(V s)"},
 		{"kG", 0.1, dimField, "[CGS] kilogauss"},
 		{"K", 1, Temperature, "SI base unit"},
 		{"mK", 1e-3, Temperature, "[SI9] Table 7"},

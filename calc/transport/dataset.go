@@ -3,6 +3,7 @@ package transport
 import (
 	"errors"
 	"fmt"
+	"slices"
 	"strings"
 
 	"cleave/calc/quantity"
@@ -20,11 +21,25 @@ type KV struct {
 // data set keep the same length; the analyses drop NaN points pair-wise (see the
 // package documentation).
 type Column struct {
-	Name   string       // the column name as written, without the unit
-	Unit   string       // the unit as written in the header; "" when none was given
+	Name   string       // the column name as written, without a bracketed unit ("field_T", "Magnetic Field")
+	Unit   string       // the unit as written in the header, taken from a suffix ("_T") or given by a layout; "" when none
 	Dim    quantity.Dim // the SI dimension of Values
-	Values []float64    // SI values, NaN where the file had no number
+	Values []float64    // SI values, NaN where the file had no number (every row of a text column)
+	// Role is the canonical name the analyses look the column up by (RoleField "B",
+	// RoleRxx "Rxx", ...), from the column's name or a layout; "" when it has none.
+	Role string
+	// Stem is the name without a unit suffix ("field" for "field_T"); "" when the name has none.
+	Stem string
+	// HeaderCol is the 1-based byte column of the column's name in the header row (0 when
+	// unknown), for messages about the column.
+	HeaderCol int
+	// Text holds the labels of a text column (a sweep direction "up"/"down", a
+	// comment), one per row; nil for a numeric column.
+	Text []string
 }
+
+// IsText reports whether the column holds labels rather than numbers.
+func (c *Column) IsText() bool { return c.Text != nil }
 
 // Dataset is one measurement file read into memory.
 type Dataset struct {
@@ -33,6 +48,34 @@ type Dataset struct {
 	Meta       []KV     // "# key: value" lines before the header, in file order
 	Columns    []Column // in header order
 	HeaderLine int      // 1-based line of the header row; 0 for a data set built in memory
+	Layout     string   // the name of the layout it was read with; "" when sniffed
+	// FieldOffset is the field offset applied to the field column (T; see WithFieldOffset).
+	FieldOffset float64
+}
+
+// WithFieldOffset returns a copy of d whose field column (found as Col("B") finds it)
+// reads B + offset, for a magnet whose true field is offset when it reads zero (a
+// remanent field). The copy shares every other column with d and records the offset in
+// FieldOffset (added to any applied before). Without a field column, or with a zero
+// offset, it returns d itself.
+func (d *Dataset) WithFieldOffset(offset float64) *Dataset {
+	c, err := d.Col(RoleField)
+	if err != nil || offset == 0 {
+		return d
+	}
+	out := *d
+	out.Columns = slices.Clone(d.Columns)
+	for i := range out.Columns {
+		if &d.Columns[i] == c {
+			v := make([]float64, len(c.Values))
+			for k, b := range c.Values {
+				v[k] = b + offset
+			}
+			out.Columns[i].Values = v
+		}
+	}
+	out.FieldOffset += offset
+	return &out
 }
 
 // Len returns the number of rows (the common length of all columns).
@@ -43,12 +86,24 @@ func (d *Dataset) Len() int {
 	return len(d.Columns[0].Values)
 }
 
-// Col returns the column whose name matches name case-insensitively. If there is
-// none, the error is a *ParseError at the header row that lists the available
-// column names; errors.Is(err, ErrUnknownColumn) holds.
+// Col returns the column whose name matches name case-insensitively, else the one
+// whose name without its unit suffix does ("field" for "field_T"), else the one with that
+// role ("B" finds "Magnetic Field (T)"). If there is none, the error is a *ParseError at
+// the header row that lists the available column names; errors.Is(err,
+// ErrUnknownColumn) holds.
 func (d *Dataset) Col(name string) (*Column, error) {
 	for i := range d.Columns {
 		if strings.EqualFold(d.Columns[i].Name, name) {
+			return &d.Columns[i], nil
+		}
+	}
+	for i := range d.Columns {
+		if d.Columns[i].Stem != "" && strings.EqualFold(d.Columns[i].Stem, name) {
+			return &d.Columns[i], nil
+		}
+	}
+	for i := range d.Columns {
+		if d.Columns[i].Role != "" && strings.EqualFold(d.Columns[i].Role, name) {
 			return &d.Columns[i], nil
 		}
 	}

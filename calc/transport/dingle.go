@@ -70,7 +70,7 @@ func QuantumLifetime(d *Dataset, bmin, bmax, mstar, n, T float64, opts ...Option
 	o := newOptions(opts)
 	switch {
 	case !(bmin > 0) || !(bmax > bmin) || math.IsInf(bmax, 0):
-		return nil, fmt.Errorf("%s: Dingle analysis: field range %g T to %g T: expected 0 < bmin < bmax: %w", d.Name, bmin, bmax, ErrBadArgument)
+		return nil, fmt.Errorf("%s: Dingle analysis: field range %g T to %g T: expected a range lo .. hi with 0 < lo < hi: %w", d.Name, bmin, bmax, ErrBadArgument)
 	case !(mstar > 0) || mstar > 1e-28:
 		return nil, fmt.Errorf("%s: Dingle analysis: effective mass %g kg: expected a mass in kg such as 0.067 m_e = 6.1e-32 kg: %w", d.Name, mstar, ErrBadArgument)
 	case !(T > 0) || math.IsInf(T, 0):

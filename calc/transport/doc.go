@@ -10,20 +10,34 @@
 //
 // # Data files
 //
-// [Read] takes delimited text: any number of "# key: value" lines (kept in
-// order as [Dataset.Meta]; a "#" line without a colon is kept with an empty key),
-// then one header row, then one row of numbers per line. The delimiter is taken
-// from the header row: a tab if it has one, else a comma, else a semicolon,
-// else runs of blanks. Header names may carry a unit, "B (mT)" or "Rxx [kOhm]",
-// parsed by the calc unit parser (package quantity); values are scaled to SI.
-// Columns are found by name, case-insensitively ([Dataset.Col]). Known names
-// are checked for the dimension of their unit: B/Field (magnetic field),
-// names starting with Rxx, Rxy, Ryx, Ryy, Rhoxx, Rhoxy (resistance), and
-// T/Temp/Temperature/Tmc/Tsample (temperature); a known column without a unit
-// is taken to be in T, Ohm or K. Blank lines and "#" lines after the header are
-// skipped. An empty field or NaN is a missing value, stored as NaN so that all
-// columns keep the same length; decimal commas and infinities are errors.
-// [WriteCSV] writes a data set back in the same format.
+// [Read] takes delimited text as instruments and measurement scripts write it:
+// comment lines before the header ("#", "%", ";", "//" or "!"; "key: value" and
+// "key = value" comments are kept in order as [Dataset.Meta], other comments with
+// an empty key, a time of day is never a key), then one header row, then one row of
+// values per line. The delimiter is taken from the header row: a tab if it has one,
+// else a comma, else a semicolon, else runs of blanks. Header names may carry a
+// unit, "B (mT)" or "Rxx [kOhm]", or a unit suffix from a short list ("field_T",
+// "X1_V", "I_nA"), parsed by the calc unit parser (package quantity); values are
+// scaled to SI. Columns get a role from their name (RoleField for "B", "Field",
+// "Magnetic Field", ...; see the Role constants) and are found by name, by name
+// without the suffix, or by role, case-insensitively ([Dataset.Col]). A column with
+// a role or a resistance-like name (Rxx_X) is checked for the dimension of its
+// bracketed unit; a suffix unit that contradicts the role its name suggests drops
+// the role instead ("t_s" is a time, not a temperature); a column without a unit is
+// taken to be in the SI unit of its role. Words, times of day and dates in a column
+// without a unit make it a text column. A column whose first
+// value is a word is kept as labels ([Column.Text]: a sweep direction), never parsed
+// as numbers. Blank lines and comment lines after the header are skipped. An empty
+// field or NaN is a missing value, stored as NaN so that all columns keep the same
+// length; infinities are errors, and so are decimal commas without a layout.
+//
+// [ReadLayout] reads a file with a [Layout] ([ParseLayout] reads one from YAML):
+// comment prefixes, delimiter, decimal comma, the line of the header or none,
+// each column's role and unit, columns to ignore, and derived columns R = V/I from
+// a lock-in's X and Y channels and a current column, a fixed current or the
+// cooldown's excitation current. [Dataset.WithFieldOffset] adds a magnet's
+// remanent field to the field column. [WriteCSV] writes a data set back in the
+// format Read reads.
 //
 // Missing values are dropped pair-wise at analysis time: an analysis of Rxy
 // against B skips the rows where B or Rxy is NaN, whatever the other columns hold.

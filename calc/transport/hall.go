@@ -9,17 +9,29 @@ import (
 // depends on (data hash, columns, range, points), so a changed file or range
 // shows as a changed result.
 type HallResult struct {
-	Density   Estimate // sheet density n = 1/(e|slope|), m^-2, always > 0
-	Carriers  string   // "electrons" (negative slope) or "holes" (positive slope)
-	Slope     Estimate // dR_xy/dB, Ohm/T
-	Intercept Estimate // R_xy at B = 0 from the linear fit, Ohm
-	Fit       *PolyFit // the linear fit
+	Density Estimate // sheet density n = 1/(e|slope|), m^-2, always > 0
+	// Carriers is the carrier type: the one recorded for the sample (WithCarrier), else
+	// MeasuredCarriers.
+	Carriers string
+	// MeasuredCarriers is what the slope's sign says: with R_xy = Orientation·ρ_xy, a
+	// negative ρ_xy slope means electrons.
+	MeasuredCarriers string
+	Orientation      float64  // ±1: R_xy as measured = Orientation·ρ_xy
+	Convention       string   // what Orientation rests on
+	Slope            Estimate // dR_xy/dB, Ohm/T
+	Intercept        Estimate // R_xy at B = 0 from the linear fit, Ohm
+	Fit              *PolyFit // the linear fit
 
-	XCol, YCol string    // columns used
-	BMin, BMax float64   // |B| range, T
-	DataHash   string    // Dataset.Hash of the input
-	B, R       []float64 // the points used (SI)
-	Warnings   []Warning
+	XCol, YCol string  // columns used
+	BMin, BMax float64 // |B| range, T
+	DataHash   string  // Dataset.Hash of the input
+	// FieldOffset is the field offset the input had applied (Dataset.FieldOffset), T.
+	FieldOffset float64
+	// Sweep says which field polarities the data cover (SweepSpan): "±B, …" or
+	// "one-sided, 0 to 9 T".
+	Sweep    string
+	B, R     []float64 // the points used (SI)
+	Warnings []Warning
 }
 
 // MinHallPoints is the fewest points HallDensity accepts in its range.
@@ -30,9 +42,11 @@ const MinHallPoints = 5
 // σ_n = n σ_s/|s| from the slope's residual-based standard error.
 //
 // Sign convention ([src:IHN2010]): with B along +z, current along +x and
-// ρ_xy = E_y/j_x, Drude gives ρ_xy = B/(q n), so a negative slope means
-// electrons and a positive one holes. Whether the file follows this convention
-// depends on the wiring and the magnet polarity, which the notebook records.
+// ρ_xy = E_y/j_x, Drude gives ρ_xy = B/(q n), so a negative ρ_xy slope means
+// electrons and a positive one holes. Whether the file's column is ρ_xy or −ρ_xy
+// depends on the wiring and the magnet polarity: WithOrientation gives the factor
+// (default +1). WithCarrier gives the carrier type recorded for the sample, which is
+// then reported, with a warning when the slope says the other type.
 //
 // Points with NaN in either column are dropped. Fewer than MinHallPoints points
 // in the range is an error wrapping ErrTooFewPoints. WithSigma weights the fit.
@@ -46,7 +60,7 @@ const MinHallPoints = 5
 func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Option) (*HallResult, error) {
 	o := newOptions(opts)
 	if !(bmin >= 0) || !(bmax > bmin) {
-		return nil, fmt.Errorf("%s: Hall fit: field range %g T to %g T: expected 0 ≤ bmin < bmax: %w", d.Name, bmin, bmax, ErrBadArgument)
+		return nil, fmt.Errorf("%s: Hall fit: field range %g T to %g T: expected a range lo .. hi with 0 ≤ lo < hi: %w", d.Name, bmin, bmax, ErrBadArgument)
 	}
 	xc, err := column(d, xcol, DimField)
 	if err != nil {
@@ -76,6 +90,7 @@ func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Opti
 	res := &HallResult{
 		Slope: lin.CoefEstimate(1), Intercept: lin.CoefEstimate(0), Fit: lin,
 		XCol: xc.Name, YCol: yc.Name, BMin: bmin, BMax: bmax, DataHash: d.Hash, B: B, R: R,
+		FieldOffset: d.FieldOffset,
 	}
 	s := res.Slope.Value
 	if s == 0 {
@@ -83,9 +98,23 @@ func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Opti
 	}
 	n := 1 / (qe * math.Abs(s))
 	res.Density = Estimate{n, n * res.Slope.Uncertainty / math.Abs(s)}
-	res.Carriers = "electrons"
-	if s > 0 {
-		res.Carriers = "holes"
+	orient, basis := o.orient, o.orientBasis
+	if orient == 0 {
+		orient, basis = 1, "the default convention R_xy = ρ_xy, B along +z"
+	}
+	res.Orientation, res.Convention = orient, basis
+	measured := "electrons"
+	if orient*s > 0 {
+		measured = "holes"
+	}
+	res.Carriers, res.MeasuredCarriers = measured, measured
+	if c := o.carrier; c == "electrons" || c == "holes" {
+		res.Carriers = c
+		if c != measured {
+			res.Warnings = append(res.Warnings, Warning{WarnCarrierSign, fmt.Sprintf(
+				"the Hall slope %.4g Ohm/T means %s by %s, but %s records %s: check the Hall probes' wiring and the magnet's polarity, or state the cooldown's convention (convention: {electrons: %s})",
+				s, measured, basis, o.carrierFrom, c, signWord(s))})
+		}
 	}
 
 	// Sanity checks.
@@ -120,10 +149,16 @@ func HallDensity(d *Dataset, xcol, ycol string, bmin, bmax float64, opts ...Opti
 		}
 	}
 	curved := len(res.Warnings) > 0 && res.Warnings[0].Code == WarnCurvature
+	span, oneSided := SweepSpan(xc.Values)
+	res.Sweep = span
 	if a := res.Intercept; !curved && math.Abs(a.Value) > 3*a.Uncertainty && math.Abs(a.Value) > 0.01*lin0 {
+		fix := "antisymmetrize over ±B"
+		if oneSided {
+			fix = "the sweep is one-sided (" + span + "): a sweep to the other polarity would let antisymmetrisation remove it"
+		}
 		res.Warnings = append(res.Warnings, Warning{WarnOffset, fmt.Sprintf(
-			"R_xy(0) = %.4g ± %.2g Ohm is %.1f %% of the Hall signal at %g T: misaligned Hall probes? antisymmetrize over ±B",
-			a.Value, a.Uncertainty, 100*math.Abs(a.Value)/lin0, bref)})
+			"R_xy(0) = %.4g ± %.2g Ohm is %.1f %% of the Hall signal at %g T: misaligned Hall probes? %s",
+			a.Value, a.Uncertainty, 100*math.Abs(a.Value)/lin0, bref, fix)})
 	}
 	if w := densityRange(n); w != nil {
 		res.Warnings = append(res.Warnings, *w)
@@ -176,4 +211,12 @@ func fieldSpan(xc *Column, bmin, bmax float64) string {
 		unit = "T (no unit given)"
 	}
 	return fmt.Sprintf(" (the %s column spans |B| = %.3g–%.3g T; its header unit is %s: is that right?)", xc.Name, lo, hi, unit)
+}
+
+// signWord is "positive" or "negative".
+func signWord(s float64) string {
+	if s > 0 {
+		return "positive"
+	}
+	return "negative"
 }

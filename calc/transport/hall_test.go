@@ -161,9 +161,9 @@ func TestHallErrors(t *testing.T) {
 	}{
 		{"too few points", "B", "Rxy", 0, 0.5, "cd12.csv: Hall fit of Rxy over 0 T ≤ |B| ≤ 0.5 T: 3 points; need at least 5: too few points", ErrTooFewPoints},
 		{"unknown column", "B", "Rxy2", 0, 2, `cd12.csv:2:1: no column "Rxy2"; available: B, Rxy, V`, ErrUnknownColumn},
-		{"wrong dimension", "B", "V", 0, 2, `cd12.csv:2:1: column "V" is in V, a voltage; expected a resistance (Ohm)`, ErrUnitDim},
-		{"field not a field", "Rxy", "Rxy", 0, 2, `cd12.csv:2:1: column "Rxy" is in Ohm, a resistance; expected a magnetic field (T)`, ErrUnitDim},
-		{"empty range", "B", "Rxy", 1, 1, "cd12.csv: Hall fit: field range 1 T to 1 T: expected 0 ≤ bmin < bmax: bad argument", ErrBadArgument},
+		{"wrong dimension", "B", "V", 0, 2, `cd12.csv:2:17: column "V" is in V, a voltage; expected a resistance (Ohm) (volts are not ohms: a layout's ` + "`derive:`" + ` turns it into R = V/I)`, ErrUnitDim},
+		{"field not a field", "Rxy", "Rxy", 0, 2, `cd12.csv:2:7: column "Rxy" is in Ohm, a resistance; expected a magnetic field (T)`, ErrUnitDim},
+		{"empty range", "B", "Rxy", 1, 1, "cd12.csv: Hall fit: field range 1 T to 1 T: expected a range lo .. hi with 0 ≤ lo < hi: bad argument", ErrBadArgument},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

@@ -349,7 +349,7 @@ func LKMassSweeps(sweeps []*Dataset, temps []float64, bmin, bmax float64, opts .
 		return nil, fmt.Errorf("LK mass: %d sweeps; need at least %d temperatures: %w", len(sweeps), MinLKPoints, ErrTooFewPoints)
 	}
 	if !(bmin > 0) || !(bmax > bmin) {
-		return nil, fmt.Errorf("LK mass: field range %g T to %g T: expected 0 < bmin < bmax: %w", bmin, bmax, ErrBadArgument)
+		return nil, fmt.Errorf("LK mass: field range %g T to %g T: expected a range lo .. hi with 0 < lo < hi: %w", bmin, bmax, ErrBadArgument)
 	}
 	if temps == nil {
 		temps = make([]float64, len(sweeps))

@@ -3,6 +3,8 @@ package transport
 import (
 	"fmt"
 	"math"
+	"slices"
+	"strconv"
 	"strings"
 
 	"cleave/calc/quantity"
@@ -23,6 +25,31 @@ type options struct {
 	maxYFrac float64 // out-of-phase tolerance
 
 	ext extOptions // options of the plateau, LK, Dingle and gate analyses (sanity.go)
+
+	orient      float64 // R_xy as measured = orient · ρ_xy (±1); 0 means +1, the default convention
+	orientBasis string  // what orient rests on, for messages
+	carrier     string  // the carrier type recorded for the sample ("electrons", "holes"), or ""
+	carrierFrom string  // where it is recorded, for messages
+}
+
+// WithOrientation says how the Hall column relates to ρ_xy = E_y/j_x (B along +z, current
+// along +x): R_xy as measured = o·ρ_xy with o = +1 or −1, from the wiring and the magnet's
+// polarity. basis says what o rests on ("current 1 → 5, R_xy = V3 − V7, …") for messages.
+// Without it HallDensity takes o = +1: a negative slope means electrons.
+func WithOrientation(o int, basis string) Option {
+	return func(opt *options) {
+		opt.orient, opt.orientBasis = 1, basis
+		if o < 0 {
+			opt.orient = -1
+		}
+	}
+}
+
+// WithCarrier gives the carrier type recorded for the sample ("electrons" or "holes", from
+// the wafer's record named by from): HallDensity reports it as the carriers and warns
+// (WarnCarrierSign) when the slope's sign, read with the orientation, says the other type.
+func WithCarrier(carrier, from string) Option {
+	return func(o *options) { o.carrier, o.carrierFrom = carrier, from }
 }
 
 func newOptions(opts []Option) options {
@@ -69,9 +96,10 @@ const (
 	WarnFewPoints    = "few-points"        // a fit with few points or few oscillations
 	WarnExtrapolated = "extrapolated"      // value at B = 0 extrapolated from one side
 	WarnDisagree     = "densities-disagree"
-	WarnWeakPeak     = "weak-peak" // SdH peak barely above the spectrum floor
-	WarnGap          = "data-gap"  // SdH window has a hole in the data wider than half a period
-	WarnHarmonic     = "harmonic"  // SdH spectrum has a strong peak at twice or half f_B: spin splitting?
+	WarnWeakPeak     = "weak-peak"    // SdH peak barely above the spectrum floor
+	WarnGap          = "data-gap"     // SdH window has a hole in the data wider than half a period
+	WarnHarmonic     = "harmonic"     // SdH spectrum has a strong peak at twice or half f_B: spin splitting?
+	WarnCarrierSign  = "carrier-sign" // the Hall slope's sign says the other carrier type than the sample's record
 )
 
 // Warning is a sanity check that failed; the result is still returned.
@@ -90,9 +118,22 @@ func column(d *Dataset, name string, wantDim quantity.Dim) (*Column, error) {
 	if err != nil {
 		return nil, err
 	}
-	if c.Unit != "" && c.Dim != wantDim {
-		return nil, &ParseError{File: d.Name, Line: max(d.HeaderLine, 1), Col: 1,
-			Msg: fmt.Sprintf("column %q is in %s, %s; expected %s", c.Name, c.Unit, dimKind(c.Dim), dimName(wantDim)), Err: ErrUnitDim}
+	at := func(format string, a ...any) error {
+		return &ParseError{File: d.Name, Line: max(d.HeaderLine, 1), Col: max(c.HeaderCol, 1), Msg: fmt.Sprintf(format, a...), Err: ErrUnitDim}
+	}
+	if c.IsText() {
+		return nil, at("column %q holds text (%s), not %s", c.Name, textSample(c.Text), dimName(wantDim))
+	}
+	if c.Dim != wantDim && (c.Unit != "" || c.Dim != (quantity.Dim{})) {
+		what := fmt.Sprintf("column %q is %s", c.Name, dimName(c.Dim))
+		if c.Unit != "" {
+			what = fmt.Sprintf("column %q is in %s, %s", c.Name, c.Unit, dimKind(c.Dim))
+		}
+		hint := ""
+		if c.Dim == DimVoltage && wantDim == DimResistance {
+			hint = " (volts are not ohms: a layout's `derive:` turns it into R = V/I)"
+		}
+		return nil, at("%s; expected %s%s", what, dimName(wantDim), hint)
 	}
 	return c, nil
 }
@@ -104,6 +145,9 @@ func column(d *Dataset, name string, wantDim quantity.Dim) (*Column, error) {
 // coupling or resistive contacts).
 func outOfPhase(d *Dataset, xc, yc *Column, lo, hi, frac float64) *Warning {
 	cands := []string{yc.Name + "_Y", yc.Name + "Y"}
+	if yc.Role != "" {
+		cands = append(cands, yc.Role+"_Y")
+	}
 	if n := yc.Name; len(n) > 2 && strings.EqualFold(n[len(n)-2:], "_X") {
 		cands = append(cands, n[:len(n)-1]+"Y")
 	}
@@ -138,4 +182,22 @@ func outOfPhase(d *Dataset, xc, yc *Column, lo, hi, frac float64) *Warning {
 	}
 	return &Warning{WarnOutOfPhase, fmt.Sprintf("out-of-phase column %q has RMS %.3g of the in-phase %q (tolerance %.2g; common practice): capacitive coupling or resistive contacts?",
 		ycol.Name, math.Sqrt(sy/sx), yc.Name, frac)}
+}
+
+// textSample shows the first distinct labels of a text column.
+func textSample(t []string) string {
+	var seen, out []string
+	for _, s := range t {
+		if s != "" && !slices.Contains(seen, s) {
+			seen = append(seen, s)
+			out = append(out, strconv.Quote(s))
+			if len(out) == 3 {
+				break
+			}
+		}
+	}
+	if len(out) == 0 {
+		return "empty labels"
+	}
+	return strings.Join(out, ", ")
 }

@@ -127,7 +127,7 @@ func TestReadErrors(t *testing.T) {
 		{"too many fields", "B,Rxx\n1,2\n1,2,3\n", "f.csv:3:5: too many fields: expected 2 (B, Rxx)", ErrColumnCount},
 		{"too few fields", "B,Rxx,Rxy\n1,2\n", "f.csv:2:4: too few fields: got 2, expected 3 (B, Rxx, Rxy)", ErrColumnCount},
 		{"bad number", "B\tRxx\n1\t2x\n", "f.csv:2:3: bad number \"2x\" in column \"Rxx\": expected a number", ErrNumber},
-		{"decimal comma", "B;Rxx\n0,5;2\n", "f.csv:2:1: bad number \"0,5\" in column \"B\": expected a number with a decimal point (decimal commas are not supported)", ErrNumber},
+		{"decimal comma", "B;Rxx\n0,5;2\n", "f.csv:2:1: bad number \"0,5\" in column \"B\": expected a number with a decimal point (a file with decimal commas needs a layout with `decimal: comma`)", ErrNumber},
 		{"infinity", "B,Rxx\n1, inf\n", "f.csv:2:4: bad number \"inf\" in column \"Rxx\": expected a finite number", ErrNumber},
 		{"duplicate column", "B,b\n", "f.csv:1:3: column \"b\" appears twice", ErrHeader},
 		{"empty column name", "B,,Rxx\n", "f.csv:1:3: empty column name: expected \"name\", \"name (unit)\" or \"name [unit]\"", ErrHeader},

@@ -42,6 +42,10 @@ type SdHResult struct {
 	DataHash   string
 	Points     int
 	Warnings   []Warning
+	// FieldOffset is the field offset the input had applied (Dataset.FieldOffset), T.
+	FieldOffset float64
+	// Sweep says which field polarities the data cover (SweepSpan).
+	Sweep string
 }
 
 // SdHDensity finds the SdH frequency of R_xx (column "Rxx" against "B" unless
@@ -92,7 +96,7 @@ type SdHResult struct {
 func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult, error) {
 	o := newOptions(opts)
 	if !(bmin > 0) || !(bmax > bmin) {
-		return nil, fmt.Errorf("%s: SdH analysis: field range %g T to %g T: expected 0 < bmin < bmax: %w", d.Name, bmin, bmax, ErrBadArgument)
+		return nil, fmt.Errorf("%s: SdH analysis: field range %g T to %g T: expected a range lo .. hi with 0 < lo < hi: %w", d.Name, bmin, bmax, ErrBadArgument)
 	}
 	if !(gs > 0) || !(o.gv > 0) {
 		return nil, fmt.Errorf("%s: SdH analysis: degeneracies g_s = %g, g_v = %g must be > 0: %w", d.Name, gs, o.gv, ErrBadArgument)
@@ -114,7 +118,8 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 		return nil, fmt.Errorf("%s: SdH analysis of %s over %g T ≤ |B| ≤ %g T: %d points; need at least %d%s: %w",
 			d.Name, yc.Name, bmin, bmax, N, minPoints, fieldSpan(xc, bmin, bmax), ErrTooFewPoints)
 	}
-	res := &SdHResult{GS: gs, GV: o.gv, XCol: xc.Name, YCol: yc.Name, BMin: bmin, BMax: bmax, DataHash: d.Hash, Points: N}
+	res := &SdHResult{GS: gs, GV: o.gv, XCol: xc.Name, YCol: yc.Name, BMin: bmin, BMax: bmax, DataHash: d.Hash, Points: N, FieldOffset: d.FieldOffset}
+	res.Sweep, _ = SweepSpan(xc.Values)
 	U := u1 - u0
 
 	// 1: the points, or their averages in bins of 1/B. The bins start coarse
@@ -191,7 +196,7 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 	fpk := sp.fpk
 	res.FFTFrequency = fpk
 	if sp.kp == sp.kmin || sp.kp == sp.kmax {
-		return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the spectrum peaks at the edge of the searched range %.3g–%.3g T, so no oscillation stands out from the background (%s); start the window where the oscillations are visible (raise bmin), widen it if it holds few periods, or raise the background degree (WithBackground): %w",
+		return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the spectrum peaks at the edge of the searched range %.3g–%.3g T, so no oscillation stands out from the background (%s); start the field range where the oscillations are visible (a higher lower end), widen it if it holds few periods, or change the degree of the background polynomial (background = 0 to 3 in sdh_density, 3 by default): %w",
 			d.Name, yc.Name, bmin, bmax, res.FMin, res.FMax, edgeHint(sp), ErrNoOscillation)
 	}
 	med := median(res.Spectrum.Amp[sp.kmin : sp.kmax+1])
@@ -213,7 +218,7 @@ func SdHDensity(d *Dataset, bmin, bmax, gs float64, opts ...Option) (*SdHResult,
 			return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the least-squares refinement moved from the spectral peak at %.4g T to %.4g T, and %s: %w",
 				d.Name, yc.Name, bmin, bmax, fpk, f, harmonic.Msg, ErrNoOscillation)
 		}
-		return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the least-squares refinement moved from the spectral peak at %.4g T to %.4g T, more than the spectral resolution 1/Δ(1/B) = %.3g T: the background or a second frequency dominates the fit; narrow the field window to where one oscillation is clear, or change the background degree (WithBackground): %w",
+		return nil, fmt.Errorf("%s: SdH analysis of %s over %g–%g T: the least-squares refinement moved from the spectral peak at %.4g T to %.4g T, more than the spectral resolution 1/Δ(1/B) = %.3g T: the background or a second frequency dominates the fit; narrow the field window to where one oscillation is clear, or change the degree of the background polynomial (background = 0 to 3 in sdh_density): %w",
 			d.Name, yc.Name, bmin, bmax, fpk, f, 1/U, ErrNoOscillation)
 	}
 	res.Frequency = Estimate{f, fsig}
@@ -489,10 +494,49 @@ func (s *sinefit) fit(f0 float64) (float64, float64, bool) {
 	return f, f * math.Sqrt(cur/dof*inv.At(envTerms, envTerms)), true
 }
 
+// median returns the element at position len(x)/2 of x sorted (the upper median), by
+// quickselect on a copy: linear time on average, x untouched.
 func median(x []float64) float64 {
 	s := slices.Clone(x)
-	slices.Sort(s)
-	return s[len(s)/2]
+	k := len(s) / 2
+	lo, hi := 0, len(s)-1
+	for lo < hi {
+		// Median of three as the pivot, then a Hoare partition.
+		mid := lo + (hi-lo)/2
+		if s[mid] < s[lo] {
+			s[mid], s[lo] = s[lo], s[mid]
+		}
+		if s[hi] < s[lo] {
+			s[hi], s[lo] = s[lo], s[hi]
+		}
+		if s[hi] < s[mid] {
+			s[hi], s[mid] = s[mid], s[hi]
+		}
+		pivot := s[mid]
+		i, j := lo, hi
+		for i <= j {
+			for s[i] < pivot {
+				i++
+			}
+			for s[j] > pivot {
+				j--
+			}
+			if i <= j {
+				s[i], s[j] = s[j], s[i]
+				i++
+				j--
+			}
+		}
+		switch {
+		case k <= j:
+			hi = j
+		case k >= i:
+			lo = i
+		default:
+			return s[k]
+		}
+	}
+	return s[k]
 }
 
 // Binning of long sweeps in SdHDensity (see binSweep).

@@ -77,7 +77,7 @@ func TestSdHEdgeIsError(t *testing.T) {
 			t.Errorf("%g–%g T: result %+v, error %v; want ErrNoOscillation", w[0], w[1], r, err)
 			continue
 		}
-		for _, s := range []string{"edge of the searched range", "raise bmin", "WithBackground"} {
+		for _, s := range []string{"edge of the searched range", "a higher lower end", "background = 0 to 3 in sdh_density"} {
 			if !strings.Contains(err.Error(), s) {
 				t.Errorf("%g–%g T: error %q does not say %q", w[0], w[1], err, s)
 			}

@@ -120,7 +120,7 @@ func TestSdHErrors(t *testing.T) {
 		sentinel   error
 	}{
 		{"too few points", 0.3, 1, "synthetic: SdH analysis of Rxx over 0.3 T ≤ |B| ≤ 1 T: 28 points; need at least 32: too few points", ErrTooFewPoints},
-		{"zero bmin", 0, 1, "synthetic: SdH analysis: field range 0 T to 1 T: expected 0 < bmin < bmax: bad argument", ErrBadArgument},
+		{"zero bmin", 0, 1, "synthetic: SdH analysis: field range 0 T to 1 T: expected a range lo .. hi with 0 < lo < hi: bad argument", ErrBadArgument},
 	}
 	for _, tc := range tests {
 		_, err := SdHDensity(d, tc.bmin, tc.bmax, 2)

@@ -53,6 +53,15 @@ type SweepParams struct {
 	Plateaus   bool             // quantum Hall model at high field (see Sweep)
 	Pickup     float64          // fraction of R_xx added to R_xy (probe misalignment)
 	OutOfPhase float64          // if > 0, add lock-in Y columns Rxx_Y, Rxy_Y = OutOfPhase·|R| + noise
+
+	// FieldOffset is the true field when the magnet reads zero (a remanent field, T): the
+	// B column records B_true − FieldOffset.
+	FieldOffset float64
+	// Lag is how far the field reading trails the true field while sweeping (T): the B
+	// column records B_true − Lag on a rising sweep and B_true + Lag on a falling one.
+	Lag float64
+	// Direction adds a text column "dir" with "up" or "down" for each row.
+	Direction bool
 }
 
 func (p *SweepParams) defaults() SweepParams {
@@ -235,8 +244,26 @@ func Sweep(p SweepParams) (*Dataset, error) {
 		yxx = make([]float64, total)
 		yxy = make([]float64, total)
 	}
+	var dir []string
+	if q.Direction {
+		dir = make([]string, total)
+	}
+	rising := q.BEnd > q.BStart
 	for i, b := range B {
-		px, py := q.Resistivity(b)
+		up := rising == (i < q.Points)
+		if dir != nil {
+			dir[i] = "down"
+			if up {
+				dir[i] = "up"
+			}
+		}
+		bt := b + q.FieldOffset
+		if up {
+			bt += q.Lag
+		} else {
+			bt -= q.Lag
+		}
+		px, py := q.Resistivity(bt)
 		rx := px * q.Squares
 		ry := py + q.Pickup*rx
 		rxx[i] = rx + q.Noise*rng.NormFloat64()
@@ -249,15 +276,22 @@ func Sweep(p SweepParams) (*Dataset, error) {
 	}
 	d := &Dataset{Name: "synthetic", Meta: q.meta()}
 	d.Columns = []Column{
-		{Name: "B", Unit: "T", Dim: DimField, Values: B},
-		{Name: "Rxx", Unit: "Ohm", Dim: DimResistance, Values: rxx},
-		{Name: "Rxy", Unit: "Ohm", Dim: DimResistance, Values: rxy},
-		{Name: "T", Unit: "K", Dim: DimTemperature, Values: tt},
+		{Name: "B", Unit: "T", Dim: DimField, Values: B, Role: RoleField},
+		{Name: "Rxx", Unit: "Ohm", Dim: DimResistance, Values: rxx, Role: RoleRxx},
+		{Name: "Rxy", Unit: "Ohm", Dim: DimResistance, Values: rxy, Role: RoleRxy},
+		{Name: "T", Unit: "K", Dim: DimTemperature, Values: tt, Role: RoleTemperature},
 	}
 	if yxx != nil {
 		d.Columns = append(d.Columns,
-			Column{Name: "Rxx_Y", Unit: "Ohm", Dim: DimResistance, Values: yxx},
-			Column{Name: "Rxy_Y", Unit: "Ohm", Dim: DimResistance, Values: yxy})
+			Column{Name: "Rxx_Y", Unit: "Ohm", Dim: DimResistance, Values: yxx, Role: RoleRxxY},
+			Column{Name: "Rxy_Y", Unit: "Ohm", Dim: DimResistance, Values: yxy, Role: RoleRxyY})
+	}
+	if dir != nil {
+		nan := make([]float64, total)
+		for i := range nan {
+			nan[i] = math.NaN()
+		}
+		d.Columns = append(d.Columns, Column{Name: "dir", Role: RoleDirection, Values: nan, Text: dir})
 	}
 	h := sha256.New()
 	if err := WriteCSV(h, d); err != nil {
@@ -294,6 +328,12 @@ func (q *SweepParams) meta() []KV {
 	}
 	if q.Pickup != 0 {
 		m = append(m, KV{"pickup", g(q.Pickup)})
+	}
+	if q.FieldOffset != 0 {
+		m = append(m, KV{"field offset", g(q.FieldOffset) + " T"})
+	}
+	if q.Lag != 0 {
+		m = append(m, KV{"field lag", g(q.Lag) + " T"})
 	}
 	return m
 }

@@ -31,13 +31,15 @@ func WriteCSV(w io.Writer, d *Dataset) error {
 		}
 		bw.WriteString(c.Name)
 		scales[i] = 1
-		if c.Unit != "" {
+		if c.Unit != "" && c.Text == nil {
 			s, _, err := parseUnit(c.Unit)
 			if err != nil {
 				return fmt.Errorf("write %s: column %q: %w", d.Name, c.Name, err)
 			}
 			scales[i] = s
-			fmt.Fprintf(bw, " (%s)", c.Unit)
+			if c.Stem == "" { // "field_T" carries its unit in its name
+				fmt.Fprintf(bw, " (%s)", c.Unit)
+			}
 		}
 	}
 	bw.WriteByte('\n')
@@ -53,6 +55,10 @@ func WriteCSV(w io.Writer, d *Dataset) error {
 		for i := range d.Columns {
 			if i > 0 {
 				buf = append(buf, ',')
+			}
+			if t := d.Columns[i].Text; t != nil {
+				buf = append(buf, textField(t[r])...)
+				continue
 			}
 			v := d.Columns[i].Values[r]
 			if math.IsNaN(v) {
@@ -70,4 +76,16 @@ func WriteCSV(w io.Writer, d *Dataset) error {
 		}
 	}
 	return bw.Flush()
+}
+
+// textField is a label as a CSV field: commas, quotes and line breaks become blanks.
+// A text column reads back as text when one of its labels has a letter (see Read).
+func textField(s string) string {
+	return strings.Map(func(r rune) rune {
+		switch r {
+		case ',', '\n', '\r', '"':
+			return ' '
+		}
+		return r
+	}, s)
 }

@@ -6,8 +6,6 @@ import (
 	"strings"
 
 	"cleave/calc"
-	"cleave/calc/physics"
-	"cleave/calc/quantity"
 	"cleave/notebook"
 
 	"go.yaml.in/yaml/v3"
@@ -98,7 +96,7 @@ func buildGeometry(src geomSources) calc.Value {
 			}
 		}
 	}
-	for _, f := range []string{"width", "length", "probes"} {
+	for _, f := range []string{"shape", "width", "length", "probes", "sections", "contacts", "inner_radius", "outer_radius"} {
 		pick(f)
 	}
 	return g
@@ -128,57 +126,6 @@ func geometrySources(v *view, e *notebook.Entry) geomSources {
 	return g
 }
 
-// hallBar builds the physics model of the geometry record.
-func hallBar(g *calc.Record) (physics.HallBar, error) {
-	var hb physics.HallBar
-	w, ok := g.Field("width")
-	if !ok {
-		return hb, errors.New("geometry has no width (set mask.width or device.as_built.width)")
-	}
-	wq, ok := w.(calc.Quantity)
-	if !ok || wq.Q.Dim() != quantity.Length {
-		return hb, fmt.Errorf("geometry width: expected a length such as `100 um`, got %s", calc.Display(w))
-	}
-	hb.Width = wq.Q
-	pv, ok := g.Field("probes")
-	if !ok {
-		return hb, errors.New("geometry has no probes (set mask.probes or device.as_built.probes)")
-	}
-	list, ok := pv.(calc.List)
-	if !ok {
-		return hb, errors.New("geometry probes: expected a list of {name, position, arm_width, side}")
-	}
-	for i, it := range list {
-		rec, ok := it.(*calc.Record)
-		if !ok {
-			return hb, fmt.Errorf("probe %d: expected a map with name and position", i+1)
-		}
-		var p physics.Probe
-		if v, ok := rec.Field("name"); ok {
-			p.Name = displayName(v)
-		}
-		if p.Name == "" {
-			return hb, fmt.Errorf("probe %d: no name", i+1)
-		}
-		pos, ok := rec.Field("position")
-		pq, isQ := pos.(calc.Quantity)
-		if !ok || !isQ || pq.Q.Dim() != quantity.Length {
-			return hb, fmt.Errorf("probe %q: position must be a length such as `250 um`", p.Name)
-		}
-		p.Position = pq.Q
-		if v, ok := rec.Field("arm_width"); ok {
-			if aq, ok := v.(calc.Quantity); ok && aq.Q.Dim() == quantity.Length {
-				p.ArmWidth = aq.Q
-			}
-		}
-		if v, ok := rec.Field("side"); ok {
-			p.Side = displayName(v)
-		}
-		hb.Probes = append(hb.Probes, p)
-	}
-	return hb, nil
-}
-
 // displayName reads a probe name or side written either as text or as a bare number.
 func displayName(v calc.Value) string {
 	switch x := v.(type) {
@@ -194,23 +141,6 @@ func displayName(v calc.Value) string {
 
 // register adds the entry-bound functions to env.
 func (r *resolver) register(env *calc.Env) {
-	env.Register(calc.Func{
-		Name:   "squares",
-		Doc:    "number of squares between probes a and b of the entry's Hall-bar geometry: centre-to-centre spacing over the channel width (as-built where recorded)",
-		Params: []calc.Param{{Name: "a"}, {Name: "b"}},
-		Call: func(e *calc.Env, args []calc.Value) (calc.Value, error) {
-			hb, err := r.hallBarFor(e)
-			if err != nil {
-				return nil, err
-			}
-			a, b := displayName(args[0]), displayName(args[1])
-			q, err := hb.Squares(a, b)
-			if err != nil {
-				return nil, err
-			}
-			return calc.Q(q), nil
-		},
-	})
 	env.Register(calc.Func{
 		Name:   "scorecard",
 		Doc:    "what the cooldowns below this entry measured: density (the first of the names in `density` a cooldown defines) and mobility, dark and illuminated, with their temperatures",
@@ -232,37 +162,4 @@ func (r *resolver) register(env *calc.Env) {
 			return entryRecord(en, string(en.Kind)), nil
 		},
 	})
-	env.Register(calc.Func{
-		Name: "hall_pairs",
-		Doc:  "the probe pairs facing each other across the Hall bar",
-		Call: func(e *calc.Env, _ []calc.Value) (calc.Value, error) {
-			hb, err := r.hallBarFor(e)
-			if err != nil {
-				return nil, err
-			}
-			var l calc.List
-			for _, p := range hb.HallPairs() {
-				l = append(l, calc.List{calc.String(p[0]), calc.String(p[1])})
-			}
-			return l, nil
-		},
-	})
-}
-
-// hallBarFor resolves the geometry through the environment, so that its fields are
-// recorded as dependencies of the line.
-func (r *resolver) hallBarFor(e *calc.Env) (physics.HallBar, error) {
-	v, err := e.Eval("geometry")
-	if err != nil {
-		return physics.HallBar{}, errors.New("no Hall-bar geometry: this entry has no device or mask in its lineage")
-	}
-	g, ok := v.(*calc.Record)
-	if !ok {
-		return physics.HallBar{}, errors.New("geometry is not a record")
-	}
-	// Touch the fields through the environment so they count as dependencies.
-	for _, f := range []string{"width", "probes"} {
-		_, _ = e.Eval("geometry." + f)
-	}
-	return hallBar(g)
 }
