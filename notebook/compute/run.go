@@ -25,7 +25,7 @@ import (
 // Version is mixed into every cache key (with a hash of the executable, see EngineSalt), so
 // a new engine never reuses old results.
 // Bump it whenever a formula, a display rule or a function changes.
-const Version = "cleave-engine 3"
+const Version = "cleave-engine 4"
 
 // Options tunes Run.
 type Options struct {
