@@ -42,7 +42,7 @@ func init() {
 		{"tree", "[ID]", "print the lineage of one sample (ancestors and descendants) or of the whole notebook", runTree},
 		{"validate", "", "check every entry: ids, links, kinds, front matter, layer tables, units", runValidate},
 		{"calc", "[PATH...]", "recompute calc blocks and write their results", runCalc},
-		{"check", "[PATH...]", "recompute without writing; list stale results and errors as path:line: old → new", runCheck},
+		{"check", "[--staged|--rev REV] [PATH...]", "recompute without writing; list stale results and errors as path:line: old → new (the work tree, the index or a commit)", runCheck},
 		{"eval", "[--in FILE] [--json|--csv] EXPR", "evaluate one expression, in the context of an entry with --in", runEval},
 		{"demo", "[DIR]", "write the demo notebook (to DIR or a new temp folder) and run everything on it", runDemo},
 		{"version", "", "print the version", runVersion},
@@ -314,9 +314,21 @@ func runCheck(c *cli, args []string) int { return c.recompute("check", args, fal
 func (c *cli) recompute(name string, args []string, write bool) int {
 	fs := c.flags(name)
 	noCache := fs.Bool("no-cache", false, "evaluate everything, ignoring cached results")
+	var staged bool
+	var rev string
+	if !write {
+		fs.BoolVar(&staged, "staged", false, "check the content staged in the git index (what the next commit holds)")
+		fs.StringVar(&rev, "rev", "", "check the notebook as commit `REV` holds it")
+	}
 	pos, err := parse(fs, args)
 	if err != nil {
 		return c.usageErr(name, flagMsg(err, ""))
+	}
+	if staged || rev != "" {
+		if staged && rev != "" {
+			return c.usageErr(name, "--staged and --rev exclude each other")
+		}
+		return c.checkGit(pos, staged, rev)
 	}
 	wt, err := c.workTree()
 	if err != nil {
@@ -365,6 +377,45 @@ func (c *cli) recompute(name string, args []string, write bool) int {
 	fmt.Fprintf(c.err, "cleave %s: %d file(s) with calc blocks, %d line(s) evaluated, %d from cache, %d problem(s)\n",
 		name, len(res.Files), res.Evaluated, res.CacheHits, bad)
 	if bad > 0 {
+		return 1
+	}
+	return 0
+}
+
+// checkGit is `cleave check --staged` and `cleave check --rev REV`: the engine over the index
+// or a commit, nothing written.
+func (c *cli) checkGit(pos []string, staged bool, rev string) int {
+	repo, err := hooks.Locate(c.path("."))
+	if err != nil {
+		return c.fail("check", err)
+	}
+	paths := make([]string, len(pos))
+	for i, p := range pos {
+		paths[i] = c.path(p)
+	}
+	rel, err := repo.Rel(paths)
+	if err != nil {
+		return c.fail("check", err)
+	}
+	var rep *compute.Report
+	what := "the index"
+	if staged {
+		rep, err = repo.CheckStaged(rel)
+	} else {
+		var id string
+		rep, id, err = repo.CheckRev(rev, rel)
+		what = "commit " + id[:min(len(id), 12)]
+	}
+	if err != nil {
+		return c.fail("check", err)
+	}
+	lines := rep.Lines()
+	for _, l := range lines {
+		fmt.Fprintln(c.out, l)
+	}
+	fmt.Fprintf(c.err, "cleave check: %s: %d file(s) with calc blocks, %d line(s) evaluated, %d from cache, %d problem(s)\n",
+		what, len(rep.Files), rep.Evaluated, rep.CacheHits, len(lines))
+	if !rep.OK() {
 		return 1
 	}
 	return 0

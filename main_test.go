@@ -27,6 +27,9 @@ var demoDir, scratch string
 
 func TestMain(m *testing.M) {
 	flag.Parse()
+	// git reads no configuration of the machine or the user in these tests.
+	os.Setenv("GIT_CONFIG_NOSYSTEM", "1")
+	os.Setenv("GIT_CONFIG_GLOBAL", os.DevNull)
 	var err error
 	scratch, err = os.MkdirTemp("", "cleave-test-")
 	if err != nil {

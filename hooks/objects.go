@@ -1,0 +1,235 @@
+package hooks
+
+import (
+	"bytes"
+	"errors"
+	"fmt"
+	"io"
+	"io/fs"
+	"path"
+	"slices"
+	"strings"
+	"sync"
+
+	"github.com/go-git/go-billy/v5"
+	"github.com/go-git/go-billy/v5/osfs"
+	"github.com/go-git/go-git/v5/plumbing"
+	"github.com/go-git/go-git/v5/plumbing/cache"
+	"github.com/go-git/go-git/v5/plumbing/filemode"
+	"github.com/go-git/go-git/v5/plumbing/object"
+	"github.com/go-git/go-git/v5/storage/filesystem"
+	"github.com/go-git/go-git/v5/storage/filesystem/dotgit"
+)
+
+// ErrObjectFormat is returned by OpenObjects for a repository whose objects go-git cannot read
+// (SHA-256 object names).
+var ErrObjectFormat = errors.New("go-git reads only repositories with SHA-1 object names")
+
+// Objects reads the commits, trees and blobs of a repository with go-git. Revisions are
+// resolved by the git binary (which knows every form a user may type); refs, the index and
+// everything that writes go through git as well.
+//
+// The storage is opened directly on the git directories that git reported, so settings that
+// only matter to commands which write or to the configuration (extensions.worktreeConfig,
+// preciousObjects, partialClone) do not stop it; a blob missing from a partial clone is
+// reported when read. Methods are safe for concurrent use (go-git is not).
+type Objects struct {
+	repo *Repo
+	mu   sync.Mutex
+	st   *filesystem.Storage
+}
+
+// OpenObjects opens the object store of r for reading.
+func (r *Repo) OpenObjects() (*Objects, error) {
+	format, err := r.git().line("rev-parse", "--show-object-format")
+	if err == nil && format != "" && format != "sha1" {
+		return nil, fmt.Errorf("%s: %w (this one uses %s)", r.Top, ErrObjectFormat, format)
+	}
+	var dot billy.Filesystem = osfs.New(r.GitDir)
+	if r.CommonDir != r.GitDir {
+		dot = dotgit.NewRepositoryFilesystem(dot, osfs.New(r.CommonDir))
+	}
+	// A larger object cache than go-git's default pays off on long history walks.
+	st := filesystem.NewStorageWithOptions(dot, cache.NewObjectLRU(256*cache.MiByte), filesystem.Options{KeepDescriptors: true})
+	return &Objects{repo: r, st: st}, nil
+}
+
+// Close releases the pack files held open.
+func (o *Objects) Close() error { return o.st.Close() }
+
+// Resolve turns a revision (a branch, a tag, HEAD~3, an abbreviated id…) into a commit id,
+// with the git binary.
+func (r *Repo) Resolve(rev string) (plumbing.Hash, error) {
+	if strings.HasPrefix(rev, "-") {
+		return plumbing.ZeroHash, fmt.Errorf("%q: not a revision", rev)
+	}
+	out, err := r.git().line("rev-parse", "--verify", "--quiet", "--end-of-options", rev+"^{commit}")
+	if err != nil || !plumbing.IsHash(out) {
+		return plumbing.ZeroHash, fmt.Errorf("%q: no such commit in %s", rev, r.Top)
+	}
+	return plumbing.NewHash(out), nil
+}
+
+// Commit reads a commit.
+func (o *Objects) Commit(h plumbing.Hash) (*object.Commit, error) {
+	o.mu.Lock()
+	defer o.mu.Unlock()
+	c, err := object.GetCommit(o.st, h)
+	if err != nil {
+		return nil, fmt.Errorf("reading commit %s: %w", h, err)
+	}
+	return c, nil
+}
+
+// Blob reads a blob's content.
+func (o *Objects) Blob(h plumbing.Hash) ([]byte, error) {
+	o.mu.Lock()
+	defer o.mu.Unlock()
+	return o.blobLocked(h)
+}
+
+func (o *Objects) blobLocked(h plumbing.Hash) ([]byte, error) {
+	obj, err := o.st.EncodedObject(plumbing.BlobObject, h)
+	if err != nil {
+		return nil, fmt.Errorf("reading blob %s: %w", h, err)
+	}
+	rd, err := obj.Reader()
+	if err != nil {
+		return nil, err
+	}
+	defer rd.Close()
+	b := make([]byte, 0, obj.Size())
+	buf := bytes.NewBuffer(b)
+	if _, err := io.Copy(buf, rd); err != nil {
+		return nil, err
+	}
+	return buf.Bytes(), nil
+}
+
+// TreeFS is the tree of a commit as a file system (see gitFS).
+func (o *Objects) TreeFS(commit plumbing.Hash) (fs.FS, error) {
+	c, err := o.Commit(commit)
+	if err != nil {
+		return nil, err
+	}
+	return newGitFS(&treeDirs{o: o, root: c.TreeHash, dirs: map[string][]treeEntry{}}), nil
+}
+
+// treeDirs is a treeSource over a go-git tree: each folder's tree object is read when first
+// listed.
+type treeDirs struct {
+	o    *Objects
+	root plumbing.Hash
+
+	mu   sync.Mutex
+	dirs map[string][]treeEntry
+}
+
+func (t *treeDirs) list(dir string) ([]treeEntry, error) {
+	t.mu.Lock()
+	defer t.mu.Unlock()
+	return t.listLocked(dir)
+}
+
+func (t *treeDirs) listLocked(dir string) ([]treeEntry, error) {
+	if e, ok := t.dirs[dir]; ok {
+		return e, nil
+	}
+	id := t.root
+	if dir != "." {
+		parent, base := path.Split(dir)
+		entries, err := t.listLocked(path.Clean(parent))
+		if err != nil {
+			return nil, err
+		}
+		i, ok := slices.BinarySearchFunc(entries, base, func(e treeEntry, n string) int { return strings.Compare(e.name, n) })
+		if !ok || !entries[i].mode.IsDir() {
+			return nil, fs.ErrNotExist
+		}
+		id = plumbing.NewHash(entries[i].id)
+	}
+	t.o.mu.Lock()
+	tree, err := object.GetTree(t.o.st, id)
+	t.o.mu.Unlock()
+	if err != nil {
+		return nil, fmt.Errorf("reading tree %s: %w", id, err)
+	}
+	out := make([]treeEntry, 0, len(tree.Entries))
+	for _, e := range tree.Entries {
+		var m fs.FileMode
+		switch e.Mode {
+		case filemode.Regular, filemode.Deprecated:
+			m = 0o644
+		case filemode.Executable:
+			m = 0o755
+		case filemode.Symlink:
+			m = fs.ModeSymlink | 0o777
+		case filemode.Dir:
+			m = fs.ModeDir | 0o755
+		default:
+			continue // a submodule
+		}
+		out = append(out, treeEntry{name: e.Name, mode: m, id: e.Hash.String()})
+	}
+	slices.SortFunc(out, func(a, b treeEntry) int { return strings.Compare(a.name, b.name) })
+	t.dirs[dir] = out
+	return out, nil
+}
+
+func (t *treeDirs) blob(id string) ([]byte, error) { return t.o.Blob(plumbing.NewHash(id)) }
+
+// RevFS returns the tree of the commit rev names as a file system, read with go-git, or, for a
+// repository go-git cannot read (SHA-256 object names), with `git ls-tree` and
+// `git cat-file`. close releases what it holds.
+func (r *Repo) RevFS(rev string) (fsys fs.FS, commit string, close func() error, err error) {
+	objs, err := r.OpenObjects()
+	if errors.Is(err, ErrObjectFormat) {
+		return r.revFSWithGit(rev)
+	}
+	if err != nil {
+		return nil, "", nil, err
+	}
+	h, err := r.Resolve(rev)
+	if err != nil {
+		objs.Close()
+		return nil, "", nil, err
+	}
+	t, err := objs.TreeFS(h)
+	if err != nil {
+		objs.Close()
+		return nil, "", nil, err
+	}
+	return t, h.String(), objs.Close, nil
+}
+
+// revFSWithGit lists a commit's tree with `git ls-tree -r` and reads blobs with
+// `git cat-file --batch`.
+func (r *Repo) revFSWithGit(rev string) (fs.FS, string, func() error, error) {
+	if strings.HasPrefix(rev, "-") {
+		return nil, "", nil, fmt.Errorf("%q: not a revision", rev)
+	}
+	id, err := r.git().line("rev-parse", "--verify", "--quiet", "--end-of-options", rev+"^{commit}")
+	if err != nil || id == "" {
+		return nil, "", nil, fmt.Errorf("%q: no such commit in %s", rev, r.Top)
+	}
+	out, err := r.git().run(nil, "ls-tree", "-r", "-z", "--full-tree", id)
+	if err != nil {
+		return nil, "", nil, err
+	}
+	files := map[string]treeEntry{}
+	for _, rec := range bytes.Split(out, []byte{0}) {
+		meta, p, ok := strings.Cut(string(rec), "\t")
+		f := strings.Fields(meta)
+		if !ok || len(f) != 3 {
+			continue
+		}
+		if m, ok := gitMode(f[0]); ok && !m.IsDir() {
+			files[p] = treeEntry{mode: m, id: f[2]}
+		}
+	}
+	cat, err := startCatFile(r.git())
+	if err != nil {
+		return nil, "", nil, err
+	}
+	return newGitFS(newListing(files, cat.read)), id, cat.close, nil
+}
