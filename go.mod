@@ -9,6 +9,7 @@ require (
 	go.yaml.in/yaml/v3 v3.0.6
 	gonum.org/v1/gonum v0.17.0
 	gonum.org/v1/plot v0.17.0
+	golang.org/x/sys v0.47.0
 )
 
 require (
@@ -35,7 +36,6 @@ require (
 	golang.org/x/crypto v0.56.0 // indirect
 	golang.org/x/image v0.30.0 // indirect
 	golang.org/x/net v0.57.0 // indirect
-	golang.org/x/sys v0.47.0 // indirect
 	golang.org/x/text v0.41.0 // indirect
 	golang.org/x/tools v0.48.0 // indirect
 	gopkg.in/warnings.v0 v0.1.2 // indirect

@@ -14,7 +14,9 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"sort"
+	"strconv"
 	"strings"
 	"time"
 	"unicode/utf8"
@@ -44,6 +46,7 @@ func init() {
 		{"calc", "[PATH...]", "recompute calc blocks and write their results", runCalc},
 		{"check", "[--staged|--rev REV] [PATH...]", "recompute without writing; list stale results and errors as path:line: old → new (the work tree, the index or a commit)", runCheck},
 		{"eval", "[--in FILE] [--json|--csv] EXPR", "evaluate one expression, in the context of an entry with --in", runEval},
+		{"hooks", "install|uninstall|pre-commit [--framework]|pre-merge-commit|merge O A B L P", "git hooks that recompute staged results, and the merge driver for result regions", runHooks},
 		{"demo", "[DIR]", "write the demo notebook (to DIR or a new temp folder) and run everything on it", runDemo},
 		{"version", "", "print the version", runVersion},
 	}
@@ -470,6 +473,144 @@ func runEval(c *cli, args []string) int {
 		return 0
 	}
 	fmt.Fprintln(c.out, compute.ResultOf(v).Display)
+	return 0
+}
+
+func runHooks(c *cli, args []string) int {
+	if len(args) == 0 {
+		return c.usageErr("hooks", "need install, uninstall, pre-commit or merge")
+	}
+	sub, rest := args[0], args[1:]
+	switch sub {
+	case "install", "uninstall":
+		pos, err := parse(c.flags("hooks"), rest)
+		if err != nil || len(pos) > 0 {
+			return c.usageErr("hooks", flagMsg(err, sub+" takes no arguments"))
+		}
+		var done []string
+		if sub == "install" {
+			bin, _ := os.Executable()
+			done, err = hooks.Install(c.path("."), bin)
+		} else {
+			done, err = hooks.Uninstall(c.path("."))
+		}
+		for _, d := range done {
+			fmt.Fprintln(c.out, d)
+		}
+		if err != nil {
+			return c.fail("hooks "+sub, err)
+		}
+		return 0
+	case "pre-commit", "pre-merge-commit":
+		fs := c.flags("hooks")
+		framework := fs.Bool("framework", false, "leave the index alone: write results into the work tree and fail (for the general-purpose hook framework)")
+		pos, err := parse(fs, rest)
+		if err != nil || len(pos) > 0 {
+			return c.usageErr("hooks", flagMsg(err, sub+" takes no arguments"))
+		}
+		mode := hooks.StageResults
+		switch {
+		case *framework:
+			mode = hooks.FixWorkTree
+		case sub == "pre-merge-commit":
+			mode = hooks.StageAndStop
+		}
+		h, err := hooks.PreCommit(c.path("."), mode)
+		if err != nil {
+			return c.fail("pre-commit", err)
+		}
+		return c.hookReport("cleave "+sub, h, mode)
+	case "merge":
+		return c.mergeDriver(rest)
+	}
+	return c.usageErr("hooks", fmt.Sprintf("unknown subcommand %q", sub))
+}
+
+// mergeDriver is `cleave hooks merge O A B L P`, run by git as the merge driver: exit 0 for a
+// clean merge, 1 when conflicts are left with markers, and above 128 when nothing could be
+// written (git then stops the merge rather than take the current side as merged).
+func (c *cli) mergeDriver(args []string) int {
+	if len(args) != 5 {
+		return c.usageErr("hooks", "merge needs the ancestor, current and other files, the marker size and the path (%O %A %B %L %P)")
+	}
+	size, err := strconv.Atoi(args[3])
+	if err != nil || size <= 0 {
+		return c.usageErr("hooks", fmt.Sprintf("merge: marker size %q is not a positive number", args[3]))
+	}
+	root, err := c.root()
+	if err != nil {
+		root = "" // no work tree (a bare repository): nothing to recompute in
+	}
+	res, err := hooks.MergeDriver(root, args[0], args[1], args[2], size, args[4])
+	if err != nil {
+		fmt.Fprintf(c.err, "cleave merge driver: %s: %v\n", args[4], err)
+		return 255
+	}
+	switch {
+	case res.Conflicts > 0:
+		fmt.Fprintf(c.err, "cleave merge driver: %s: %d conflict(s) left with markers", args[4], res.Conflicts)
+		if res.Resolved > 0 {
+			fmt.Fprintf(c.err, "; %d conflict(s) inside result regions resolved (recompute after resolving the rest)", res.Resolved)
+		}
+		fmt.Fprintln(c.err)
+		return 1
+	case res.Recomputed:
+		fmt.Fprintf(c.err, "cleave merge driver: %s: %d conflict(s) inside result regions resolved by recomputing the merged file\n", args[4], res.Resolved)
+	case res.Resolved > 0:
+		fmt.Fprintf(c.err, "cleave merge driver: %s: %d conflict(s) inside result regions resolved with the current side's results (%s)\n", args[4], res.Resolved, res.Note)
+	}
+	return 0
+}
+
+// hookReport prints what the pre-commit hook found and did, and returns the exit code that lets
+// the commit go on (0) or stops it (1).
+func (c *cli) hookReport(name string, h *hooks.HookReport, mode hooks.HookMode) int {
+	if len(h.Unmerged) > 0 {
+		for _, p := range h.Unmerged {
+			fmt.Fprintf(c.out, "%s:1:1: unmerged: resolve the conflict and git add the file\n", p)
+		}
+		fmt.Fprintf(c.err, "%s: resolve the conflicts first; nothing was changed\n", name)
+		return 1
+	}
+	rep := h.Report
+	for _, l := range rep.Lines() {
+		fmt.Fprintln(c.out, l)
+	}
+	if h.Blocked(mode) {
+		switch {
+		case h.Failed():
+			fmt.Fprintf(c.err, "%s: the staged notebook has the problems listed above; fix them and stage the fix (or commit with --no-verify); nothing was changed\n", name)
+		case mode == hooks.StageAndStop:
+			for _, p := range h.Staged {
+				fmt.Fprintf(c.out, "recomputed %s\n", p)
+			}
+			fmt.Fprintf(c.err, "%s: the merged notebook had stale results; they are recomputed and staged. git writes a merge commit before this hook runs, so it stops here: run `git commit` to conclude the merge with them\n", name)
+		case h.TempIndex:
+			fmt.Fprintf(c.err, "%s: the results listed above are stale in what this commit holds, and `git commit PATH...` commits a temporary index that the hook cannot update; nothing was changed.\nStage the files and commit without paths, so the hook recomputes them in the index:\n    git add PATH... && git commit\n", name)
+		default:
+			for _, p := range h.WorkTree {
+				fmt.Fprintf(c.out, "recomputed %s in the work tree\n", p)
+			}
+			for _, k := range h.Kept {
+				fmt.Fprintf(c.out, "kept %s\n", k)
+			}
+			fmt.Fprintf(c.err, "%s: results were stale and are recomputed in the work tree; review and stage them, then commit again\n", name)
+		}
+		return 1
+	}
+	if len(h.Staged) > 0 {
+		for _, p := range h.Staged {
+			where := "index"
+			if slices.Contains(h.WorkTree, p) {
+				where = "index and work tree"
+			}
+			fmt.Fprintf(c.out, "recomputed %s (%s)\n", p, where)
+		}
+		for _, k := range h.Kept {
+			fmt.Fprintf(c.out, "kept %s\n", k)
+		}
+		fmt.Fprintf(c.err, "%s: %d file(s) with stale results recomputed and staged; the commit goes on\n", name, len(h.Staged))
+	}
 	return 0
 }
 

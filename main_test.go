@@ -9,6 +9,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"strings"
+	"sync"
 	"testing"
 )
 
@@ -23,9 +24,17 @@ func cleave(t *testing.T, args ...string) (int, string, string) {
 }
 
 // demo writes the demo notebook once per test binary run, into a folder TestMain removes.
-var demoDir, scratch string
+var (
+	demoDir, scratch string
+	demoMu           sync.Mutex
+)
 
 func TestMain(m *testing.M) {
+	// Git runs hooks and merge drivers as programs: the `cleave` on the PATH of the tests is a
+	// script that runs this test binary as the command line.
+	if os.Getenv("CLEAVE_TEST_AS_CLI") == "1" {
+		os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
+	}
 	flag.Parse()
 	// git reads no configuration of the machine or the user in these tests.
 	os.Setenv("GIT_CONFIG_NOSYSTEM", "1")
@@ -35,13 +44,35 @@ func TestMain(m *testing.M) {
 	if err != nil {
 		panic(err)
 	}
+	if err := cliOnPath(scratch); err != nil {
+		panic(err)
+	}
 	code := m.Run()
 	os.RemoveAll(scratch)
 	os.Exit(code)
 }
 
+// cliOnPath puts a `cleave` script that runs this test binary first on the PATH.
+func cliOnPath(dir string) error {
+	self, err := os.Executable()
+	if err != nil {
+		return err
+	}
+	bin := filepath.Join(dir, "bin")
+	if err := os.MkdirAll(bin, 0o755); err != nil {
+		return err
+	}
+	script := fmt.Sprintf("#!/bin/sh\nCLEAVE_TEST_AS_CLI=1 exec '%s' \"$@\"\n", self)
+	if err := os.WriteFile(filepath.Join(bin, "cleave"), []byte(script), 0o755); err != nil {
+		return err
+	}
+	return os.Setenv("PATH", bin+string(os.PathListSeparator)+os.Getenv("PATH"))
+}
+
 func demoNotebook(t *testing.T) string {
 	t.Helper()
+	demoMu.Lock()
+	defer demoMu.Unlock()
 	if demoDir != "" {
 		return demoDir
 	}
