@@ -1,6 +1,7 @@
 package main
 
 import (
+	"encoding/json"
 	"fmt"
 	"io/fs"
 	"os"
@@ -729,5 +730,63 @@ func TestFrameworkManifest(t *testing.T) {
 		if code, out, errs := cleave(t, append([]string{"-C", dir}, entries[id]...)...); code != 0 {
 			t.Errorf("%s once the results are staged: exit %d\n%s%s", id, code, out, errs)
 		}
+	}
+}
+
+// The history of a demo device: its lineage, and the commits that changed its record, its
+// ancestors' records and their data files, with fields and results old → new.
+func TestHistoryGolden(t *testing.T) {
+	dir := demoNotebook(t)
+	if _, err := exec.LookPath("git"); err != nil {
+		t.Skip("git binary not on PATH")
+	}
+	code, out, errs := cleave(t, "-C", dir, "history", "W24-031-A-HB1")
+	if code != 0 {
+		t.Fatalf("history: exit %d\n%s", code, errs)
+	}
+	golden(t, "history-W24-031-A-HB1.golden", out)
+	code, out, errs = cleave(t, "-C", dir, "history", "--json", "CD24-001")
+	if code != 0 {
+		t.Fatalf("history --json: exit %d\n%s", code, errs)
+	}
+	golden(t, "history-CD24-001.json.golden", out)
+	var h struct {
+		Sample  struct{ ID string }
+		Tracked []struct{ Path, Role string }
+		Commits []struct {
+			Subject string
+			Changes []struct {
+				Path    string
+				Fields  []struct{ Field, Old, New string }
+				Results []struct{ Old, New string }
+			}
+		}
+	}
+	if err := json.Unmarshal([]byte(out), &h); err != nil {
+		t.Fatal(err)
+	}
+	// The mask correction shows up as the probe's position old → new in the mask, and as the
+	// cooldown's mobility old → new.
+	found := false
+	for _, c := range h.Commits {
+		if !strings.HasPrefix(c.Subject, "HB100: probe 4") {
+			continue
+		}
+		for _, ch := range c.Changes {
+			for _, f := range ch.Fields {
+				if ch.Path == "masks/HB100.md" && f.Field == "probes[4].position" && f.Old == "700 um" && f.New == "750 um" {
+					found = true
+				}
+			}
+		}
+	}
+	if !found || h.Sample.ID != "CD24-001" || len(h.Tracked) != 12 {
+		t.Errorf("history --json: sample %q, %d tracked paths, mask correction found %v", h.Sample.ID, len(h.Tracked), found)
+	}
+	if code, _, errs := cleave(t, "-C", dir, "history", "NO-SUCH"); code != 1 || !strings.Contains(errs, `no entry with id "NO-SUCH"`) {
+		t.Errorf("history of an unknown id: exit %d, %q", code, errs)
+	}
+	if code, _, _ := cleave(t, "-C", dir, "history"); code != 2 {
+		t.Errorf("history without an id: exit %d, want 2", code)
 	}
 }

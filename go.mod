@@ -7,9 +7,9 @@ require (
 	github.com/go-git/go-git/v5 v5.19.3
 	github.com/yuin/goldmark v1.8.7
 	go.yaml.in/yaml/v3 v3.0.6
+	golang.org/x/sys v0.47.0
 	gonum.org/v1/gonum v0.17.0
 	gonum.org/v1/plot v0.17.0
-	golang.org/x/sys v0.47.0
 )
 
 require (

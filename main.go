@@ -46,6 +46,7 @@ func init() {
 		{"calc", "[PATH...]", "recompute calc blocks and write their results", runCalc},
 		{"check", "[--staged|--rev REV] [PATH...]", "recompute without writing; list stale results and errors as path:line: old → new (the work tree, the index or a commit)", runCheck},
 		{"eval", "[--in FILE] [--json|--csv] EXPR", "evaluate one expression, in the context of an entry with --in", runEval},
+		{"history", "ID [--rev REV] [--json]", "the life of a sample: its lineage and, commit by commit, what changed in its records, its ancestors' and their data files", runHistory},
 		{"hooks", "install|uninstall|pre-commit [--framework]|pre-merge-commit|merge O A B L P", "git hooks that recompute staged results, and the merge driver for result regions", runHooks},
 		{"demo", "[DIR]", "write the demo notebook (to DIR or a new temp folder) and run everything on it", runDemo},
 		{"version", "", "print the version", runVersion},
@@ -473,6 +474,34 @@ func runEval(c *cli, args []string) int {
 		return 0
 	}
 	fmt.Fprintln(c.out, compute.ResultOf(v).Display)
+	return 0
+}
+
+func runHistory(c *cli, args []string) int {
+	fs := c.flags("history")
+	rev := fs.String("rev", "HEAD", "read the lineage at commit `REV` and walk back from it")
+	asJSON := fs.Bool("json", false, "print the history as one JSON object")
+	pos, err := parse(fs, args)
+	if err != nil || len(pos) != 1 {
+		return c.usageErr("history", flagMsg(err, "need one ID"))
+	}
+	repo, err := hooks.Locate(c.path("."))
+	if err != nil {
+		return c.fail("history", err)
+	}
+	h, err := repo.SampleHistory(pos[0], *rev)
+	if err != nil {
+		return c.fail("history", err)
+	}
+	if *asJSON {
+		enc := json.NewEncoder(c.out)
+		enc.SetIndent("", "  ")
+		if err := enc.Encode(h); err != nil {
+			return c.fail("history", err)
+		}
+		return 0
+	}
+	h.WriteText(c.out)
 	return 0
 }
 

@@ -12,7 +12,11 @@ func TestMain(m *testing.M) {
 	// The tests' git commands read no configuration of the machine or the user.
 	os.Setenv("GIT_CONFIG_NOSYSTEM", "1")
 	os.Setenv("GIT_CONFIG_GLOBAL", os.DevNull)
-	os.Exit(m.Run())
+	code := m.Run()
+	if historyRepos.root != "" {
+		os.RemoveAll(historyRepos.root)
+	}
+	os.Exit(code)
 }
 
 // needGit skips a test when the git binary is missing.
@@ -27,7 +31,9 @@ func needGit(t testing.TB) {
 func gitT(t testing.TB, dir string, args ...string) string {
 	t.Helper()
 	cmd := exec.Command("git", args...)
-	cmd.Dir = dir
+	if dir != "" {
+		cmd.Dir = dir
+	}
 	out, err := cmd.CombinedOutput()
 	if err != nil {
 		t.Fatalf("git %s: %v\n%s", strings.Join(args, " "), err, out)

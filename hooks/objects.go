@@ -7,6 +7,7 @@ import (
 	"io"
 	"io/fs"
 	"path"
+	"path/filepath"
 	"slices"
 	"strings"
 	"sync"
@@ -15,7 +16,6 @@ import (
 	"github.com/go-git/go-billy/v5/osfs"
 	"github.com/go-git/go-git/v5/plumbing"
 	"github.com/go-git/go-git/v5/plumbing/cache"
-	"github.com/go-git/go-git/v5/plumbing/filemode"
 	"github.com/go-git/go-git/v5/plumbing/object"
 	"github.com/go-git/go-git/v5/storage/filesystem"
 	"github.com/go-git/go-git/v5/storage/filesystem/dotgit"
@@ -34,9 +34,10 @@ var ErrObjectFormat = errors.New("go-git reads only repositories with SHA-1 obje
 // preciousObjects, partialClone) do not stop it; a blob missing from a partial clone is
 // reported when read. Methods are safe for concurrent use (go-git is not).
 type Objects struct {
-	repo *Repo
-	mu   sync.Mutex
-	st   *filesystem.Storage
+	repo  *Repo
+	mu    sync.Mutex
+	st    *filesystem.Storage
+	packs *packReader
 }
 
 // OpenObjects opens the object store of r for reading.
@@ -51,11 +52,46 @@ func (r *Repo) OpenObjects() (*Objects, error) {
 	}
 	// A larger object cache than go-git's default pays off on long history walks.
 	st := filesystem.NewStorageWithOptions(dot, cache.NewObjectLRU(256*cache.MiByte), filesystem.Options{KeepDescriptors: true})
-	return &Objects{repo: r, st: st}, nil
+	return &Objects{repo: r, st: st, packs: openPacks(filepath.Join(r.CommonDir, "objects"))}, nil
 }
 
 // Close releases the pack files held open.
-func (o *Objects) Close() error { return o.st.Close() }
+func (o *Objects) Close() error { return errors.Join(o.packs.close(), o.st.Close()) }
+
+// raw returns the type and content of an object: from the packs when it is there, else
+// through go-git's storage (loose objects, alternates). The caller holds o.mu.
+func (o *Objects) raw(h plumbing.Hash) (plumbing.ObjectType, []byte, error) {
+	typ, data, err := o.packs.read(h)
+	if err == nil {
+		return typ, data, nil
+	}
+	obj, err := o.st.EncodedObject(plumbing.AnyObject, h)
+	if err != nil {
+		return plumbing.InvalidObject, nil, fmt.Errorf("reading object %s: %w", h, err)
+	}
+	rd, err := obj.Reader()
+	if err != nil {
+		return plumbing.InvalidObject, nil, err
+	}
+	defer rd.Close()
+	buf := bytes.NewBuffer(make([]byte, 0, obj.Size()))
+	if _, err := io.Copy(buf, rd); err != nil {
+		return plumbing.InvalidObject, nil, err
+	}
+	return obj.Type(), buf.Bytes(), nil
+}
+
+// rawOf is raw for an object that must have the given type.
+func (o *Objects) rawOf(want plumbing.ObjectType, h plumbing.Hash) ([]byte, error) {
+	typ, data, err := o.raw(h)
+	if err != nil {
+		return nil, err
+	}
+	if typ != want {
+		return nil, fmt.Errorf("object %s is a %s, not a %s", h, typ, want)
+	}
+	return data, nil
+}
 
 // Resolve turns a revision (a branch, a tag, HEAD~3, an abbreviated id…) into a commit id,
 // with the git binary.
@@ -74,10 +110,18 @@ func (r *Repo) Resolve(rev string) (plumbing.Hash, error) {
 func (o *Objects) Commit(h plumbing.Hash) (*object.Commit, error) {
 	o.mu.Lock()
 	defer o.mu.Unlock()
-	c, err := object.GetCommit(o.st, h)
+	data, err := o.rawOf(plumbing.CommitObject, h)
 	if err != nil {
 		return nil, fmt.Errorf("reading commit %s: %w", h, err)
 	}
+	mo := &plumbing.MemoryObject{}
+	mo.SetType(plumbing.CommitObject)
+	mo.Write(data)
+	c := &object.Commit{}
+	if err := c.Decode(mo); err != nil {
+		return nil, fmt.Errorf("reading commit %s: %w", h, err)
+	}
+	c.Hash = h
 	return c, nil
 }
 
@@ -85,25 +129,54 @@ func (o *Objects) Commit(h plumbing.Hash) (*object.Commit, error) {
 func (o *Objects) Blob(h plumbing.Hash) ([]byte, error) {
 	o.mu.Lock()
 	defer o.mu.Unlock()
-	return o.blobLocked(h)
-}
-
-func (o *Objects) blobLocked(h plumbing.Hash) ([]byte, error) {
-	obj, err := o.st.EncodedObject(plumbing.BlobObject, h)
+	data, err := o.rawOf(plumbing.BlobObject, h)
 	if err != nil {
 		return nil, fmt.Errorf("reading blob %s: %w", h, err)
 	}
-	rd, err := obj.Reader()
+	return data, nil
+}
+
+// treeEntries lists a tree object's entries (mode, name, id) in the order stored, without
+// building go-git's Tree. The caller holds o.mu.
+func (o *Objects) treeEntries(h plumbing.Hash) ([]rawEntry, error) {
+	data, err := o.rawOf(plumbing.TreeObject, h)
 	if err != nil {
-		return nil, err
+		return nil, fmt.Errorf("reading tree %s: %w", h, err)
 	}
-	defer rd.Close()
-	b := make([]byte, 0, obj.Size())
-	buf := bytes.NewBuffer(b)
-	if _, err := io.Copy(buf, rd); err != nil {
-		return nil, err
+	var out []rawEntry
+	for len(data) > 0 {
+		e, rest, ok := nextTreeEntry(data)
+		if !ok {
+			return nil, fmt.Errorf("tree %s is damaged", h)
+		}
+		out = append(out, e)
+		data = rest
 	}
-	return buf.Bytes(), nil
+	return out, nil
+}
+
+// rawEntry is one entry of a tree object.
+type rawEntry struct {
+	mode string // octal, as stored ("100644", "40000", …)
+	name string
+	id   plumbing.Hash
+}
+
+// nextTreeEntry decodes the first entry of a tree object's content: "MODE NAME\0" and 20 bytes
+// of object id.
+func nextTreeEntry(data []byte) (rawEntry, []byte, bool) {
+	sp := bytes.IndexByte(data, ' ')
+	if sp < 0 {
+		return rawEntry{}, nil, false
+	}
+	nul := bytes.IndexByte(data[sp+1:], 0)
+	if nul < 0 || sp+1+nul+21 > len(data) {
+		return rawEntry{}, nil, false
+	}
+	nul += sp + 1
+	var id plumbing.Hash
+	copy(id[:], data[nul+1:nul+21])
+	return rawEntry{mode: string(data[:sp]), name: string(data[sp+1 : nul]), id: id}, data[nul+21:], true
 }
 
 // TreeFS is the tree of a commit as a file system (see gitFS).
@@ -149,27 +222,16 @@ func (t *treeDirs) listLocked(dir string) ([]treeEntry, error) {
 		id = plumbing.NewHash(entries[i].id)
 	}
 	t.o.mu.Lock()
-	tree, err := object.GetTree(t.o.st, id)
+	entries, err := t.o.treeEntries(id)
 	t.o.mu.Unlock()
 	if err != nil {
-		return nil, fmt.Errorf("reading tree %s: %w", id, err)
+		return nil, err
 	}
-	out := make([]treeEntry, 0, len(tree.Entries))
-	for _, e := range tree.Entries {
-		var m fs.FileMode
-		switch e.Mode {
-		case filemode.Regular, filemode.Deprecated:
-			m = 0o644
-		case filemode.Executable:
-			m = 0o755
-		case filemode.Symlink:
-			m = fs.ModeSymlink | 0o777
-		case filemode.Dir:
-			m = fs.ModeDir | 0o755
-		default:
-			continue // a submodule
+	out := make([]treeEntry, 0, len(entries))
+	for _, e := range entries {
+		if m, ok := gitMode(e.mode); ok {
+			out = append(out, treeEntry{name: e.name, mode: m, id: e.id.String()})
 		}
-		out = append(out, treeEntry{name: e.Name, mode: m, id: e.Hash.String()})
 	}
 	slices.SortFunc(out, func(a, b treeEntry) int { return strings.Compare(a.name, b.name) })
 	t.dirs[dir] = out
