@@ -47,6 +47,7 @@ func init() {
 		{"check", "[--staged|--rev REV] [PATH...]", "recompute without writing; list stale results and errors as path:line: old → new (the work tree, the index or a commit)", runCheck},
 		{"eval", "[--in FILE] [--json|--csv] EXPR", "evaluate one expression, in the context of an entry with --in", runEval},
 		{"history", "ID [--rev REV] [--json]", "the life of a sample: its lineage and, commit by commit, what changed in its records, its ancestors' and their data files", runHistory},
+		{"review", "BASE..HEAD [--json] [--markdown]", "a report for a pull request: entries changed by lineage, results old → new, stale results, physics warnings", runReview},
 		{"hooks", "install|uninstall|pre-commit [--framework]|pre-merge-commit|merge O A B L P", "git hooks that recompute staged results, and the merge driver for result regions", runHooks},
 		{"demo", "[DIR]", "write the demo notebook (to DIR or a new temp folder) and run everything on it", runDemo},
 		{"version", "", "print the version", runVersion},
@@ -502,6 +503,40 @@ func runHistory(c *cli, args []string) int {
 		return 0
 	}
 	h.WriteText(c.out)
+	return 0
+}
+
+func runReview(c *cli, args []string) int {
+	fs := c.flags("review")
+	asJSON := fs.Bool("json", false, "print the review as one JSON object")
+	asMarkdown := fs.Bool("markdown", false, "print the review as Markdown, ready to paste as a pull-request comment")
+	pos, err := parse(fs, args)
+	if err != nil || len(pos) != 1 {
+		return c.usageErr("review", flagMsg(err, "need one range BASE..HEAD"))
+	}
+	if *asJSON && *asMarkdown {
+		return c.usageErr("review", "--json and --markdown exclude each other")
+	}
+	repo, err := hooks.Locate(c.path("."))
+	if err != nil {
+		return c.fail("review", err)
+	}
+	rv, err := repo.ReviewRange(pos[0])
+	if err != nil {
+		return c.fail("review", err)
+	}
+	switch {
+	case *asJSON:
+		enc := json.NewEncoder(c.out)
+		enc.SetIndent("", "  ")
+		if err := enc.Encode(rv); err != nil {
+			return c.fail("review", err)
+		}
+	case *asMarkdown:
+		rv.WriteMarkdown(c.out)
+	default:
+		rv.WriteText(c.out)
+	}
 	return 0
 }
 

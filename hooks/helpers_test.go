@@ -1,6 +1,7 @@
 package hooks
 
 import (
+	"io/fs"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -79,56 +80,24 @@ func newRepo(t testing.TB, files map[string]string) string {
 	return dir
 }
 
-// smallNotebook is a notebook whose blocks evaluate quickly: a mask, a wafer, a piece, a
-// device and a cooldown, with results already up to date.
-var smallNotebook = map[string]string{
-	"masks/M1.md": `---
-id: M1
-kind: mask
-width: 100 um
-length: 1000 um
-probes:
-  - {name: "2", position: 250 um, arm_width: 10 um, side: top}
-  - {name: "4", position: 750 um, arm_width: 10 um, side: top}
----
-# M1
-
-` + "```cleave" + `
-W = mask.width  #~ 100.00 um
-sq = squares("2", "4")  #~ 5.0000
-` + "```" + `
-`,
-	"wafers/W1.md":   "---\nid: W1\nkind: wafer\nchannel: GaAs\ndesign_density: 3.0e11 cm^-2\n---\n# W1\n",
-	"pieces/W1-A.md": "---\nid: W1-A\nkind: piece\nfrom: W1\n---\n# piece\n",
-	"devices/D1.md": `---
-id: D1
-kind: device
-from: W1-A
-mask: M1
----
-# D1
-
-` + "```cleave" + `
-sq = squares("2", "4")  #~ 5.0000
-` + "```" + `
-`,
-	"cooldowns/C1.md": `---
-id: C1
-kind: cooldown
-devices: [D1]
-base_temperature: 0.30 K
----
-# C1
-
-Notes before the block.
-
-` + "```cleave" + `
-R = 50 Ohm  #~ 50.000 Ohm
-rho = sheet_resistance(R, squares("2", "4"))  #~ 10.000 Ohm
-n = 3e11 cm^-2  #~ 3.0000e11 cm^-2
-mu = mobility(rho, n)  #~ 2.0805e6 cm^2/(V s)
-` + "```" + `
-
-Notes after the block.
-`,
+// tinyNotebook is the notebook of ../testdata/tiny (a mask, a wafer, a piece, two devices and
+// two cooldowns whose blocks evaluate in milliseconds), without results: a test that needs them
+// lets the engine write them.
+func tinyNotebook(t testing.TB) map[string]string {
+	t.Helper()
+	files := map[string]string{}
+	root := filepath.Join("..", "testdata", "tiny")
+	err := filepath.WalkDir(root, func(p string, d fs.DirEntry, err error) error {
+		if err != nil || d.IsDir() {
+			return err
+		}
+		b, err := os.ReadFile(p)
+		rel, _ := filepath.Rel(root, p)
+		files[filepath.ToSlash(rel)] = string(b)
+		return err
+	})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return files
 }
