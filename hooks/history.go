@@ -281,7 +281,8 @@ func (h *History) WriteText(w io.Writer) {
 			records++
 		}
 	}
-	fmt.Fprintf(w, "  following %d record(s) and %d data file(s); %d commit(s) changed them\n", records, data, len(h.Commits))
+	fmt.Fprintf(w, "  following %s and %s; %s changed them\n", plural(records, "record", "records"), plural(data, "data file", "data files"),
+		plural(len(h.Commits), "commit", "commits"))
 	for _, c := range h.Commits {
 		fmt.Fprintf(w, "\n%s  %s  %s  %s\n", c.Date.UTC().Format("2006-01-02 15:04"), c.Hash[:min(7, len(c.Hash))], c.Author, c.Subject)
 		for _, ch := range c.Changes {

@@ -57,12 +57,35 @@ func (rv *Review) authors() string {
 
 func (rv *Review) summary() string {
 	a, m, r := rv.counts()
-	s := fmt.Sprintf("%d commit(s)", len(rv.Commits))
+	s := plural(len(rv.Commits), "commit", "commits")
 	if len(rv.Commits) > 0 {
 		s += " by " + rv.authors()
 	}
-	s += fmt.Sprintf(": %d entr(ies) added, %d changed, %d removed; %d data file(s)", a, m, r, len(rv.Data))
+	var parts []string
+	for _, c := range []struct {
+		n    int
+		what string
+	}{{a, "added"}, {m, "changed"}, {r, "removed"}} {
+		if c.n > 0 {
+			parts = append(parts, plural(c.n, "entry", "entries")+" "+c.what)
+		}
+	}
+	if len(parts) == 0 {
+		parts = append(parts, "no entry changed")
+	}
+	s += ": " + strings.Join(parts, ", ")
+	if len(rv.Data) > 0 {
+		s += "; " + plural(len(rv.Data), "data file", "data files")
+	}
 	return s
+}
+
+// plural is "1 commit", "2 commits".
+func plural(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return fmt.Sprintf("%d %s", n, many)
 }
 
 var warningTitles = map[string]string{
