@@ -8,6 +8,8 @@ import (
 	"strings"
 	"testing"
 	"testing/fstest"
+
+	"github.com/go-git/go-git/v5"
 )
 
 // The index and a commit, read as file systems, pass the standard library's file-system
@@ -144,5 +146,30 @@ func expectFile(t *testing.T, fsys fs.FS, name, want string) {
 	}
 	if string(b) != want {
 		t.Errorf("%s = %q, want %q", name, b, want)
+	}
+}
+
+// A repository with settings go-git's own opening refuses (extensions.worktreeConfig in a
+// format-1 repository, as `git sparse-checkout` leaves it) is read all the same: the object
+// store is opened on the directories git reported.
+func TestObjectsWithExtensions(t *testing.T) {
+	dir := newRepo(t, map[string]string{"wafers/W1.md": "---\nid: W1\nkind: wafer\n---\n# W1\n"})
+	gitT(t, dir, "config", "core.repositoryformatversion", "1")
+	gitT(t, dir, "config", "extensions.worktreeConfig", "true")
+	gitT(t, dir, "config", "extensions.preciousObjects", "true")
+	if _, err := git.PlainOpen(dir); err == nil {
+		t.Log("go-git opened the repository itself; the test still checks ours")
+	}
+	repo, err := Locate(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep, id, err := repo.CheckRev("HEAD", nil)
+	if err != nil || len(id) != 40 || !rep.OK() {
+		t.Fatalf("check --rev: %v %v", rep, err)
+	}
+	h, err := repo.SampleHistory("W1", "")
+	if err != nil || len(h.Commits) != 1 {
+		t.Fatalf("history: %+v %v", h, err)
 	}
 }

@@ -64,6 +64,9 @@ func Install(dir, bin string) ([]string, error) {
 		return nil, err
 	}
 	var done []string
+	if !within(repo.Hooks, repo.CommonDir) && !within(repo.Hooks, repo.Top) {
+		done = append(done, "note: core.hooksPath points at "+repo.Hooks+", outside this repository: the hook will run in every repository that uses that folder (it finds nothing to do where there is no notebook)")
+	}
 	if err := os.MkdirAll(repo.Hooks, 0o755); err != nil {
 		return nil, err
 	}
@@ -222,6 +225,12 @@ func hasLine(b []byte, line string) bool {
 		}
 	}
 	return false
+}
+
+// within reports whether p is dir or inside it.
+func within(p, dir string) bool {
+	rel, err := filepath.Rel(dir, p)
+	return err == nil && (rel == "." || filepath.IsLocal(rel))
 }
 
 func isOurs(script []byte) bool { return bytes.Contains(script, []byte(hookMarker)) }
