@@ -7,6 +7,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strings"
 	"sync"
@@ -837,5 +838,40 @@ func TestReviewGolden(t *testing.T) {
 	}
 	if code, _, errs := cleave(t, "-C", dir, "review", "nope..HEAD"); code != 1 || !strings.Contains(errs, "no such commit") {
 		t.Errorf("review of an unknown base: exit %d, %q", code, errs)
+	}
+}
+
+// An invalid entry or a failed line stops the commit with path:line:col and changes nothing,
+// even where other results are stale; --no-verify still commits.
+func TestHookBlocksProblems(t *testing.T) {
+	t.Parallel()
+	for _, tc := range []struct {
+		name, path, body, want string
+	}{
+		{"dangling link", "devices/D3.md", "---\nid: D3\nkind: device\nfrom: W1-A\nmask: NOPE\n---\n# D3\n", `devices/D3.md:5:7: `},
+		{"failed line", "cooldowns/C3.md", "---\nid: C3\nkind: cooldown\ndevices: [D1]\n---\n```cleave\nx = 3 T + 2 m\n```\n", `cooldowns/C3.md:7:\d+: error: `},
+	} {
+		t.Run(tc.name, func(t *testing.T) {
+			dir := tinyRepo(t)
+			head := gitOut(t, dir, "rev-parse", "HEAD")
+			editFile(t, dir, mask, maskWidth, maskWidth50) // stale results elsewhere, too
+			if err := os.WriteFile(filepath.Join(dir, filepath.FromSlash(tc.path)), []byte(tc.body), 0o644); err != nil {
+				t.Fatal(err)
+			}
+			gitOut(t, dir, "add", "-A")
+			before := capture(t, dir)
+			out, ok := gitTry(dir, "commit", "-m", "broken")
+			if ok || !regexp.MustCompile(tc.want).MatchString(out) || !strings.Contains(out, "--no-verify") {
+				t.Fatalf("commit with %s: ok=%v\n%s", tc.name, ok, out)
+			}
+			if gitOut(t, dir, "rev-parse", "HEAD") != head {
+				t.Error("HEAD moved")
+			}
+			sameExcept(t, tc.name, before, capture(t, dir))
+			gitOut(t, dir, "commit", "-q", "--no-verify", "-m", "broken, on purpose")
+			if code, _, _ := cleave(t, "-C", dir, "check", "--rev", "HEAD"); code != 1 {
+				t.Error("check --rev of the broken commit passed")
+			}
+		})
 	}
 }

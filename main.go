@@ -629,6 +629,9 @@ func (c *cli) mergeDriver(args []string) int {
 // hookReport prints what the pre-commit hook found and did, and returns the exit code that lets
 // the commit go on (0) or stops it (1).
 func (c *cli) hookReport(name string, h *hooks.HookReport, mode hooks.HookMode) int {
+	if h.Operation != "" {
+		name += " (during a " + h.Operation + ")"
+	}
 	if len(h.Unmerged) > 0 {
 		for _, p := range h.Unmerged {
 			fmt.Fprintf(c.out, "%s:1:1: unmerged: resolve the conflict and git add the file\n", p)

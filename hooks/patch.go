@@ -2,10 +2,8 @@ package hooks
 
 import (
 	"bytes"
-	"strings"
-	"testing/fstest"
+	"maps"
 
-	"cleave/notebook"
 	"cleave/notebook/calcblock"
 	"cleave/notebook/mdsrc"
 )
@@ -93,37 +91,11 @@ func countChanged(a, b []byte) int {
 	return n
 }
 
-// sameFields reports whether two versions of a file give a calc block the same fields: the
-// same front matter (line endings aside) and, for a wafer, the same layer table.
+// sameFields reports whether two versions of a file give a calc block the same fields: the same
+// front-matter values and, for a wafer, the same layer table (see parseVersion).
 func sameFields(path string, a, b *mdsrc.Source) bool {
-	fm := func(s *mdsrc.Source) string {
-		if !s.HasFrontMatter {
-			return ""
-		}
-		return strings.ReplaceAll(string(s.Raw[s.FrontMatter.Start:s.FrontMatter.End]), "\r", "")
-	}
-	if a.HasFrontMatter != b.HasFrontMatter || fm(a) != fm(b) {
+	if a.HasFrontMatter != b.HasFrontMatter {
 		return false
 	}
-	return layerText(path, a.Raw) == layerText(path, b.Raw)
-}
-
-// layerText is the layer table of a wafer entry as the engine reads it, one row a line.
-func layerText(path string, raw []byte) string {
-	nb, err := notebook.Load(fstest.MapFS{path: {Data: raw}})
-	if err != nil {
-		return ""
-	}
-	f, ok := nb.File(path)
-	if !ok || f.Entry == nil {
-		return ""
-	}
-	var b strings.Builder
-	for _, row := range f.Entry.Layers {
-		for _, c := range row.Cells {
-			b.WriteString(c.Column + "=" + c.Text + "\x00")
-		}
-		b.WriteByte('\n')
-	}
-	return b.String()
+	return maps.Equal(parseVersion(path, a.Raw).fields, parseVersion(path, b.Raw).fields)
 }

@@ -618,12 +618,8 @@ func (rd *reviewer) checkEntry(f *notebook.File) {
 	if x.has && density.Dim() == dimDensity && e.Kind == notebook.KindCooldown {
 		ratio := density.Value() / x.density.Value()
 		if math.Abs(ratio-1) > densityTolerance {
-			note := ""
-			if illuminatedEntry(e) {
-				note = " (after illumination, which raises it)"
-			}
-			warn("density", densityLine, fmt.Sprintf("measured density %s is %+.0f %% from the expected %s (%s)%s",
-				quantity.Format(density), 100*(ratio-1), quantity.Format(x.density), x.source, note))
+			warn("density", densityLine, fmt.Sprintf("measured density %s is %+.0f %% from the expected %s (%s)",
+				quantity.Format(density), 100*(ratio-1), quantity.Format(x.density), x.source))
 		}
 	}
 }
@@ -670,14 +666,6 @@ func (rd *reviewer) checkPlateaus(env *calc.Env, r *calc.Result, n quantity.Quan
 				v, quantity.Format(from), quantity.Format(to), nLine, quantity.Format(n), lo, hi))
 		}
 	}
-}
-
-func illuminatedEntry(e *notebook.Entry) bool {
-	n, ok := e.Field("illumination")
-	if !ok {
-		return false
-	}
-	return !(n.Value != "" && strings.EqualFold(strings.TrimSpace(n.Value), "none"))
 }
 
 func temperatureText(T float64) string {
