@@ -875,3 +875,34 @@ func TestHookBlocksProblems(t *testing.T) {
 		})
 	}
 }
+
+// A cherry-pick runs no pre-commit hook: the driver settles the conflict in results, the pick
+// completes without stopping, and an amend sends the picked commit through the hook.
+func TestCherryPickThroughHook(t *testing.T) {
+	t.Parallel()
+	dir := tinyRepo(t)
+	gitOut(t, dir, "checkout", "-q", "-b", "right")
+	o4, n4 := probeEdit("4", "750 um", "770 um")
+	editFile(t, dir, mask, o4, n4)
+	gitOut(t, dir, "commit", "-q", "-a", "-m", "probe 4 at 770 um")
+	gitOut(t, dir, "checkout", "-q", "master")
+	o2, n2 := probeEdit("2", "250 um", "240 um")
+	editFile(t, dir, mask, o2, n2)
+	gitOut(t, dir, "commit", "-q", "-a", "-m", "probe 2 at 240 um")
+	if out, ok := gitTry(dir, "cherry-pick", "right"); !ok {
+		t.Fatalf("cherry-pick stopped:\n%s", out)
+	}
+	if _, err := os.Stat(filepath.Join(dir, ".git", "CHERRY_PICK_HEAD")); err == nil {
+		t.Error("the cherry-pick is still in progress")
+	}
+	gitOut(t, dir, "commit", "-q", "--amend", "--no-edit")
+	if code, out, errs := cleave(t, "-C", dir, "check", "--rev", "HEAD"); code != 0 {
+		t.Errorf("the picked commit has stale results after the amend:\n%s%s", out, errs)
+	}
+	if got := gitOut(t, dir, "show", "HEAD:"+mask); !strings.Contains(got, n2) || !strings.Contains(got, n4) {
+		t.Errorf("the pick lost an edit:\n%s", got)
+	}
+	if st := gitOut(t, dir, "status", "--porcelain"); st != "" {
+		t.Errorf("work tree not clean:\n%s", st)
+	}
+}

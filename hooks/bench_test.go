@@ -16,10 +16,7 @@ import (
 // the same work git log does, in go-git's packs instead of git's C code).
 func BenchmarkHistory10k(b *testing.B) {
 	dir := generatedRepo(b, 10000)
-	repo, err := Locate(dir)
-	if err != nil {
-		b.Fatal(err)
-	}
+	repo := locate(b, dir)
 	h, err := repo.SampleHistory("CD0123", "")
 	if err != nil {
 		b.Fatal(err)
@@ -151,10 +148,7 @@ func BenchmarkPreCommitOneEntry(b *testing.B) {
 // the changed entries checked.
 func BenchmarkReview50(b *testing.B) {
 	dir := generatedRepo(b, 10000)
-	repo, err := Locate(dir)
-	if err != nil {
-		b.Fatal(err)
-	}
+	repo := locate(b, dir)
 	for b.Loop() {
 		rv, err := repo.ReviewRange("HEAD~50..HEAD")
 		if err != nil {

@@ -31,15 +31,8 @@ func TestGitFS(t *testing.T) {
 	gitT(t, dir, "add", "sub/b.md")
 	writeFiles(t, dir, map[string]string{"sub/b.md": "# b in the work tree only\n"})
 
-	repo, err := Locate(dir)
-	if err != nil {
-		t.Fatal(err)
-	}
-	st, err := repo.ReadIndex()
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer st.Close()
+	repo := locate(t, dir)
+	st := readIndex(t, dir)
 	want := []string{"a.md", "sub/b.md", "sub/deep/c.csv", "empty.md", "link.csv"}
 	if err := fstest.TestFS(st, want...); err != nil {
 		t.Fatal(err)
@@ -88,15 +81,7 @@ func TestGitFSLinkOutside(t *testing.T) {
 		t.Fatal(err)
 	}
 	gitT(t, dir, "add", "out.csv")
-	repo, err := Locate(dir)
-	if err != nil {
-		t.Fatal(err)
-	}
-	st, err := repo.ReadIndex()
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer st.Close()
+	st := readIndex(t, dir)
 	if _, err := fs.ReadFile(st, "out.csv"); !errors.Is(err, fs.ErrNotExist) {
 		t.Errorf("reading a link out of the tree: %v", err)
 	}
@@ -115,10 +100,7 @@ func TestRevFSSHA256(t *testing.T) {
 	writeFiles(t, dir, map[string]string{"x/a.md": "# sha256\n"})
 	gitT(t, dir, "add", "-A")
 	gitT(t, dir, "commit", "-q", "-m", "first")
-	repo, err := Locate(dir)
-	if err != nil {
-		t.Fatal(err)
-	}
+	repo := locate(t, dir)
 	if _, err := repo.OpenObjects(); !errors.Is(err, ErrObjectFormat) {
 		t.Fatalf("OpenObjects on a SHA-256 repository: %v", err)
 	}
@@ -160,10 +142,7 @@ func TestObjectsWithExtensions(t *testing.T) {
 	if _, err := git.PlainOpen(dir); err == nil {
 		t.Log("go-git opened the repository itself; the test still checks ours")
 	}
-	repo, err := Locate(dir)
-	if err != nil {
-		t.Fatal(err)
-	}
+	repo := locate(t, dir)
 	rep, id, err := repo.CheckRev("HEAD", nil)
 	if err != nil || len(id) != 40 || !rep.OK() {
 		t.Fatalf("check --rev: %v %v", rep, err)

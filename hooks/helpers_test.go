@@ -101,3 +101,36 @@ func tinyNotebook(t testing.TB) map[string]string {
 	}
 	return files
 }
+
+// locate is Locate for a test.
+func locate(t testing.TB, dir string) *Repo {
+	t.Helper()
+	repo, err := Locate(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return repo
+}
+
+// readIndex reads the index of the repository at dir, closed when the test ends.
+func readIndex(t testing.TB, dir string) *Staged {
+	t.Helper()
+	st, err := locate(t, dir).ReadIndex()
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { st.Close() })
+	return st
+}
+
+// openObjects opens the object store of the repository at dir, closed when the test ends.
+func openObjects(t testing.TB, dir string) (*Repo, *Objects) {
+	t.Helper()
+	repo := locate(t, dir)
+	objs, err := repo.OpenObjects()
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { objs.Close() })
+	return repo, objs
+}

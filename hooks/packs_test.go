@@ -12,16 +12,7 @@ import (
 // Every object of a generated repository, read from the packs by packReader, has the type
 // and content go-git's own storage gives.
 func TestPackReaderMatchesGoGit(t *testing.T) {
-	dir := generatedRepo(t, 400)
-	repo, err := Locate(dir)
-	if err != nil {
-		t.Fatal(err)
-	}
-	objs, err := repo.OpenObjects()
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer objs.Close()
+	_, objs := openObjects(t, generatedRepo(t, 400))
 	if len(objs.packs.packs) == 0 {
 		t.Fatal("no pack opened")
 	}

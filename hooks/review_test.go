@@ -77,10 +77,7 @@ func TestReviewWarnings(t *testing.T) {
 	writeFiles(t, dir, map[string]string{"masks/M1.md": strings.Replace(tiny["masks/M1.md"], "width: 100 um", "width: 50 um", 1)})
 	gitT(t, dir, "commit", "-q", "-a", "-m", "narrower, not recomputed")
 
-	repo, err := Locate(dir)
-	if err != nil {
-		t.Fatal(err)
-	}
+	repo := locate(t, dir)
 	rv, err := repo.ReviewRange("HEAD~2..HEAD")
 	if err != nil {
 		t.Fatal(err)

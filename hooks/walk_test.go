@@ -18,15 +18,7 @@ func gitLogCommits(t *testing.T, dir, rev string, paths []string) []string {
 
 func walkCommits(t *testing.T, dir, rev string, paths []string) []string {
 	t.Helper()
-	repo, err := Locate(dir)
-	if err != nil {
-		t.Fatal(err)
-	}
-	objs, err := repo.OpenObjects()
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer objs.Close()
+	repo, objs := openObjects(t, dir)
 	h, err := repo.Resolve(rev)
 	if err != nil {
 		t.Fatal(err)
