@@ -77,16 +77,19 @@ func (c *catFile) readMany(oids []string) ([][]byte, error) {
 		werr <- w.Flush()
 	}()
 	out := make([][]byte, len(oids))
-	var rerr error
 	for i, id := range oids {
-		if out[i], rerr = c.answer(id); rerr != nil {
-			break
+		var err error
+		if out[i], err = c.answer(id); err != nil {
+			// Stop git reading the rest of the requests, so the writer cannot block.
+			c.in.Close()
+			<-werr
+			return nil, err
 		}
 	}
-	if err := <-werr; err != nil && rerr == nil {
+	if err := <-werr; err != nil {
 		return nil, c.fail(err)
 	}
-	return out, rerr
+	return out, nil
 }
 
 // answer reads the answer to a request for oid.
