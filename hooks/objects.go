@@ -96,14 +96,26 @@ func (o *Objects) rawOf(want plumbing.ObjectType, h plumbing.Hash) ([]byte, erro
 // Resolve turns a revision (a branch, a tag, HEAD~3, an abbreviated id…) into a commit id,
 // with the git binary.
 func (r *Repo) Resolve(rev string) (plumbing.Hash, error) {
+	id, err := r.resolveID(rev)
+	if err != nil {
+		return plumbing.ZeroHash, err
+	}
+	if !plumbing.IsHash(id) {
+		return plumbing.ZeroHash, fmt.Errorf("%q: %w", rev, ErrObjectFormat)
+	}
+	return plumbing.NewHash(id), nil
+}
+
+// resolveID is the full id of the commit rev names, in the repository's own object format.
+func (r *Repo) resolveID(rev string) (string, error) {
 	if strings.HasPrefix(rev, "-") {
-		return plumbing.ZeroHash, fmt.Errorf("%q: not a revision", rev)
+		return "", fmt.Errorf("%q: not a revision", rev)
 	}
-	out, err := r.git().line("rev-parse", "--verify", "--quiet", "--end-of-options", rev+"^{commit}")
-	if err != nil || !plumbing.IsHash(out) {
-		return plumbing.ZeroHash, fmt.Errorf("%q: no such commit in %s", rev, r.Top)
+	id, err := r.git().line("rev-parse", "--verify", "--quiet", "--end-of-options", rev+"^{commit}")
+	if err != nil || id == "" {
+		return "", fmt.Errorf("%q: no such commit in %s", rev, r.Top)
 	}
-	return plumbing.NewHash(out), nil
+	return id, nil
 }
 
 // Commit reads a commit.
@@ -267,12 +279,9 @@ func (r *Repo) RevFS(rev string) (fsys fs.FS, commit string, close func() error,
 // revFSWithGit lists a commit's tree with `git ls-tree -r` and reads blobs with
 // `git cat-file --batch`.
 func (r *Repo) revFSWithGit(rev string) (fs.FS, string, func() error, error) {
-	if strings.HasPrefix(rev, "-") {
-		return nil, "", nil, fmt.Errorf("%q: not a revision", rev)
-	}
-	id, err := r.git().line("rev-parse", "--verify", "--quiet", "--end-of-options", rev+"^{commit}")
-	if err != nil || id == "" {
-		return nil, "", nil, fmt.Errorf("%q: no such commit in %s", rev, r.Top)
+	id, err := r.resolveID(rev)
+	if err != nil {
+		return nil, "", nil, err
 	}
 	out, err := r.git().run(nil, "ls-tree", "-r", "-z", "--full-tree", id)
 	if err != nil {

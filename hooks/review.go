@@ -522,17 +522,18 @@ func (rd *reviewer) physics(changed []changedFile) {
 		if c.new.IsZero() || !strings.HasSuffix(c.path, ".md") {
 			continue
 		}
-		f, ok := rd.nb.File(c.path)
-		if !ok || f.Entry == nil || !strings.Contains(string(f.Src.Raw), "```"+calcblock.InfoString) && !strings.Contains(string(f.Src.Raw), "~~~"+calcblock.InfoString) {
-			continue
+		if f, ok := rd.nb.File(c.path); ok && f.Entry != nil {
+			rd.checkEntry(f)
 		}
-		rd.checkEntry(f)
 	}
 }
 
 func (rd *reviewer) checkEntry(f *notebook.File) {
 	e := f.Entry
 	values := rd.evaluate(f)
+	if len(values) == 0 {
+		return // no calc block, or nothing it computed
+	}
 	// A finding is reported once per file, however many lines lead to it (the review's own
 	// comparison of the Hall and SdH densities and a compare_densities line give the same
 	// warning of the engine).
