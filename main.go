@@ -19,7 +19,9 @@ import (
 	"os/signal"
 	"path/filepath"
 	"runtime/debug"
+	"slices"
 	"sort"
+	"strconv"
 	"strings"
 	"syscall"
 	"time"
@@ -51,11 +53,14 @@ func init() {
 		{"tree", "[ID]", "print the lineage of one sample (ancestors and descendants) or of the whole notebook", runTree},
 		{"validate", "", "check every entry: ids, links, kinds, front matter, layer tables, units", runValidate},
 		{"calc", "[PATH...]", "recompute calc blocks and write their results", runCalc},
-		{"check", "[PATH...]", "recompute without writing; list stale results and errors as path:line: old → new", runCheck},
+		{"check", "[--staged|--rev REV] [PATH...]", "recompute without writing; list stale results and errors as path:line: old → new (work tree, index or a commit)", runCheck},
 		{"eval", "[--in FILE] [--json|--csv] EXPR", "evaluate one expression, in the context of an entry with --in", runEval},
 		{"plot", "[--in FILE] EXPR -o OUT.svg", "draw a value (a data set, a fit, a band result, a scorecard, a mask) as an SVG file", runPlot},
 		{"site", "DIR", "write the notebook as a static HTML site into DIR (new, empty, or a site written before)", runSite},
 		{"serve", "[--addr 127.0.0.1:PORT]", "preview the notebook's site locally; rebuilds what changed and reloads the page", runServe},
+		{"history", "ID [--rev REV] [--json]", "the life of a sample: its lineage and, commit by commit, what changed in its records, its ancestors' and their data", runHistory},
+		{"review", "BASE..HEAD [--json] [--markdown]", "a report for a pull request: entries changed by lineage, results old → new, stale results, physics warnings", runReview},
+		{"hooks", "install|uninstall", "set up (or remove) the hook that recomputes staged results and the merge driver (git runs their subcommands)", runHooks},
 		{"demo", "[DIR]", "write the demo notebook (to DIR or a new temp folder) and run everything on it", runDemo},
 		{"version", "", "print the version", runVersion},
 	}
@@ -357,9 +362,21 @@ func runCheck(c *cli, args []string) int { return c.recompute("check", args, fal
 func (c *cli) recompute(name string, args []string, write bool) int {
 	fs := c.flags(name)
 	noCache := fs.Bool("no-cache", false, "evaluate everything, ignoring cached results")
+	var staged bool
+	var rev string
+	if !write {
+		fs.BoolVar(&staged, "staged", false, "check the content staged in the git index (what the next commit holds)")
+		fs.StringVar(&rev, "rev", "", "check the notebook as commit `REV` holds it")
+	}
 	pos, err := parse(fs, args)
 	if err != nil {
 		return c.usageErr(name, flagMsg(err, ""))
+	}
+	if staged || rev != "" {
+		if staged && rev != "" {
+			return c.usageErr(name, "--staged and --rev exclude each other")
+		}
+		return c.checkGit(pos, staged, rev)
 	}
 	wt, err := c.workTree()
 	if err != nil {
@@ -475,6 +492,45 @@ func selectPaths(rel []string) func(string) bool {
 		}
 		return false
 	}
+}
+
+// checkGit is `cleave check --staged` and `cleave check --rev REV`: the engine over the index
+// or a commit, nothing written.
+func (c *cli) checkGit(pos []string, staged bool, rev string) int {
+	repo, err := hooks.Locate(c.path("."))
+	if err != nil {
+		return c.fail("check", err)
+	}
+	paths := make([]string, len(pos))
+	for i, p := range pos {
+		paths[i] = c.path(p)
+	}
+	rel, err := repo.Rel(paths)
+	if err != nil {
+		return c.fail("check", err)
+	}
+	var rep *compute.Report
+	what := "the index"
+	if staged {
+		rep, err = repo.CheckStaged(rel)
+	} else {
+		var id string
+		rep, id, err = repo.CheckRev(rev, rel)
+		what = "commit " + id[:min(len(id), 12)]
+	}
+	if err != nil {
+		return c.fail("check", err)
+	}
+	lines := rep.Lines()
+	for _, l := range lines {
+		fmt.Fprintln(c.out, l)
+	}
+	fmt.Fprintf(c.err, "cleave check: %s: %d file(s) with calc blocks, %d line(s) evaluated, %d from cache, %d problem(s)\n",
+		what, len(rep.Files), rep.Evaluated, rep.CacheHits, len(lines))
+	if !rep.OK() {
+		return 1
+	}
+	return 0
 }
 
 // workTree is the notebook the command runs in, with the tool's state folder under its git
@@ -658,6 +714,209 @@ func runServe(c *cli, args []string) int {
 	}
 	if err := hs.Serve(ln); err != nil && !errors.Is(err, http.ErrServerClosed) {
 		return c.fail("serve", err)
+	}
+	return 0
+}
+
+func runHistory(c *cli, args []string) int {
+	fs := c.flags("history")
+	rev := fs.String("rev", "HEAD", "read the lineage at commit `REV` and walk back from it")
+	asJSON := fs.Bool("json", false, "print the history as one JSON object")
+	pos, err := parse(fs, args)
+	if err != nil || len(pos) != 1 {
+		return c.usageErr("history", flagMsg(err, "need one ID"))
+	}
+	repo, err := hooks.Locate(c.path("."))
+	if err != nil {
+		return c.fail("history", err)
+	}
+	h, err := repo.SampleHistory(pos[0], *rev)
+	if err != nil {
+		return c.fail("history", err)
+	}
+	if *asJSON {
+		enc := json.NewEncoder(c.out)
+		enc.SetIndent("", "  ")
+		if err := enc.Encode(h); err != nil {
+			return c.fail("history", err)
+		}
+		return 0
+	}
+	h.WriteText(c.out)
+	return 0
+}
+
+func runReview(c *cli, args []string) int {
+	fs := c.flags("review")
+	asJSON := fs.Bool("json", false, "print the review as one JSON object")
+	asMarkdown := fs.Bool("markdown", false, "print the review as Markdown, ready to paste as a pull-request comment")
+	pos, err := parse(fs, args)
+	if err != nil || len(pos) != 1 {
+		return c.usageErr("review", flagMsg(err, "need one range BASE..HEAD"))
+	}
+	if *asJSON && *asMarkdown {
+		return c.usageErr("review", "--json and --markdown exclude each other")
+	}
+	repo, err := hooks.Locate(c.path("."))
+	if err != nil {
+		return c.fail("review", err)
+	}
+	rv, err := repo.ReviewRange(pos[0])
+	if err != nil {
+		return c.fail("review", err)
+	}
+	switch {
+	case *asJSON:
+		enc := json.NewEncoder(c.out)
+		enc.SetIndent("", "  ")
+		if err := enc.Encode(rv); err != nil {
+			return c.fail("review", err)
+		}
+	case *asMarkdown:
+		rv.WriteMarkdown(c.out)
+	default:
+		rv.WriteText(c.out)
+	}
+	return 0
+}
+
+func runHooks(c *cli, args []string) int {
+	if len(args) == 0 {
+		return c.usageErr("hooks", "need install, uninstall, pre-commit or merge")
+	}
+	sub, rest := args[0], args[1:]
+	switch sub {
+	case "install", "uninstall":
+		pos, err := parse(c.flags("hooks"), rest)
+		if err != nil || len(pos) > 0 {
+			return c.usageErr("hooks", flagMsg(err, sub+" takes no arguments"))
+		}
+		var done []string
+		if sub == "install" {
+			bin, _ := os.Executable()
+			done, err = hooks.Install(c.path("."), bin)
+		} else {
+			done, err = hooks.Uninstall(c.path("."))
+		}
+		for _, d := range done {
+			fmt.Fprintln(c.out, d)
+		}
+		if err != nil {
+			return c.fail("hooks "+sub, err)
+		}
+		return 0
+	case "pre-commit", "pre-merge-commit":
+		fs := c.flags("hooks")
+		framework := fs.Bool("framework", false, "leave the index alone: write results into the work tree and fail (for the general-purpose hook framework)")
+		pos, err := parse(fs, rest)
+		if err != nil || len(pos) > 0 {
+			return c.usageErr("hooks", flagMsg(err, sub+" takes no arguments"))
+		}
+		mode := hooks.StageResults
+		switch {
+		case *framework:
+			mode = hooks.FixWorkTree
+		case sub == "pre-merge-commit":
+			mode = hooks.StageAndStop
+		}
+		h, err := hooks.PreCommit(c.path("."), mode)
+		if err != nil {
+			return c.fail("pre-commit", err)
+		}
+		return c.hookReport("cleave "+sub, h, mode)
+	case "merge":
+		return c.mergeDriver(rest)
+	}
+	return c.usageErr("hooks", fmt.Sprintf("unknown subcommand %q", sub))
+}
+
+// mergeDriver is `cleave hooks merge O A B L P`, run by git as the merge driver: exit 0 for a
+// clean merge, 1 when conflicts are left with markers, and above 128 when nothing could be
+// written (git then stops the merge rather than take the current side as merged).
+func (c *cli) mergeDriver(args []string) int {
+	if len(args) != 5 {
+		return c.usageErr("hooks", "merge needs the ancestor, current and other files, the marker size and the path (%O %A %B %L %P)")
+	}
+	size, err := strconv.Atoi(args[3])
+	if err != nil || size <= 0 {
+		return c.usageErr("hooks", fmt.Sprintf("merge: marker size %q is not a positive number", args[3]))
+	}
+	root, err := c.root()
+	if err != nil {
+		root = "" // no work tree (a bare repository): nothing to recompute in
+	}
+	res, err := hooks.MergeDriver(root, args[0], args[1], args[2], size, args[4])
+	if err != nil {
+		fmt.Fprintf(c.err, "cleave merge driver: %s: %v\n", args[4], err)
+		return 255
+	}
+	switch {
+	case res.Conflicts > 0:
+		fmt.Fprintf(c.err, "cleave merge driver: %s: %d conflict(s) left with markers", args[4], res.Conflicts)
+		if res.Resolved > 0 {
+			fmt.Fprintf(c.err, "; %d conflict(s) inside result regions resolved (recompute after resolving the rest)", res.Resolved)
+		}
+		fmt.Fprintln(c.err)
+		return 1
+	case res.Recomputed:
+		fmt.Fprintf(c.err, "cleave merge driver: %s: %d conflict(s) inside result regions resolved by recomputing the merged file\n", args[4], res.Resolved)
+	case res.Resolved > 0:
+		fmt.Fprintf(c.err, "cleave merge driver: %s: %d conflict(s) inside result regions resolved with the current side's results (%s)\n", args[4], res.Resolved, res.Note)
+	}
+	return 0
+}
+
+// hookReport prints what the pre-commit hook found and did, and returns the exit code that lets
+// the commit go on (0) or stops it (1).
+func (c *cli) hookReport(name string, h *hooks.HookReport, mode hooks.HookMode) int {
+	if h.Operation != "" {
+		name += " (during a " + h.Operation + ")"
+	}
+	if len(h.Unmerged) > 0 {
+		for _, p := range h.Unmerged {
+			fmt.Fprintf(c.out, "%s:1:1: unmerged: resolve the conflict and git add the file\n", p)
+		}
+		fmt.Fprintf(c.err, "%s: resolve the conflicts first; nothing was changed\n", name)
+		return 1
+	}
+	rep := h.Report
+	for _, l := range rep.Lines() {
+		fmt.Fprintln(c.out, l)
+	}
+	if h.Blocked(mode) {
+		switch {
+		case h.Failed():
+			fmt.Fprintf(c.err, "%s: the staged notebook has the problems listed above; fix them and stage the fix (or commit with --no-verify); nothing was changed\n", name)
+		case mode == hooks.StageAndStop:
+			for _, p := range h.Staged {
+				fmt.Fprintf(c.out, "recomputed %s\n", p)
+			}
+			fmt.Fprintf(c.err, "%s: the merged notebook had stale results; they are recomputed and staged. git writes a merge commit before this hook runs, so it stops here: run `git commit` to conclude the merge with them\n", name)
+		case h.TempIndex:
+			fmt.Fprintf(c.err, "%s: the results listed above are stale in what this commit holds, and `git commit PATH...` commits a temporary index that the hook cannot update; nothing was changed.\nStage the files and commit without paths, so the hook recomputes them in the index:\n    git add PATH... && git commit\n", name)
+		default:
+			for _, p := range h.WorkTree {
+				fmt.Fprintf(c.out, "recomputed %s in the work tree\n", p)
+			}
+			for _, k := range h.Kept {
+				fmt.Fprintf(c.out, "kept %s\n", k)
+			}
+			fmt.Fprintf(c.err, "%s: results were stale and are recomputed in the work tree; review and stage them, then commit again\n", name)
+		}
+		return 1
+	}
+	if len(h.Staged) > 0 {
+		for _, p := range h.Staged {
+			where := "index"
+			if slices.Contains(h.WorkTree, p) {
+				where = "index and work tree"
+			}
+			fmt.Fprintf(c.out, "recomputed %s (%s)\n", p, where)
+		}
+		for _, k := range h.Kept {
+			fmt.Fprintf(c.out, "kept %s\n", k)
+		}
+		fmt.Fprintf(c.err, "%s: %d file(s) with stale results recomputed and staged; the commit goes on\n", name, len(h.Staged))
 	}
 	return 0
 }

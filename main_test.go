@@ -10,6 +10,7 @@ import (
 	"os/exec"
 	"path/filepath"
 	"strings"
+	"sync"
 	"testing"
 )
 
@@ -22,18 +23,28 @@ func cleave(t *testing.T, args ...string) (int, string, string) {
 }
 
 // demo writes the demo notebook once per test binary run, into a folder TestMain removes.
-var demoDir, scratch string
+var (
+	demoDir, scratch string
+	demoMu           sync.Mutex
+)
 
 func TestMain(m *testing.M) {
-	// The test binary doubles as the cleave binary for tests that need a process of their
-	// own (to kill it): see cleaveProcess.
+	// The test binary doubles as the cleave binary: for tests that need a process of their own
+	// (to kill it, see cleaveProcess), and because git runs hooks and merge drivers as programs
+	// (the `cleave` on the PATH of the tests is a script that runs this test binary).
 	if os.Getenv(asCLI) == "1" {
 		os.Exit(run(os.Args[1:], os.Stdout, os.Stderr))
 	}
 	flag.Parse()
+	// git reads no configuration of the machine or the user in these tests.
+	os.Setenv("GIT_CONFIG_NOSYSTEM", "1")
+	os.Setenv("GIT_CONFIG_GLOBAL", os.DevNull)
 	var err error
 	scratch, err = os.MkdirTemp("", "cleave-test-")
 	if err != nil {
+		panic(err)
+	}
+	if err := cliOnPath(scratch); err != nil {
 		panic(err)
 	}
 	code := m.Run()
@@ -41,8 +52,27 @@ func TestMain(m *testing.M) {
 	os.Exit(code)
 }
 
+// cliOnPath puts a `cleave` script that runs this test binary first on the PATH.
+func cliOnPath(dir string) error {
+	self, err := os.Executable()
+	if err != nil {
+		return err
+	}
+	bin := filepath.Join(dir, "bin")
+	if err := os.MkdirAll(bin, 0o755); err != nil {
+		return err
+	}
+	script := fmt.Sprintf("#!/bin/sh\nCLEAVE_TEST_AS_CLI=1 exec '%s' \"$@\"\n", self)
+	if err := os.WriteFile(filepath.Join(bin, "cleave"), []byte(script), 0o755); err != nil {
+		return err
+	}
+	return os.Setenv("PATH", bin+string(os.PathListSeparator)+os.Getenv("PATH"))
+}
+
 func demoNotebook(t *testing.T) string {
 	t.Helper()
+	demoMu.Lock()
+	defer demoMu.Unlock()
 	if demoDir != "" {
 		return demoDir
 	}

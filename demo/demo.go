@@ -8,6 +8,7 @@ import (
 	"io"
 	"io/fs"
 	"os"
+	"os/exec"
 	"path"
 	"path/filepath"
 	"strings"
@@ -29,6 +30,9 @@ type demoStep struct {
 	edit    func(dir string) error
 	data    []string // cooldowns (or wafers) whose synthetic data files this step writes
 	narrate string   // what the demo tells the user about this step
+	// viaHook commits the step with `git commit -a`, so the pre-commit hook recomputes the
+	// staged notebook (the other steps recompute first and commit directly).
+	viaHook bool
 }
 
 // maskTypo is the probe position first entered for probe 4 of HB100; the story corrects it.
@@ -60,7 +64,7 @@ var demoStory = []demoStep{
 		edit: func(dir string) error {
 			return replaceIn(filepath.Join(dir, "masks", "HB100.md"), maskTypo, maskRight)
 		},
-		narrate: "the mask correction: every result that depends on the probe spacing changes"},
+		narrate: "the mask correction: every result that depends on the probe spacing changes", viaHook: true},
 	{when: "2024-04-09T19:30:00Z", who: "RS", message: "CD24-002: W24-031-A-HB1 again after illumination",
 		paths: []string{"cooldowns/CD24-002.md"}, data: []string{"CD24-002"},
 		narrate: "second cooldown of the same device after a red LED pulse (persistent photoconductivity)"},
@@ -75,7 +79,9 @@ var demoStory = []demoStep{
 // scorecardHeading starts the section of the demo wafers that the last step of the story adds.
 const scorecardHeading = "\n## Scorecard\n"
 
-var demoPeople = map[string]string{"AK": "A. K.", "JM": "J. M.", "RS": "R. S."}
+// demoPeople are the invented authors, by initials (git would drop a final full stop from a
+// name, so the initials go without).
+var demoPeople = map[string]string{"AK": "AK", "JM": "JM", "RS": "RS"}
 
 // Run writes the demo notebook (an invented lab's wafers, mask, pieces, process, devices and
 // cooldowns, with synthetic data files) into dir — a new temporary folder when dir is "" —
@@ -99,7 +105,9 @@ func Run(scenario fs.FS, dir string, out io.Writer) error {
 	if _, err := hooks.InitNotebook(abs, nil); err != nil {
 		return err
 	}
-	fmt.Fprintf(out, "cleave demo: writing an invented lab's notebook to %s\n\n", abs)
+	fmt.Fprintf(out, "cleave demo: writing an invented lab's notebook to %s\n", abs)
+	withGit := installHooks(abs, out)
+	fmt.Fprintln(out)
 	for i, st := range demoStory {
 		for _, p := range st.paths {
 			if err := copyTree(scenario, p, abs); err != nil {
@@ -123,6 +131,12 @@ func Run(scenario fs.FS, dir string, out io.Writer) error {
 			}
 		}
 		fmt.Fprintf(out, "step %d (%s, %s): %s\n", i+1, st.when[:10], st.who, st.narrate)
+		if st.viaHook && withGit {
+			if err := commitThroughHook(abs, st, out); err != nil {
+				return fmt.Errorf("demo step %d: %w", i+1, err)
+			}
+			continue
+		}
 		// A colleague brings the results up to date before committing; what the run found
 		// stale is what `cleave check` would have listed (after the mask correction: the
 		// results that depend on the probe spacing, old → new).
@@ -163,12 +177,69 @@ func Run(scenario fs.FS, dir string, out io.Writer) error {
 			return err
 		}
 	}
-	return demoSummary(abs, out)
+	return demoSummary(abs, out, withGit)
+}
+
+// installHooks sets up the pre-commit hook and the merge driver in the demo notebook, as a lab
+// would in its own (`cleave hooks install`); their .gitattributes line goes into the first
+// commit. It reports false when git is not on the PATH: the story is then committed without
+// the hook.
+func installHooks(dir string, out io.Writer) bool {
+	if _, err := exec.LookPath("git"); err != nil {
+		fmt.Fprintln(out, "(git is not on the PATH: the hooks are not installed, and every step is committed directly)")
+		return false
+	}
+	// A hooks folder set for every repository of this user (core.hooksPath in the global
+	// configuration) is not the demo's to change: the demo keeps its hooks in its own .git.
+	if p, err := gitOutput(dir, nil, "config", "--get", "core.hooksPath"); err == nil && strings.TrimSpace(p) != "" {
+		if _, err := gitOutput(dir, nil, "config", "core.hooksPath", ".git/hooks"); err != nil {
+			fmt.Fprintf(out, "(the hooks are not installed: %v)\n", err)
+			return false
+		}
+	}
+	bin, _ := os.Executable()
+	if _, err := hooks.Install(dir, bin); err != nil {
+		fmt.Fprintf(out, "(the hooks are not installed: %v)\n", err)
+		return false
+	}
+	fmt.Fprintln(out, "$ cleave hooks install    (a pre-commit hook that recomputes staged results, and the merge driver)")
+	return true
+}
+
+// commitThroughHook commits a step with `git commit -a`: git runs the pre-commit hook, which
+// recomputes the results the step made stale in the index and the work tree. What the hook
+// prints is shown to the user.
+func commitThroughHook(dir string, st demoStep, out io.Writer) error {
+	env := []string{
+		"GIT_AUTHOR_NAME=" + demoPeople[st.who], "GIT_AUTHOR_EMAIL=" + strings.ToLower(st.who) + "@lab.invalid", "GIT_AUTHOR_DATE=" + st.when,
+		"GIT_COMMITTER_NAME=" + demoPeople[st.who], "GIT_COMMITTER_EMAIL=" + strings.ToLower(st.who) + "@lab.invalid", "GIT_COMMITTER_DATE=" + st.when,
+	}
+	fmt.Fprintln(out, "  git commit -a runs the pre-commit hook, which recomputes the staged notebook:")
+	msg, err := gitOutput(dir, env, "-c", "commit.gpgsign=false", "commit", "-q", "-a", "-m", st.message)
+	for _, l := range strings.Split(strings.TrimRight(msg, "\n"), "\n") {
+		if l != "" {
+			fmt.Fprintf(out, "    %s\n", l)
+		}
+	}
+	if err != nil {
+		return fmt.Errorf("git commit: %w", err)
+	}
+	return nil
+}
+
+// gitOutput runs git in dir and returns what it printed (stdout and stderr together).
+func gitOutput(dir string, env []string, args ...string) (string, error) {
+	cmd := exec.Command("git", args...)
+	cmd.Dir = dir
+	cmd.Env = append(os.Environ(), env...)
+	b, err := cmd.CombinedOutput()
+	return string(b), err
 }
 
 // demoSummary validates the finished notebook, prints its lineage and the numbers a group
-// would report, and points to what to look at next.
-func demoSummary(dir string, out io.Writer) error {
+// would report, points to what to look at next and ends with the life of one device and the
+// review of the mask correction, as a pull request would show it.
+func demoSummary(dir string, out io.Writer, withGit bool) error {
 	nb, err := notebook.LoadDir(dir)
 	if err != nil {
 		return err
@@ -237,12 +308,41 @@ What to look at next:
   cleave check                        what CI runs: exits 1 on a stale result or an invalid entry
   edit a width in masks/HB100.md, then: cleave check; cleave calc
   cleave serve                        a live preview of the site at http://127.0.0.1:8765/
+  edit it again and git commit -a     the pre-commit hook recomputes what you stage
+  cleave history CD24-001             a cooldown's life, with its data files
+  cleave review HEAD~4..HEAD~3 --markdown
+                                      the mask correction as a pull-request comment
 `, dir)
 	if len(probs) > 0 || !rep.OK() {
 		return errors.New("the demo notebook has problems (listed above)")
 	}
+	if !withGit {
+		return nil
+	}
+	repo, err := hooks.Locate(dir)
+	if err != nil {
+		return err
+	}
+	fmt.Fprintf(out, "\n$ cleave history %s\n", historySample)
+	h, err := repo.SampleHistory(historySample, "")
+	if err != nil {
+		return err
+	}
+	h.WriteText(out)
+	fmt.Fprintf(out, "\n$ cleave review %s      (the mask correction, reviewed as a pull request)\n", maskCorrection)
+	rv, err := repo.ReviewRange(maskCorrection)
+	if err != nil {
+		return err
+	}
+	rv.WriteText(out)
 	return nil
 }
+
+// The device whose history the demo shows, and the range of the mask correction.
+const (
+	historySample  = "W24-031-A-HB1"
+	maskCorrection = "HEAD~4..HEAD~3"
+)
 
 var demoResults = []struct {
 	file  string
