@@ -1,9 +1,11 @@
 package hooks
 
 import (
+	"cleave/calc/plot"
 	"fmt"
 	"io/fs"
 	"math"
+	"path"
 	"sort"
 	"strings"
 	"testing/fstest"
@@ -340,8 +342,8 @@ func (rd *reviewer) dataFiles(changed []changedFile) {
 		}
 	}
 	for _, c := range changed {
-		if strings.HasSuffix(c.path, ".md") {
-			continue
+		if strings.HasSuffix(c.path, ".md") || isPlotFile(c.path) {
+			continue // entries are reported by lineage; plot files follow their results
 		}
 		dc := DataChange{Path: c.path, Status: "modified", OldSize: -1, NewSize: -1, ReadBy: readers[c.path]}
 		if dc.ReadBy == nil {
@@ -674,4 +676,11 @@ func temperatureText(T float64) string {
 		return "low temperature"
 	}
 	return quantity.Format(quantity.New(T, quantity.Temperature))
+}
+
+// isPlotFile reports whether p is an SVG in a plots folder the tool owns (written by `cleave
+// calc` beside an entry): a drawing of results already reviewed, not a data file.
+func isPlotFile(p string) bool {
+	dir := path.Dir(p)
+	return strings.HasSuffix(p, ".svg") && (path.Base(path.Dir(dir)) == plot.Dir || path.Base(dir) == plot.Dir)
 }
