@@ -24,10 +24,11 @@ type File struct {
 	Path  string // slash path relative to the notebook root
 	Entry *Entry
 
-	problems []Problem // found in this file alone (see Summary.Problems)
-	fence    bool      // may hold a calc block
-	plots    bool      // may hold the result of a plot line
-	data     []DataRef // the data files a cooldown lists
+	problems []Problem     // found in this file alone (see Summary.Problems)
+	fence    bool          // may hold a calc block
+	plots    bool          // may hold the result of a plot line
+	contacts *ContactFacts // what the contact checks need of its entry
+	data     []DataRef     // the data files a cooldown lists
 
 	fsys     fs.FS
 	once     sync.Once

@@ -212,6 +212,7 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 			}
 			probs = append(probs, e.ownProblems()...)
 			f.data = e.dataRefs()
+			f.contacts = e.contactFacts()
 		}
 	}
 	f.problems = probs
@@ -220,7 +221,7 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 
 // knownFile makes a file from its summary, to be read when asked.
 func knownFile(fsys fs.FS, s *Summary) *File {
-	f := &File{Path: s.Path, fsys: fsys, fromSumm: true, problems: s.Problems, fence: s.Fence, plots: s.Plots, data: s.Data}
+	f := &File{Path: s.Path, fsys: fsys, fromSumm: true, problems: s.Problems, fence: s.Fence, plots: s.Plots, data: s.Data, contacts: s.Contacts}
 	if s.Entry {
 		f.Entry = &Entry{ID: s.ID, Kind: s.Kind, Path: s.Path, file: f, sum: s}
 	}

@@ -23,14 +23,15 @@ type Summary struct {
 	MetaPos  Pos // the front matter's first field
 	Links    []Link
 	Data     []DataRef
-	Problems []Problem // found in this file alone: parse, front matter, schema, layer table
-	Fence    bool      // the file may hold a calc block
-	Plots    bool      // the file may hold the result of a plot line
+	Problems []Problem     // found in this file alone: parse, front matter, schema, layer table
+	Fence    bool          // the file may hold a calc block
+	Plots    bool          // the file may hold the result of a plot line
+	Contacts *ContactFacts // what the contact checks need (masks, devices, cooldowns)
 }
 
 // Summary returns what the notebook knows of the file without reading it again.
 func (f *File) Summary() *Summary {
-	s := &Summary{Path: f.Path, Problems: f.problems, Fence: f.fence, Plots: f.plots, Data: f.data}
+	s := &Summary{Path: f.Path, Problems: f.problems, Fence: f.fence, Plots: f.plots, Data: f.data, Contacts: f.contacts}
 	if e := f.Entry; e != nil {
 		if e.sum != nil {
 			c := *e.sum

@@ -656,29 +656,100 @@ func maskShapeProblems(e *Entry) []Problem {
 	return ps
 }
 
+// ContactRef is a contact name an entry's front matter uses, with the key it sits under and
+// its position.
+type ContactRef struct {
+	Key, Name string
+	Line, Col int
+}
+
+// ContactFacts is what the contact checks need of an entry, read once when it is loaded (and
+// kept in its summary, so the checks read no file known unchanged): a mask's contact names; a
+// device's mask, bonding map and good contacts; a cooldown's wiring.
+type ContactFacts struct {
+	Mask       []string     // a mask: the contact names it defines (MaskContacts)
+	MaskID     string       // a device: its `mask:` id
+	Bonding    []ContactRef // a device: pin → contact
+	Good       []ContactRef // a device: its good contacts
+	GoodListed bool         // a device: good_contacts is a non-empty list
+	Wiring     []ContactRef // a cooldown: channel → the entry's text (a pair such as "1 -> 5")
+}
+
+// contactFacts reads what the contact checks need from the entry's front matter.
+func (e *Entry) contactFacts() *ContactFacts {
+	ref := func(key string, n *yaml.Node) ContactRef {
+		l, c := e.Pos(n)
+		return ContactRef{Key: key, Name: strings.TrimSpace(n.Value), Line: l, Col: c}
+	}
+	cf := &ContactFacts{}
+	switch e.Kind {
+	case KindMask:
+		cf.Mask = MaskContacts(e)
+	case KindDevice:
+		cf.MaskID, _ = e.Text("mask")
+		if b, ok := e.Field("bonding"); ok && b.Kind == yaml.MappingNode {
+			for i := 0; i+1 < len(b.Content); i += 2 {
+				if v := deref(b.Content[i+1]); v != nil && v.Kind == yaml.ScalarNode && v.Value != "" {
+					cf.Bonding = append(cf.Bonding, ref(b.Content[i].Value, v))
+				}
+			}
+		}
+		if g, ok := e.Field("good_contacts"); ok && g.Kind == yaml.SequenceNode {
+			cf.GoodListed = len(g.Content) > 0 // an empty list is not recorded yet
+			for _, v := range g.Content {
+				if v = deref(v); v != nil && v.Kind == yaml.ScalarNode {
+					cf.Good = append(cf.Good, ref("", v))
+				}
+			}
+		}
+	case KindCooldown:
+		if w, ok := e.Field("wiring"); ok && w.Kind == yaml.MappingNode {
+			for i := 0; i+1 < len(w.Content); i += 2 {
+				if v := deref(w.Content[i+1]); v != nil && v.Kind == yaml.ScalarNode {
+					cf.Wiring = append(cf.Wiring, ref(w.Content[i].Value, v))
+				}
+			}
+		}
+	default:
+		return nil
+	}
+	return cf
+}
+
+// facts are the entry's contact facts (nil for other kinds).
+func (e *Entry) facts() *ContactFacts {
+	if e.file == nil {
+		return nil
+	}
+	return e.file.contacts
+}
+
 // checkContacts reports contacts a device's bonding map or good contacts, or a cooldown's
 // wiring, name but its mask does not define, and wired contacts that are not among the
 // device's good contacts.
 func (nb *Notebook) checkContacts(e *Entry) []Problem {
 	var ps []Problem
-	at := func(n *yaml.Node, format string, args ...any) {
-		l, c := e.Pos(n)
-		ps = append(ps, Problem{Path: e.Path, Line: l, Col: max(c, 1), Msg: fmt.Sprintf(format, args...)})
+	at := func(r ContactRef, format string, args ...any) {
+		ps = append(ps, Problem{Path: e.Path, Line: r.Line, Col: max(r.Col, 1), Msg: fmt.Sprintf(format, args...)})
 	}
 	maskOf := func(d *Entry) (*Entry, []string) {
-		id, ok := d.Text("mask")
-		if !ok {
+		df := d.facts()
+		if df == nil || df.MaskID == "" {
 			return nil, nil
 		}
-		m, ok := nb.Entry(id)
-		if !ok || m.Kind != KindMask {
+		m, ok := nb.Entry(df.MaskID)
+		if !ok || m.Kind != KindMask || m.facts() == nil {
 			return nil, nil // a dangling link, reported elsewhere
 		}
-		names := MaskContacts(m)
+		names := m.facts().Mask
 		if len(names) == 0 {
 			return nil, nil // a mask that names no contacts: nothing to check against
 		}
 		return m, names
+	}
+	ef := e.facts()
+	if ef == nil {
+		return nil
 	}
 	switch e.Kind {
 	case KindDevice:
@@ -686,67 +757,55 @@ func (nb *Notebook) checkContacts(e *Entry) []Problem {
 		if m == nil {
 			return nil
 		}
-		if b, ok := e.Field("bonding"); ok && b.Kind == yaml.MappingNode {
-			for i := 0; i+1 < len(b.Content); i += 2 {
-				v := deref(b.Content[i+1])
-				if v != nil && v.Kind == yaml.ScalarNode && v.Value != "" && !slices.Contains(names, strings.TrimSpace(v.Value)) {
-					at(v, "bonding: %s: contact %q is not on mask %s (its contacts: %s)", b.Content[i].Value, v.Value, m.ID, contactList(names))
-				}
+		for _, r := range ef.Bonding {
+			if !slices.Contains(names, r.Name) {
+				at(r, "bonding: %s: contact %q is not on mask %s (its contacts: %s)", r.Key, r.Name, m.ID, contactList(names))
 			}
 		}
-		if g, ok := e.Field("good_contacts"); ok && g.Kind == yaml.SequenceNode {
-			for _, v := range g.Content {
-				if v = deref(v); v != nil && v.Kind == yaml.ScalarNode && !slices.Contains(names, strings.TrimSpace(v.Value)) {
-					at(v, "good_contacts: %q is not a contact of mask %s (its contacts: %s)", v.Value, m.ID, contactList(names))
-				}
+		for _, r := range ef.Good {
+			if !slices.Contains(names, r.Name) {
+				at(r, "good_contacts: %q is not a contact of mask %s (its contacts: %s)", r.Name, m.ID, contactList(names))
 			}
 		}
 	case KindCooldown:
-		w, ok := e.Field("wiring")
-		if !ok || w.Kind != yaml.MappingNode {
+		if len(ef.Wiring) == 0 {
 			return nil
 		}
 		var names, good, devs []string
 		anyGood := false
-		for _, l := range e.Links() {
+		for _, l := range e.links() {
 			if l.Field != "devices" {
 				continue
 			}
 			d, ok := nb.Entry(l.ID)
-			if !ok || d.Kind != KindDevice {
+			if !ok || d.Kind != KindDevice || d.facts() == nil {
 				continue
 			}
 			devs = append(devs, d.ID)
 			if _, ns := maskOf(d); ns != nil {
 				names = append(names, ns...)
 			}
-			if g, ok := d.Field("good_contacts"); ok && g.Kind == yaml.SequenceNode && len(g.Content) > 0 {
-				anyGood = true // an empty list is not recorded yet
-				for _, v := range g.Content {
-					if v = deref(v); v != nil && v.Kind == yaml.ScalarNode {
-						good = append(good, strings.TrimSpace(v.Value))
-					}
+			if d.facts().GoodListed {
+				anyGood = true
+				for _, g := range d.facts().Good {
+					good = append(good, g.Name)
 				}
 			}
 		}
 		if len(names) == 0 {
 			return nil
 		}
-		for i := 0; i+1 < len(w.Content); i += 2 {
-			v := deref(w.Content[i+1])
-			if v == nil || v.Kind != yaml.ScalarNode {
-				continue
-			}
-			a, b, ok := parseWiringPair(v.Value)
+		for _, r := range ef.Wiring {
+			a, b, ok := parseWiringPair(r.Name)
 			if !ok {
 				continue
 			}
 			for _, c := range []string{a, b} {
 				switch {
 				case !slices.Contains(names, c):
-					at(v, "wiring: %s: contact %q is not on the mask of %s (its contacts: %s)", w.Content[i].Value, c, strings.Join(devs, ", "), contactList(names))
+					at(r, "wiring: %s: contact %q is not on the mask of %s (its contacts: %s)", r.Key, c, strings.Join(devs, ", "), contactList(names))
 				case anyGood && !slices.Contains(good, c):
-					at(v, "wiring: %s: contact %q is not among the good contacts of %s", w.Content[i].Value, c, strings.Join(devs, ", "))
+					at(r, "wiring: %s: contact %q is not among the good contacts of %s", r.Key, c, strings.Join(devs, ", "))
 				}
 			}
 		}

@@ -68,7 +68,7 @@ type cacheRec struct {
 
 type depValue struct{ name, value string }
 
-const cacheHeader = "cleave-engine-cache 5\n"
+const cacheHeader = "cleave-engine-cache 6\n"
 
 // cacheShards is how many files the cache is kept in.
 const cacheShards = 16

@@ -52,6 +52,7 @@ func appendFileRec(b []byte, r *fileRec) []byte {
 		}
 		b = appendBool(b, s.Fence)
 		b = appendBool(b, s.Plots)
+		b = appendContacts(b, s.Contacts)
 	}
 	if r.digest != "" {
 		b = appendStr(b, r.digest)
@@ -122,6 +123,7 @@ func (d *decoder) fileRec(p string) *fileRec {
 		}
 		s.Fence = d.bool()
 		s.Plots = d.bool()
+		s.Contacts = d.contacts()
 		r.sum = s
 	}
 	if flags&hasDigest != 0 {
@@ -141,4 +143,46 @@ func (d *decoder) fileRec(p string) *fileRec {
 		r.report = rep
 	}
 	return r
+}
+
+func appendContacts(b []byte, cf *notebook.ContactFacts) []byte {
+	if cf == nil {
+		return appendBool(b, false)
+	}
+	b = appendBool(b, true)
+	b = binary.AppendUvarint(b, uint64(len(cf.Mask)))
+	for _, m := range cf.Mask {
+		b = appendStr(b, m)
+	}
+	b = appendStr(b, cf.MaskID)
+	b = appendBool(b, cf.GoodListed)
+	for _, rs := range [][]notebook.ContactRef{cf.Bonding, cf.Good, cf.Wiring} {
+		b = binary.AppendUvarint(b, uint64(len(rs)))
+		for _, r := range rs {
+			b = appendStr(appendStr(b, r.Key), r.Name)
+			b = appendPos(b, notebook.Pos{Line: r.Line, Col: r.Col})
+		}
+	}
+	return b
+}
+
+func (d *decoder) contacts() *notebook.ContactFacts {
+	if !d.bool() {
+		return nil
+	}
+	cf := &notebook.ContactFacts{}
+	for range d.count() {
+		cf.Mask = append(cf.Mask, d.str())
+	}
+	cf.MaskID = d.str()
+	cf.GoodListed = d.bool()
+	for _, rs := range []*[]notebook.ContactRef{&cf.Bonding, &cf.Good, &cf.Wiring} {
+		for range d.count() {
+			r := notebook.ContactRef{Key: d.str(), Name: d.str()}
+			p := d.pos()
+			r.Line, r.Col = p.Line, p.Col
+			*rs = append(*rs, r)
+		}
+	}
+	return cf
 }
