@@ -119,11 +119,12 @@ func (c *Cache) fileAt(p, stamp string) *fileRec {
 		return nil
 	}
 	c.mu.Lock()
-	defer c.mu.Unlock()
-	if r, ok := c.curFiles[p]; ok && r.stamp == stamp {
+	r, ok := c.curFiles[p]
+	c.mu.Unlock()
+	if ok && r.stamp == stamp {
 		return r
 	}
-	if r, ok := c.files[p]; ok && r.stamp == stamp {
+	if r, ok := c.files[p]; ok && r.stamp == stamp { // files is only changed by Save
 		return r
 	}
 	return nil
@@ -177,10 +178,10 @@ func (c *Cache) lookup(rs *runState, path, key string, n int) ([]calcblock.Outco
 func (c *Cache) find(rs *runState, path, key string, n int) (*cacheRec, bool) {
 	c.mu.Lock()
 	r, ok := c.cur[path]
-	if !ok {
-		r, ok = c.old[path]
-	}
 	c.mu.Unlock()
+	if !ok {
+		r, ok = c.old[path] // old is only changed by Save, never during a run
+	}
 	if !ok || r.key != key || len(r.outs) != n {
 		return nil, false
 	}
@@ -189,9 +190,6 @@ func (c *Cache) find(rs *runState, path, key string, n int) (*cacheRec, bool) {
 			return nil, false
 		}
 	}
-	c.mu.Lock()
-	c.cur[path] = r
-	c.mu.Unlock()
 	return r, true
 }
 
@@ -410,16 +408,11 @@ func (d *decoder) str() string {
 
 // current is the value dependency name has now (memoised for the run; see the `deps` type).
 func (rs *runState) current(name string) string {
-	rs.mu.Lock()
-	v, ok := rs.values[name]
-	rs.mu.Unlock()
-	if ok {
-		return v
+	if v, ok := rs.values.Load(name); ok {
+		return v.(string)
 	}
-	v = rs.compute(name)
-	rs.mu.Lock()
-	rs.values[name] = v
-	rs.mu.Unlock()
+	v := rs.compute(name)
+	rs.values.Store(name, v)
 	return v
 }
 

@@ -243,8 +243,8 @@ type runState struct {
 
 	mu     sync.Mutex
 	parsed map[string]*parsedFile
-	values map[string]string // current values of dependencies (see current)
-	vals   sync.Map          // records made from entries, shared by the files of the run (see shared)
+	values sync.Map // current values of dependencies (see current), by name
+	vals   sync.Map // records made from entries, shared by the files of the run (see shared)
 }
 
 // shared returns the value made by mk for key, made once per run: the record of an entry's
@@ -268,7 +268,7 @@ func newRunState(fsys fs.FS, nb *notebook.Notebook, salt string) *runState {
 	if salt == "" {
 		salt = EngineSalt()
 	}
-	return &runState{fsys: fsys, nb: nb, salt: salt, parsed: map[string]*parsedFile{}, values: map[string]string{}}
+	return &runState{fsys: fsys, nb: nb, salt: salt, parsed: map[string]*parsedFile{}}
 }
 
 func (rs *runState) parse(f *notebook.File) *parsedFile {
