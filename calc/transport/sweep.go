@@ -257,33 +257,14 @@ type lagFit struct {
 type series struct{ b, y []float64 }
 
 func branchSeries(B, Y []float64, idx []int) series {
-	type pt struct{ b, y float64 }
-	var pts []pt
+	var pts []fieldPoint
 	for _, i := range idx {
 		if !math.IsNaN(B[i]) && !math.IsNaN(Y[i]) {
-			pts = append(pts, pt{B[i], Y[i]})
+			pts = append(pts, fieldPoint{B[i], Y[i]})
 		}
 	}
-	slices.SortFunc(pts, func(a, b pt) int {
-		switch {
-		case a.b < b.b:
-			return -1
-		case a.b > b.b:
-			return 1
-		}
-		return 0
-	})
 	var s series
-	for i := 0; i < len(pts); {
-		j, sum := i, 0.0
-		for j < len(pts) && pts[j].b == pts[i].b {
-			sum += pts[j].y
-			j++
-		}
-		s.b = append(s.b, pts[i].b)
-		s.y = append(s.y, sum/float64(j-i))
-		i = j
-	}
+	s.b, s.y = sortedMeans(pts)
 	return s
 }
 

@@ -1,6 +1,7 @@
 package transport
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"slices"
@@ -67,36 +68,17 @@ func Antisymmetrize(d *Dataset, xcol, ycol string) (*SymResult, error) {
 type branch struct{ b, y []float64 }
 
 func makeBranch(B, R []float64, sign float64) branch {
-	type pt struct{ b, y float64 }
-	var pts []pt
+	var pts []fieldPoint
 	for i := range B {
 		if math.IsNaN(B[i]) || math.IsNaN(R[i]) || math.IsInf(B[i], 0) || math.IsInf(R[i], 0) {
 			continue
 		}
 		if B[i] == 0 || math.Signbit(B[i]) == (sign < 0) {
-			pts = append(pts, pt{math.Abs(B[i]), R[i]})
+			pts = append(pts, fieldPoint{math.Abs(B[i]), R[i]})
 		}
 	}
-	slices.SortFunc(pts, func(a, b pt) int {
-		switch {
-		case a.b < b.b:
-			return -1
-		case a.b > b.b:
-			return 1
-		}
-		return 0
-	})
 	var br branch
-	for i := 0; i < len(pts); {
-		j, s := i, 0.0
-		for j < len(pts) && pts[j].b == pts[i].b {
-			s += pts[j].y
-			j++
-		}
-		br.b = append(br.b, pts[i].b)
-		br.y = append(br.y, s/float64(j-i))
-		i = j
-	}
+	br.b, br.y = sortedMeans(pts)
 	return br
 }
 
@@ -226,4 +208,23 @@ func fieldOffset(b, v, other []float64) (delta, match float64) {
 		return 0, 0
 	}
 	return -sod / sd, sod * sod / (so * sd)
+}
+
+// fieldPoint is one reading: a field and the value read there.
+type fieldPoint struct{ b, y float64 }
+
+// sortedMeans sorts readings by field and averages the values read at the same field.
+func sortedMeans(pts []fieldPoint) (bs, ys []float64) {
+	slices.SortFunc(pts, func(a, b fieldPoint) int { return cmp.Compare(a.b, b.b) })
+	for i := 0; i < len(pts); {
+		j, sum := i, 0.0
+		for j < len(pts) && pts[j].b == pts[i].b {
+			sum += pts[j].y
+			j++
+		}
+		bs = append(bs, pts[i].b)
+		ys = append(ys, sum/float64(j-i))
+		i = j
+	}
+	return bs, ys
 }
