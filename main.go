@@ -464,9 +464,9 @@ func (c *cli) plotFiles(wt compute.WorkTree, rel []string, write bool, nb *noteb
 		return f.MayHoldPlot()
 	}
 	if !write {
-		return plotfiles.Verify(wt.Root, sel)
+		return plotfiles.Verify(wt.Root, nb, sel)
 	}
-	r, err := plotfiles.Sync(wt.Root, sel)
+	r, err := plotfiles.Sync(wt.Root, nb, sel)
 	if err != nil {
 		return nil, err
 	}

@@ -152,7 +152,7 @@ func Run(scenario fs.FS, dir string, out io.Writer) error {
 			return fmt.Errorf("demo step %d: %w", i+1, errors.Join(fails...))
 		}
 		// `cleave calc` also draws the plots its plot(...) lines name.
-		pr, err := plotfiles.Sync(abs, nil)
+		pr, err := plotfiles.Sync(abs, rep.Notebook, nil)
 		if err != nil {
 			return err
 		}

@@ -22,7 +22,6 @@ import (
 	"os"
 	"path"
 	"path/filepath"
-	"sort"
 	"strings"
 
 	"cleave/calc/plot"
@@ -78,16 +77,12 @@ func Refs(p string, raw []byte) []Ref {
 	return out
 }
 
-// Verify reads the plot lines of the Markdown files under root (only those in sel when sel
-// is not nil) and reports each plot file that is missing or whose hash differs from its
+// Verify reads the plot lines of the Markdown files of nb, the notebook at root as a run
+// loaded it (only those in sel when sel is not nil), and reports each plot file that is missing or whose hash differs from its
 // result region, and each plot path two lines of one file name.
-func Verify(root string, sel func(string) bool) ([]Problem, error) {
-	files, err := markdownFiles(root)
-	if err != nil {
-		return nil, err
-	}
+func Verify(root string, nb *notebook.Notebook, sel func(string) bool) ([]Problem, error) {
 	var probs []Problem
-	for _, f := range files {
+	for _, f := range paths(nb) {
 		if sel != nil && !sel(f) {
 			continue
 		}
@@ -147,19 +142,14 @@ type Result struct {
 	Problems []Problem // files that could not be drawn as their result regions say
 }
 
-// Sync brings the plot files of the Markdown files under root (those in sel when sel is not
-// nil) up to date with their result regions: each missing or differing file is drawn again
+// Sync brings the plot files of the Markdown files of nb, the notebook at root as a run
+// loaded it (those in sel when sel is not nil), up to date with their result regions: each missing or differing file is drawn again
 // by evaluating its entry's blocks and written atomically; an SVG in an entry's plots folder
 // that no line names is removed.
-func Sync(root string, sel func(string) bool) (*Result, error) {
-	files, err := markdownFiles(root)
-	if err != nil {
-		return nil, err
-	}
+func Sync(root string, nb *notebook.Notebook, sel func(string) bool) (*Result, error) {
 	res := &Result{}
-	var nb *notebook.Notebook
 	fsys := os.DirFS(root)
-	for _, f := range files {
+	for _, f := range paths(nb) {
 		if sel != nil && !sel(f) {
 			continue
 		}
@@ -177,11 +167,6 @@ func Sync(root string, sel func(string) bool) (*Result, error) {
 			}
 		}
 		if len(stale) > 0 && len(dups) == 0 {
-			if nb == nil {
-				if nb, err = notebook.Load(fsys); err != nil {
-					return nil, err
-				}
-			}
 			figs, err := Draw(fsys, nb, f)
 			if err != nil {
 				return nil, err
@@ -290,26 +275,11 @@ func writeFile(p string, data []byte) error {
 	return err
 }
 
-// markdownFiles lists the *.md files under root (slash paths, sorted), skipping .git and
-// hidden files and folders and the templates folder, as the notebook loader does.
-func markdownFiles(root string) ([]string, error) {
-	var out []string
-	err := filepath.WalkDir(root, func(p string, d fs.DirEntry, err error) error {
-		if err != nil {
-			return err
-		}
-		if d.IsDir() && p != root && (strings.HasPrefix(d.Name(), ".") || p == filepath.Join(root, "templates")) {
-			return filepath.SkipDir
-		}
-		if !d.IsDir() && !strings.HasPrefix(d.Name(), ".") && strings.HasSuffix(d.Name(), ".md") && d.Type().IsRegular() {
-			rel, err := filepath.Rel(root, p)
-			if err != nil {
-				return err
-			}
-			out = append(out, filepath.ToSlash(rel))
-		}
-		return nil
-	})
-	sort.Strings(out)
-	return out, err
+// paths lists the Markdown files of the notebook (as its loader found them), sorted.
+func paths(nb *notebook.Notebook) []string {
+	out := make([]string, len(nb.Files))
+	for i, f := range nb.Files {
+		out[i] = f.Path
+	}
+	return out
 }
