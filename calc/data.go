@@ -102,12 +102,6 @@ func (e *Env) readFile(p, dir, what string) (string, []byte, error) {
 	return name, b, nil
 }
 
-// resolveDataPath returns the cleaned notebook path of p and the path with symbolic links
-// resolved.
-func (e *Env) resolveDataPath(p string) (string, string, error) {
-	return ResolveDataPath(e.fsys, e.dir, p)
-}
-
 // ResolveDataPath applies the rule every data path of a notebook follows (data("...") in calc
 // blocks, a cooldown's `data:` list): p is a slash path relative to dir (a slash path inside
 // fsys, "" or "." for the root); it may not be absolute, use backslashes, or leave the root

@@ -15,6 +15,7 @@ import (
 	"strings"
 	"sync"
 
+	"cleave/notebook/calcblock"
 	"cleave/notebook/mdsrc"
 
 	"go.yaml.in/yaml/v3"
@@ -181,7 +182,7 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 		f.problems = []Problem{{Path: p, Line: 1, Col: 1, Msg: "cannot read: " + errText(err)}}
 		return f, f.problems
 	}
-	f.fence = bytes.Contains(raw, []byte("cleave"))
+	f.fence = bytes.Contains(raw, []byte(calcblock.InfoString))
 	f.plots = bytes.Contains(raw, []byte(PlotMarker))
 	src, err := mdsrc.Parse(raw)
 	f.src = src
