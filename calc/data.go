@@ -97,8 +97,6 @@ func (e *Env) readFile(p, dir, what string) (string, []byte, error) {
 		}
 		return "", nil, fmt.Errorf("reading %s %s: %w", what, name, err)
 	}
-	sum := sha256.Sum256(b)
-	e.addDep("file:"+name, "sha256:"+hex.EncodeToString(sum[:]))
 	return name, b, nil
 }
 

@@ -52,8 +52,9 @@
 //
 // # Data files
 //
-// [Env.OpenData] resolves a data path inside the notebook folder given with [WithFS],
-// records the file and its content hash as a dependency, and hands the bytes to the Env's
+// [Env.OpenData] resolves a data path inside the notebook folder given with [WithFS], reads
+// it through that file system (the engine's records every read: that is how a data file
+// becomes a dependency), and hands the bytes to the Env's
 // [DataLoader] (set with [WithDataLoader]); without one it returns a [DataFile].
 //
 // The package leaves out the formats of data files, plotting, and anything about Markdown:

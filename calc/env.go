@@ -88,7 +88,6 @@ type Env struct {
 	fsys     fs.FS
 	dir      string
 	loader   DataLoader
-	deps     map[string]string // dependency -> content hash ("" for fields)
 }
 
 // Option configures an Env.
@@ -177,7 +176,6 @@ func NewEnv(opts ...Option) *Env {
 		vars:   map[string]Value{},
 		failed: map[string]int{},
 		funcs:  map[string]*Func{},
-		deps:   map[string]string{},
 		dir:    ".",
 	}
 	for _, o := range opts {
@@ -221,30 +219,6 @@ func (e *Env) Var(name string) (Value, bool) {
 // Vars returns the variable names in definition order.
 func (e *Env) Vars() []string { return append([]string(nil), e.order...) }
 
-// Deps returns what evaluation has read so far, sorted and deduplicated: notebook fields
-// as "field:<path>" (e.g. "field:device.width") and data files as "file:<path>".
-func (e *Env) Deps() []string {
-	out := make([]string, 0, len(e.deps))
-	for d := range e.deps {
-		out = append(out, d)
-	}
-	sort.Strings(out)
-	return out
-}
-
-// DepHash returns the content hash ("sha256:<hex>") recorded for a "file:" dependency.
-func (e *Env) DepHash(dep string) (string, bool) {
-	h, ok := e.deps[dep]
-	return h, ok && h != ""
-}
-
-func (e *Env) addDep(d, hash string) { e.deps[d] = hash }
-
-// AddDep records that what is being evaluated depends on something outside the file (for
-// functions registered by the notebook, which read other entries). hash may be empty; the
-// caller's dependency resolver gives current values when a cache checks them.
-func (e *Env) AddDep(dep, hash string) { e.addDep(dep, hash) }
-
 // LineResult is the outcome of one calc line.
 type LineResult struct {
 	Kind    LineKind
@@ -273,9 +247,6 @@ func (e *Env) EvalLine(line string, lineNo int) LineResult {
 	}
 	v, err := e.eval(st.Expr)
 	if err == nil {
-		if r, ok := v.(*Record); ok && r.Path != "" {
-			e.addDep("field:"+r.Path, "")
-		}
 		err = finiteValue(v, st.Expr.Position())
 	}
 	if err != nil {
@@ -364,9 +335,6 @@ func (e *Env) Eval(expr string) (Value, error) {
 	v, err := e.eval(x)
 	if err != nil {
 		return nil, err
-	}
-	if r, ok := v.(*Record); ok && r.Path != "" {
-		e.addDep("field:"+r.Path, "")
 	}
 	if err := finiteValue(v, x.Position()); err != nil {
 		return nil, err

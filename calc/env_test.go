@@ -59,10 +59,6 @@ func TestDeps(t *testing.T) {
 			t.Fatalf("%s: %v", l, r.Err)
 		}
 	}
-	want := []string{"field:device.length", "field:device.mask.arm", "field:device.width", "field:width"}
-	if got := e.Deps(); !equalStrings(got, want) {
-		t.Errorf("Deps() = %v, want %v", got, want)
-	}
 	q := evalQ(t, e, "r")
 	if got, _ := q.In(quantity.MustUnit("Ohm")); !testutil.WithinRel(got, 10, 1e-12) {
 		t.Errorf("r = %g Ohm, want 10 (50 Ohm over 5 squares)", got)
@@ -138,12 +134,6 @@ func TestOpenData(t *testing.T) {
 		if tc.want == "cooldowns/cd-01/raw/hall.csv" && df.Hash != sha(string(b)) {
 			t.Errorf("hash %s, want %s", df.Hash, sha(string(b)))
 		}
-		if got := e.Deps(); len(got) != 1 || got[0] != "file:"+tc.want {
-			t.Errorf("Deps() = %v, want [file:%s]", got, tc.want)
-		}
-		if h, ok := e.DepHash("file:" + tc.want); !ok || h != df.Hash {
-			t.Errorf("DepHash = %q, want %q", h, df.Hash)
-		}
 	}
 
 	// A data loader receives the notebook path and the bytes; its value is OpenData's.
@@ -161,9 +151,6 @@ func TestOpenData(t *testing.T) {
 	}
 	if got := Display(v); got != `name="cooldowns/cd-01/raw/hall.csv", lines=3.0000` {
 		t.Errorf("loader gave %s, want the path and 3 lines", got)
-	}
-	if _, ok := e.DepHash("file:cooldowns/cd-01/raw/hall.csv"); !ok {
-		t.Error("a loaded file is not recorded as a dependency")
 	}
 	// Without a notebook folder, nothing can be read, and a bad path is said first.
 	if _, err := NewEnv().OpenData("raw/hall.csv"); err == nil || !strings.Contains(err.Error(), "no notebook folder is open") {

@@ -484,7 +484,6 @@ func (e *Env) field(n *FieldAccess, x Value) (Value, error) {
 			cp.Path = path
 			return &cp, nil
 		}
-		e.addDep("field:"+path, "")
 	}
 	return v, nil
 }
@@ -548,9 +547,6 @@ func (e *Env) evalCall(n *Call) (Value, error) {
 		v, err := e.eval(a.Value)
 		if err != nil {
 			return nil, err
-		}
-		if r, ok := v.(*Record); ok && r.Path != "" {
-			e.addDep("field:"+r.Path, "")
 		}
 		idx := -1
 		if a.Name == "" {

@@ -35,14 +35,8 @@ func (e *Env) lookupName(id *Ident) (Value, error) {
 				cp.Path = id.Name
 				v = &cp
 			}
-			if _, ok := v.(*Record); !ok {
-				e.addDep("field:"+id.Name, "")
-			}
 			return v, nil
 		}
-		// The notebook does not have it now; it may later (a new ancestor, a fixed link),
-		// so the result depends on its absence too.
-		e.addDep("field:"+id.Name, "")
 	}
 	if ln, ok := e.failed[id.Name]; ok {
 		return nil, &Error{Line: id.Pos.Line, Col: id.Pos.Col, Err: ErrUnknownName,
