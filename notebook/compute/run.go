@@ -128,7 +128,11 @@ func Run(fsys fs.FS, nb *notebook.Notebook, opt Options) (*Report, error) {
 			return nil, err
 		}
 	}
-	rs := newRunState(fsys, nb, opt.Salt)
+	salt := opt.Salt
+	if salt == "" {
+		salt = EngineSalt()
+	}
+	rs := newRunState(fsys, nb, salt)
 	if opt.Cache != nil {
 		rs.cache, rs.stamps = opt.Cache, opt.Stamps
 	}
@@ -264,10 +268,8 @@ type parsedFile struct {
 	digest string
 }
 
+// newRunState prepares a run; salt keys the cache (an environment made outside a run needs none).
 func newRunState(fsys fs.FS, nb *notebook.Notebook, salt string) *runState {
-	if salt == "" {
-		salt = EngineSalt()
-	}
 	return &runState{fsys: fsys, nb: nb, salt: salt, parsed: map[string]*parsedFile{}}
 }
 
