@@ -175,19 +175,18 @@ func drawPlots(st *Staged, nb *notebook.Notebook, files []*compute.FileResult) (
 		if len(refs) == 0 {
 			continue
 		}
-		figs, err := plotfiles.Draw(st, nb, f.Path)
+		drawn, err := plotfiles.DrawRefs(st, nb, f.Path, refs)
 		if err != nil {
 			return nil, err
 		}
-		for _, r := range refs {
-			fig, ok := figs[r.Line]
-			if !ok || !strings.HasPrefix(fig.Hash(), r.Hash) {
+		for _, d := range drawn {
+			if d.SVG == nil || d.Problem != "" {
 				continue // `check` reports a plot file that does not match its line
 			}
-			if old, err := fs.ReadFile(st, r.Path); err == nil && bytes.Equal(old, fig.SVG) {
+			if old, err := fs.ReadFile(st, d.Path); err == nil && bytes.Equal(old, d.SVG) {
 				continue // staged already
 			}
-			out = append(out, plotFile{path: r.Path, svg: fig.SVG})
+			out = append(out, plotFile{path: d.Path, svg: d.SVG})
 		}
 	}
 	return out, nil

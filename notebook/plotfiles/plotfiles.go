@@ -143,8 +143,8 @@ type Result struct {
 }
 
 // Sync brings the plot files of the Markdown files of nb, the notebook at root as a run
-// loaded it (those in sel when sel is not nil), up to date with their result regions: each missing or differing file is drawn again
-// by evaluating its entry's blocks and written atomically; an SVG in an entry's plots folder
+// loaded it (those in sel when sel is not nil), up to date with their result regions: each
+// missing or differing file is drawn again (DrawRefs) and written atomically; an SVG in an entry's plots folder
 // that no line names is removed.
 func Sync(root string, nb *notebook.Notebook, sel func(string) bool) (*Result, error) {
 	res := &Result{}
@@ -167,23 +167,22 @@ func Sync(root string, nb *notebook.Notebook, sel func(string) bool) (*Result, e
 			}
 		}
 		if len(stale) > 0 && len(dups) == 0 {
-			figs, err := Draw(fsys, nb, f)
+			drawn, err := DrawRefs(fsys, nb, f, stale)
 			if err != nil {
 				return nil, err
 			}
-			for _, r := range stale {
-				fig, ok := figs[r.Line]
-				if !ok || path.Join(path.Dir(f), fig.Path) != r.Path {
-					res.Problems = append(res.Problems, Problem{Ref: r, Msg: fmt.Sprintf("plot %s: the line no longer draws it (run `cleave calc` again)", r.Path)})
+			for _, d := range drawn {
+				if d.SVG == nil {
+					res.Problems = append(res.Problems, Problem{Ref: d.Ref, Msg: d.Problem})
 					continue
 				}
-				if err := writeFile(filepath.Join(root, filepath.FromSlash(r.Path)), fig.SVG); err != nil {
-					res.Problems = append(res.Problems, Problem{Ref: r, Msg: fmt.Sprintf("plot %s: %v", r.Path, err)})
+				if err := writeFile(filepath.Join(root, filepath.FromSlash(d.Path)), d.SVG); err != nil {
+					res.Problems = append(res.Problems, Problem{Ref: d.Ref, Msg: fmt.Sprintf("plot %s: %v", d.Path, err)})
 					continue
 				}
-				res.Written = append(res.Written, r.Path)
-				if !strings.HasPrefix(fig.Hash(), r.Hash) {
-					res.Problems = append(res.Problems, Problem{Ref: r, Msg: fmt.Sprintf("plot %s: drawn with sha256:%s, the block says sha256:%s (run `cleave calc` again)", r.Path, fig.Hash()[:12], r.Hash)})
+				res.Written = append(res.Written, d.Path)
+				if d.Problem != "" {
+					res.Problems = append(res.Problems, Problem{Ref: d.Ref, Msg: d.Problem})
 				}
 			}
 		}
@@ -194,6 +193,40 @@ func Sync(root string, nb *notebook.Notebook, sel func(string) bool) (*Result, e
 		res.Removed = append(res.Removed, removed...)
 	}
 	return res, nil
+}
+
+// Drawing is a plot file drawn again for the plot line that names it: SVG is nil when the line
+// no longer draws it; Problem says what does not match its result region ("" when all does).
+type Drawing struct {
+	Ref
+	SVG     []byte
+	Problem string
+}
+
+// DrawRefs draws again the plot files that refs (plot lines of the Markdown file at p) name, by
+// evaluating the file's blocks in fsys: what `cleave calc` writes beside the entry and what the
+// pre-commit hook stages.
+func DrawRefs(fsys fs.FS, nb *notebook.Notebook, p string, refs []Ref) ([]Drawing, error) {
+	figs, err := Draw(fsys, nb, p)
+	if err != nil {
+		return nil, err
+	}
+	out := make([]Drawing, 0, len(refs))
+	for _, r := range refs {
+		d := Drawing{Ref: r}
+		fig, ok := figs[r.Line]
+		switch {
+		case !ok || path.Join(path.Dir(p), fig.Path) != r.Path:
+			d.Problem = fmt.Sprintf("plot %s: the line no longer draws it (run `cleave calc` again)", r.Path)
+		default:
+			d.SVG = fig.SVG
+			if !strings.HasPrefix(fig.Hash(), r.Hash) {
+				d.Problem = fmt.Sprintf("plot %s: drawn with sha256:%s, the block says sha256:%s (run `cleave calc` again)", r.Path, fig.Hash()[:12], r.Hash)
+			}
+		}
+		out = append(out, d)
+	}
+	return out, nil
 }
 
 // Draw evaluates the calc blocks of the Markdown file at p (a slash path in fsys) and returns
