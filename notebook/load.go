@@ -68,6 +68,24 @@ type LoadOptions struct {
 	// file is not read while loading; its identity, links and problems come from the summary,
 	// and its contents are read when something asks for them.
 	Known func(path string) (*Summary, bool)
+	// Paths, when not nil, are the files to load (sorted slash paths of regular files,
+	// filtered with [Loadable]) from a caller that has just listed the tree: the load then
+	// does not walk it again.
+	Paths []string
+}
+
+// Loadable reports whether the regular file at slash path p is one the notebook loads: a
+// Markdown file (*.md) not hidden, not inside a hidden folder or the top-level `templates/`.
+func Loadable(p string) bool {
+	if !strings.HasSuffix(p, ".md") || strings.HasPrefix(p, "templates/") {
+		return false
+	}
+	for part := range strings.SplitSeq(p, "/") {
+		if strings.HasPrefix(part, ".") {
+			return false
+		}
+	}
+	return true
 }
 
 // Load reads every *.md file of fsys (see [LoadWith]).
@@ -80,33 +98,33 @@ func Load(fsys fs.FS) (*Notebook, error) { return LoadWith(fsys, LoadOptions{}) 
 // nb.Problems (see also [Notebook.Validate]). The error is non-nil only when the
 // file system itself cannot be walked.
 func LoadWith(fsys fs.FS, opt LoadOptions) (*Notebook, error) {
-	var paths []string
+	paths := opt.Paths
 	var walkProblems []Problem
-	err := fs.WalkDir(fsys, ".", func(p string, d fs.DirEntry, err error) error {
+	if paths == nil {
+		err := fs.WalkDir(fsys, ".", func(p string, d fs.DirEntry, err error) error {
+			if err != nil {
+				if p == "." {
+					return err
+				}
+				walkProblems = append(walkProblems, Problem{Path: p, Line: 1, Col: 1, Msg: "cannot read: " + errText(err)})
+				return nil
+			}
+			if d.IsDir() {
+				if p != "." && (strings.HasPrefix(d.Name(), ".") || p == "templates") {
+					return fs.SkipDir
+				}
+				return nil
+			}
+			if d.Type().IsRegular() && Loadable(p) {
+				paths = append(paths, p)
+			}
+			return nil
+		})
 		if err != nil {
-			if p == "." {
-				return err
-			}
-			walkProblems = append(walkProblems, Problem{Path: p, Line: 1, Col: 1, Msg: "cannot read: " + errText(err)})
-			return nil
+			return nil, fmt.Errorf("load notebook: %w", err)
 		}
-		name := d.Name()
-		if d.IsDir() {
-			if p != "." && (strings.HasPrefix(name, ".") || p == "templates") {
-				return fs.SkipDir
-			}
-			return nil
-		}
-		if strings.HasPrefix(name, ".") || !strings.HasSuffix(name, ".md") || !d.Type().IsRegular() {
-			return nil
-		}
-		paths = append(paths, p)
-		return nil
-	})
-	if err != nil {
-		return nil, fmt.Errorf("load notebook: %w", err)
+		sort.Strings(paths)
 	}
-	sort.Strings(paths)
 
 	// Parse files in parallel; each result lands in its own slot so the
 	// outcome does not depend on scheduling.

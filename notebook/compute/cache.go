@@ -6,9 +6,7 @@ import (
 	"encoding/binary"
 	"errors"
 	"fmt"
-	"hash/fnv"
 	"io/fs"
-	"maps"
 	"os"
 	"path/filepath"
 	"sort"
@@ -32,13 +30,13 @@ type Cache struct {
 	dir string
 
 	mu    sync.Mutex
-	old   map[string]*cacheRec // as read
-	cur   map[string]*cacheRec // answered or stored by this run
+	old   [cacheShards]map[string]*cacheRec // as read, by shard
+	cur   map[string]*cacheRec              // answered or stored by this run
 	dirty [cacheShards]bool
 
 	// What earlier runs learnt about each file, valid while its stamp (see Scan) is the same.
-	files    map[string]*fileRec // as read
-	curFiles map[string]*fileRec // learnt by this run
+	files    [cacheShards]map[string]*fileRec // as read, by shard
+	curFiles map[string]*fileRec              // learnt by this run
 }
 
 // fileRec is what is known of one file at one stamp.
@@ -75,22 +73,18 @@ const cacheShards = 16
 
 // shardOf is the shard of the cache that holds what concerns the file at path p.
 func shardOf(p string) int {
-	h := fnv.New32a()
-	h.Write([]byte(p))
-	return int(h.Sum32() % cacheShards)
+	h := uint32(2166136261) // FNV-1a, 32 bits
+	for i := 0; i < len(p); i++ {
+		h = (h ^ uint32(p[i])) * 16777619
+	}
+	return int(h % cacheShards)
 }
 
 func (c *Cache) shardFile(i int) string { return filepath.Join(c.dir, fmt.Sprintf("results.%02x", i)) }
 
 // OpenCache opens the cache kept in dir (created by Save when missing).
 func OpenCache(dir string) *Cache {
-	c := &Cache{dir: dir, old: map[string]*cacheRec{}, cur: map[string]*cacheRec{},
-		files: map[string]*fileRec{}, curFiles: map[string]*fileRec{}}
-	type shard struct {
-		m map[string]*cacheRec
-		f map[string]*fileRec
-	}
-	shards := make([]shard, cacheShards)
+	c := &Cache{dir: dir, cur: map[string]*cacheRec{}, curFiles: map[string]*fileRec{}}
 	var wg sync.WaitGroup
 	for i := range cacheShards {
 		wg.Add(1)
@@ -101,14 +95,15 @@ func OpenCache(dir string) *Cache {
 				return
 			}
 			if m, f, err := decodeCache(data); err == nil {
-				shards[i] = shard{m, f}
+				c.old[i], c.files[i] = m, f
 			}
 		}()
 	}
 	wg.Wait()
-	for _, sh := range shards {
-		maps.Copy(c.old, sh.m)
-		maps.Copy(c.files, sh.f)
+	for i := range cacheShards {
+		if c.old[i] == nil {
+			c.old[i], c.files[i] = map[string]*cacheRec{}, map[string]*fileRec{}
+		}
 	}
 	return c
 }
@@ -124,7 +119,7 @@ func (c *Cache) fileAt(p, stamp string) *fileRec {
 	if ok && r.stamp == stamp {
 		return r
 	}
-	if r, ok := c.files[p]; ok && r.stamp == stamp { // files is only changed by Save
+	if r, ok := c.files[shardOf(p)][p]; ok && r.stamp == stamp { // files is only changed by Save
 		return r
 	}
 	return nil
@@ -141,7 +136,7 @@ func (c *Cache) learn(p, stamp string, f func(r *fileRec)) {
 	r, ok := c.curFiles[p]
 	if !ok || r.stamp != stamp {
 		r = &fileRec{stamp: stamp}
-		if o, ok := c.files[p]; ok && o.stamp == stamp {
+		if o, ok := c.files[shardOf(p)][p]; ok && o.stamp == stamp {
 			cp := *o
 			r = &cp
 		}
@@ -180,7 +175,7 @@ func (c *Cache) find(rs *runState, path, key string, n int) (*cacheRec, bool) {
 	r, ok := c.cur[path]
 	c.mu.Unlock()
 	if !ok {
-		r, ok = c.old[path] // old is only changed by Save, never during a run
+		r, ok = c.old[shardOf(path)][path] // old is only changed by Save, never during a run
 	}
 	if !ok || r.key != key || len(r.outs) != n {
 		return nil, false
@@ -212,20 +207,26 @@ func (c *Cache) store(path, key string, rec deps, outs []calcblock.Outcome) {
 func (c *Cache) Save(nb *notebook.Notebook) error {
 	c.mu.Lock()
 	defer c.mu.Unlock()
-	for p := range c.old {
-		if _, ok := nb.File(p); !ok {
-			delete(c.old, p)
-			c.dirty[shardOf(p)] = true
+	for i := range cacheShards {
+		for p := range c.old[i] {
+			if _, ok := nb.File(p); !ok {
+				delete(c.old[i], p)
+				c.dirty[i] = true
+			}
+		}
+		for p, r := range c.files[i] {
+			if _, ok := nb.File(p); !ok && r.sum != nil {
+				delete(c.files[i], p)
+				c.dirty[i] = true
+			}
 		}
 	}
-	maps.Copy(c.old, c.cur)
-	for p, r := range c.files {
-		if _, ok := nb.File(p); !ok && r.sum != nil {
-			delete(c.files, p)
-			c.dirty[shardOf(p)] = true
-		}
+	for p, r := range c.cur {
+		c.old[shardOf(p)][p] = r
 	}
-	maps.Copy(c.files, c.curFiles)
+	for p, r := range c.curFiles {
+		c.files[shardOf(p)][p] = r
+	}
 	c.cur, c.curFiles = map[string]*cacheRec{}, map[string]*fileRec{}
 	var todo []int
 	for i := range cacheShards {
@@ -239,24 +240,9 @@ func (c *Cache) Save(nb *notebook.Notebook) error {
 	if err := os.MkdirAll(c.dir, 0o755); err != nil {
 		return err
 	}
-	ms := make([]map[string]*cacheRec, cacheShards)
-	fs := make([]map[string]*fileRec, cacheShards)
-	for _, i := range todo {
-		ms[i], fs[i] = map[string]*cacheRec{}, map[string]*fileRec{}
-	}
-	for p, r := range c.old {
-		if m := ms[shardOf(p)]; m != nil {
-			m[p] = r
-		}
-	}
-	for p, r := range c.files {
-		if f := fs[shardOf(p)]; f != nil {
-			f[p] = r
-		}
-	}
 	var errs []error
 	for _, i := range todo {
-		if err := calcblock.ReplaceFile(c.shardFile(i), encodeCache(ms[i], fs[i])); err != nil {
+		if err := calcblock.ReplaceFile(c.shardFile(i), encodeCache(c.old[i], c.files[i])); err != nil {
 			errs = append(errs, err)
 			continue
 		}
@@ -408,11 +394,20 @@ func (d *decoder) str() string {
 
 // current is the value dependency name has now (memoised for the run; see the `deps` type).
 func (rs *runState) current(name string) string {
-	if v, ok := rs.values.Load(name); ok {
-		return v.(string)
+	rs.valMu.Lock()
+	v, ok := rs.values[name]
+	rs.valMu.Unlock()
+	if ok {
+		return v
 	}
-	v := rs.compute(name)
-	rs.values.Store(name, v)
+	// Computed outside the lock: two workers may compute one value, and get the same.
+	v = rs.compute(name)
+	rs.valMu.Lock()
+	if rs.values == nil {
+		rs.values = map[string]string{}
+	}
+	rs.values[name] = v
+	rs.valMu.Unlock()
 	return v
 }
 

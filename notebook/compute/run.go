@@ -247,8 +247,9 @@ type runState struct {
 
 	mu     sync.Mutex
 	parsed map[string]*parsedFile
-	values sync.Map // current values of dependencies (see current), by name
-	vals   sync.Map // records made from entries, shared by the files of the run (see shared)
+	valMu  sync.Mutex
+	values map[string]string // current values of dependencies (see current), by name
+	vals   sync.Map          // records made from entries, shared by the files of the run (see shared)
 }
 
 // shared returns the value made by mk for key, made once per run: the record of an entry's

@@ -10,7 +10,7 @@ import (
 	"os"
 	"path/filepath"
 	"runtime"
-	"sort"
+	"slices"
 	"strings"
 	"sync"
 	"sync/atomic"
@@ -92,7 +92,9 @@ type Scan struct {
 	Stamps map[string]string // slash path → stamp (mode, size, modification time, inode); "" when racy
 	Racy   bool              // a file was modified less than a second before the scan began
 	Temps  []string          // WriteAtomic's temporary files (calcblock.IsTempName), not in the digest
-	digest string
+	// Markdown lists the files the notebook loads (notebook.Loadable regular files), sorted.
+	Markdown []string
+	digest   string
 }
 
 // Scan reads the stat data of every file (everything but .git). A file modified less than a
@@ -101,29 +103,63 @@ type Scan struct {
 func (w WorkTree) Scan() (*Scan, error) {
 	start := time.Now()
 	// Folders are listed one by one (cheap), the files' stat data is read by parallel workers
-	// (one system call each: the bulk of the time).
-	var files, temps []string
+	// (one system call each, relative to its open folder: the bulk of the time).
+	type file struct {
+		path, name string
+		dir        int
+	}
+	var files []file
+	var dirs []dirHandle
+	defer func() {
+		for _, d := range dirs {
+			d.close()
+		}
+	}()
+	var temps []string
 	var walk func(rel string) error
 	walk = func(rel string) error {
-		ents, err := os.ReadDir(filepath.Join(w.Root, filepath.FromSlash(rel)))
+		d, err := openDir(filepath.Join(w.Root, filepath.FromSlash(rel)))
 		if err != nil {
 			return err
 		}
-		for _, d := range ents {
-			p := d.Name()
+		dirs = append(dirs, d)
+		di := len(dirs) - 1
+		ents, err := d.readDir()
+		if err != nil {
+			return err
+		}
+		// Each folder's entries in the order of their slash paths (a folder's name sorts as
+		// "name/"), so that the walk lists every file in path order without a global sort.
+		type ent struct {
+			key string
+			e   fs.DirEntry
+		}
+		sorted := make([]ent, 0, len(ents))
+		for _, e := range ents {
+			switch {
+			case e.IsDir() && e.Name() == ".git" && rel == ".":
+			case e.IsDir():
+				sorted = append(sorted, ent{e.Name() + "/", e})
+			default:
+				sorted = append(sorted, ent{e.Name(), e})
+			}
+		}
+		slices.SortFunc(sorted, func(a, b ent) int { return strings.Compare(a.key, b.key) })
+		for _, se := range sorted {
+			e := se.e
+			p := e.Name()
 			if rel != "." {
 				p = rel + "/" + p
 			}
 			switch {
-			case d.IsDir() && d.Name() == ".git" && rel == ".":
-			case d.IsDir():
+			case e.IsDir():
 				if err := walk(p); err != nil {
 					return err
 				}
-			case calcblock.IsTempName(d.Name()):
+			case calcblock.IsTempName(e.Name()):
 				temps = append(temps, p)
 			default:
-				files = append(files, p)
+				files = append(files, file{p, e.Name(), di})
 			}
 		}
 		return nil
@@ -131,38 +167,45 @@ func (w WorkTree) Scan() (*Scan, error) {
 	if err := walk("."); err != nil {
 		return nil, err
 	}
-	sort.Strings(files)
+	byPath := func(a, b file) int { return strings.Compare(a.path, b.path) }
+	if !slices.IsSortedFunc(files, byPath) { // cannot happen; the digest depends on the order
+		slices.SortFunc(files, byPath)
+	}
 	stamps := make([]string, len(files))
+	regular := make([]bool, len(files))
 	var racy atomic.Bool
 	var failed atomic.Pointer[error]
 	var next atomic.Int64
 	var wg sync.WaitGroup
 	limit := start.Add(-time.Second).UnixNano()
+	const chunk = 64
 	for range max(1, min(runtime.GOMAXPROCS(0), len(files)/256)) {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
 			var b []byte
 			for {
-				i := int(next.Add(1)) - 1
-				if i >= len(files) {
+				lo := int(next.Add(chunk)) - chunk
+				if lo >= len(files) {
 					return
 				}
-				fi, err := os.Lstat(filepath.Join(w.Root, filepath.FromSlash(files[i])))
-				if err != nil {
-					failed.Store(&err)
-					return
+				for i := lo; i < min(lo+chunk, len(files)); i++ {
+					st, err := dirs[files[i].dir].lstat(files[i].name)
+					if err != nil {
+						failed.Store(&err)
+						return
+					}
+					regular[i] = st.regular()
+					if st.mtime >= limit {
+						racy.Store(true)
+						continue
+					}
+					b = binary.AppendUvarint(b[:0], uint64(st.mode))
+					b = binary.AppendUvarint(b, uint64(st.size))
+					b = binary.AppendVarint(b, st.mtime)
+					b = binary.AppendUvarint(b, st.ino)
+					stamps[i] = string(b)
 				}
-				mt := fi.ModTime().UnixNano()
-				if mt >= limit {
-					racy.Store(true)
-					continue
-				}
-				b = binary.AppendUvarint(b[:0], uint64(fi.Mode()))
-				b = binary.AppendUvarint(b, uint64(fi.Size()))
-				b = binary.AppendVarint(b, mt)
-				b = binary.AppendUvarint(b, inode(fi))
-				stamps[i] = string(b)
 			}
 		}()
 	}
@@ -173,12 +216,17 @@ func (w WorkTree) Scan() (*Scan, error) {
 	sc := &Scan{Stamps: make(map[string]string, len(files)), Racy: racy.Load(), Temps: temps}
 	h := sha256.New()
 	fmt.Fprintf(h, "%s\n", saltIn(w.StateDir))
+	var hb []byte
 	for i, f := range files {
-		sc.Stamps[f] = stamps[i]
-		h.Write(binary.AppendUvarint(nil, uint64(len(f))))
-		h.Write([]byte(f))
-		h.Write(binary.AppendUvarint(nil, uint64(len(stamps[i]))))
-		h.Write([]byte(stamps[i]))
+		sc.Stamps[f.path] = stamps[i]
+		if regular[i] && notebook.Loadable(f.path) {
+			sc.Markdown = append(sc.Markdown, f.path)
+		}
+		hb = binary.AppendUvarint(hb[:0], uint64(len(f.path)))
+		hb = append(hb, f.path...)
+		hb = binary.AppendUvarint(hb, uint64(len(stamps[i])))
+		hb = append(hb, stamps[i]...)
+		h.Write(hb)
 	}
 	if !sc.Racy {
 		sc.digest = hex.EncodeToString(h.Sum(nil))
@@ -332,7 +380,14 @@ func (w WorkTree) run(opt CheckOptions, sc *Scan) (*CheckResult, error) {
 			stamps = sc.Stamps
 		}
 	}
-	nb, err := notebook.LoadWith(fsys, notebook.LoadOptions{Known: cache.knownSummary(stamps)})
+	lo := notebook.LoadOptions{Known: cache.knownSummary(stamps)}
+	if sc != nil {
+		lo.Paths = sc.Markdown
+		if lo.Paths == nil {
+			lo.Paths = []string{}
+		}
+	}
+	nb, err := notebook.LoadWith(fsys, lo)
 	if err != nil {
 		return nil, err
 	}
