@@ -2,10 +2,10 @@ package compute
 
 import (
 	"bytes"
-	"crypto/sha256"
 	"encoding/binary"
 	"errors"
 	"fmt"
+	"hash/crc32"
 	"io/fs"
 	"os"
 	"path/filepath"
@@ -66,7 +66,7 @@ type cacheRec struct {
 
 type depValue struct{ name, value string }
 
-const cacheHeader = "cleave-engine-cache 6\n"
+const cacheHeader = "cleave-engine-cache 7\n"
 
 // cacheShards is how many files the cache is kept in.
 const cacheShards = 16
@@ -240,13 +240,21 @@ func (c *Cache) Save(nb *notebook.Notebook) error {
 	if err := os.MkdirAll(c.dir, 0o755); err != nil {
 		return err
 	}
-	var errs []error
-	for _, i := range todo {
-		if err := calcblock.ReplaceFile(c.shardFile(i), encodeCache(c.old[i], c.files[i])); err != nil {
-			errs = append(errs, err)
-			continue
+	// Shards are encoded and written in parallel: each is its own file.
+	errs := make([]error, len(todo))
+	var wg sync.WaitGroup
+	for k, i := range todo {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			errs[k] = calcblock.ReplaceFile(c.shardFile(i), encodeCache(c.old[i], c.files[i]))
+		}()
+	}
+	wg.Wait()
+	for k, i := range todo {
+		if errs[k] == nil {
+			c.dirty[i] = false
 		}
-		c.dirty[i] = false
 	}
 	os.Remove(filepath.Join(c.dir, "results")) // the single file of an earlier version
 	return errors.Join(errs...)
@@ -262,7 +270,9 @@ func encodeCache(m map[string]*cacheRec, files map[string]*fileRec) []byte {
 		paths = append(paths, p)
 	}
 	sort.Strings(paths)
-	var b []byte
+	b := make([]byte, 0, 64<<10)
+	b = binary.AppendUvarint(b, uint64(len(m)))
+	b = binary.AppendUvarint(b, uint64(len(files)))
 	for _, p := range paths {
 		r := m[p]
 		b = appendStr(b, p)
@@ -284,7 +294,6 @@ func encodeCache(m map[string]*cacheRec, files map[string]*fileRec) []byte {
 			b = appendStr(b, o.Text)
 		}
 	}
-	b = append(b, 0) // the end of the results, the start of the files
 	fps := make([]string, 0, len(files))
 	for p := range files {
 		fps = append(fps, p)
@@ -293,54 +302,65 @@ func encodeCache(m map[string]*cacheRec, files map[string]*fileRec) []byte {
 	for _, p := range fps {
 		b = appendFileRec(appendStr(b, p), files[p])
 	}
-	sum := sha256.Sum256(b)
-	out := make([]byte, 0, len(cacheHeader)+len(sum)+len(b))
+	out := make([]byte, 0, len(cacheHeader)+4+len(b))
 	out = append(out, cacheHeader...)
-	out = append(out, sum[:]...)
+	out = binary.LittleEndian.AppendUint32(out, crc32.Checksum(b, castagnoli))
 	return append(out, b...)
 }
+
+// castagnoli is the CRC-32C table: the checksum tells a damaged or torn shard (the shards are
+// the tool's own files, replaced atomically), at a fraction of a cryptographic hash's cost.
+var castagnoli = crc32.MakeTable(crc32.Castagnoli)
 
 var errBadCache = errors.New("damaged cache")
 
 func decodeCache(data []byte) (map[string]*cacheRec, map[string]*fileRec, error) {
 	rest, ok := bytes.CutPrefix(data, []byte(cacheHeader))
-	if !ok || len(rest) < sha256.Size {
+	if !ok || len(rest) < 4 {
 		return nil, nil, errBadCache
 	}
-	sum, b := rest[:sha256.Size], rest[sha256.Size:]
-	if s := sha256.Sum256(b); !bytes.Equal(s[:], sum) {
+	sum, b := binary.LittleEndian.Uint32(rest), rest[4:]
+	if crc32.Checksum(b, castagnoli) != sum {
 		return nil, nil, errBadCache
 	}
 	d := decoder{b: b}
-	m := map[string]*cacheRec{}
-	for len(d.b) > 0 && d.err == nil {
-		if d.b[0] == 0 {
-			d.b = d.b[1:]
-			break
-		}
+	nm, nf := d.count(), d.count()
+	m := make(map[string]*cacheRec, nm)
+	recs := make([]cacheRec, nm) // one allocation for the shard's records
+	for i := range nm {
 		p := d.str()
-		r := &cacheRec{key: d.str(), okey: d.str()}
+		r := &recs[i]
+		r.key, r.okey = d.str(), d.str()
 		nd := d.count()
-		r.deps = make([]depValue, 0, nd)
-		for range nd {
-			r.deps = append(r.deps, depValue{d.str(), d.str()})
+		r.deps = make([]depValue, nd)
+		for j := range nd {
+			r.deps[j] = depValue{d.str(), d.str()}
 		}
 		no := d.count()
-		r.outs = make([]calcblock.Outcome, 0, no)
-		for range no {
+		r.outs = make([]calcblock.Outcome, no)
+		for j := range no {
 			flag := d.uvarint()
 			col := d.uvarint()
-			r.outs = append(r.outs, calcblock.Outcome{Failed: flag == 1, Col: int(col), Text: d.str()})
+			r.outs[j] = calcblock.Outcome{Failed: flag == 1, Col: int(col), Text: d.str()}
+		}
+		if d.err != nil {
+			return nil, nil, d.err
 		}
 		m[p] = r
 	}
-	files := map[string]*fileRec{}
-	for len(d.b) > 0 && d.err == nil {
+	files := make(map[string]*fileRec, nf)
+	d.recs = make([]fileRec, nf) // slabs: one allocation each for the shard's records
+	d.sums = make([]notebook.Summary, 0, nf)
+	for i := range nf {
 		p := d.str()
-		files[p] = d.fileRec(p)
+		r := d.fileRec(p, &d.recs[i])
+		if d.err != nil {
+			return nil, nil, d.err
+		}
+		files[p] = r
 	}
-	if d.err != nil {
-		return nil, nil, d.err
+	if d.err != nil || len(d.b) != 0 {
+		return nil, nil, errBadCache
 	}
 	return m, files, nil
 }
@@ -353,6 +373,8 @@ func appendStr(b []byte, s string) []byte {
 type decoder struct {
 	b    []byte
 	err  error
+	recs []fileRec
+	sums []notebook.Summary
 	strs map[string]string // interned strings: dependency names and values repeat across files
 }
 
@@ -394,6 +416,11 @@ func (d *decoder) str() string {
 
 // current is the value dependency name has now (memoised for the run; see the `deps` type).
 func (rs *runState) current(name string) string {
+	if len(name) > 3 && (name[:3] == "md:" || name[:3] == "id:") || strings.HasPrefix(name, "near:") {
+		// Cheaper to answer again than to memoise: a few map lookups (a Markdown file's
+		// digest is itself kept by the cache or by the run's parse of the file).
+		return rs.compute(name)
+	}
 	rs.valMu.Lock()
 	v, ok := rs.values[name]
 	rs.valMu.Unlock()

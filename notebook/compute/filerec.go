@@ -94,28 +94,41 @@ func (d *decoder) pos() notebook.Pos {
 
 func (d *decoder) bool() bool { return d.uvarint() == 1 }
 
-// fileRec decodes one record for the file at path p.
-func (d *decoder) fileRec(p string) *fileRec {
-	r := &fileRec{stamp: d.str()}
+// fileRec decodes into r the record for the file at path p.
+func (d *decoder) fileRec(p string, r *fileRec) *fileRec {
+	r.stamp = d.str()
 	flags := d.uvarint()
 	if flags&hasSummary != 0 {
-		s := &notebook.Summary{Path: p}
+		var s *notebook.Summary
+		if len(d.sums) < cap(d.sums) {
+			d.sums = d.sums[:len(d.sums)+1]
+			s = &d.sums[len(d.sums)-1]
+		} else {
+			s = new(notebook.Summary)
+		}
+		s.Path = p
 		s.Entry = d.bool()
 		s.ID = d.str()
 		s.Kind = notebook.Kind(d.str())
 		s.IDPos = d.pos()
 		s.MetaPos = d.pos()
-		for range d.count() {
-			l := notebook.Link{Field: d.str(), ID: d.str()}
-			pos := d.pos()
-			l.Line, l.Col = pos.Line, pos.Col
-			s.Links = append(s.Links, l)
+		if n := d.count(); n > 0 {
+			s.Links = make([]notebook.Link, n)
+			for i := range n {
+				l := &s.Links[i]
+				l.Field, l.ID = d.str(), d.str()
+				pos := d.pos()
+				l.Line, l.Col = pos.Line, pos.Col
+			}
 		}
-		for range d.count() {
-			ref := notebook.DataRef{Name: d.str()}
-			pos := d.pos()
-			ref.Line, ref.Col = pos.Line, pos.Col
-			s.Data = append(s.Data, ref)
+		if n := d.count(); n > 0 {
+			s.Data = make([]notebook.DataRef, n)
+			for i := range n {
+				ref := &s.Data[i]
+				ref.Name = d.str()
+				pos := d.pos()
+				ref.Line, ref.Col = pos.Line, pos.Col
+			}
 		}
 		for range d.count() {
 			pos := d.pos()

@@ -68,8 +68,10 @@ func (r *resolver) geometry() (calc.Value, error) {
 	if mask == nil && !hasDev {
 		return nil, errors.New("geometry: no device or mask in this entry's lineage")
 	}
+	// The device counts only through its as-built map: devices without one share the
+	// geometry their mask draws (built once per run).
 	key := "geometry\x00"
-	if hasDev {
+	if hasDev && src.asBuilt != nil {
 		key += dev.Path
 	}
 	key += "\x00"
