@@ -2,7 +2,11 @@ package calcblock
 
 import (
 	"fmt"
+	"os"
+	"path/filepath"
 	"testing"
+
+	"cleave/notebook/mdsrc"
 )
 
 // benchNotebook generates n entries, each with front matter, prose and one
@@ -27,5 +31,29 @@ func BenchmarkRecomputeNotebook(b *testing.B) {
 				b.Fatal(err)
 			}
 		}
+	}
+}
+
+// BenchmarkFind finds the calc blocks of the demo's first cooldown (front
+// matter, prose, five blocks), parsing the file each time as a run does:
+// Find takes the fast path on it; goldmark is the parse it replaces.
+func BenchmarkFind(b *testing.B) {
+	raw, err := os.ReadFile(filepath.Join("..", "..", "demo", "scenario", "cooldowns", "CD24-001.md"))
+	if err != nil {
+		b.Fatal(err)
+	}
+	for _, c := range []struct {
+		name string
+		find func(*mdsrc.Source) ([]Block, error)
+	}{{"Find", Find}, {"goldmark", findGoldmark}} {
+		b.Run(c.name, func(b *testing.B) {
+			b.SetBytes(int64(len(raw)))
+			for b.Loop() {
+				s, _ := mdsrc.Parse(raw)
+				if blocks, err := c.find(s); err != nil || len(blocks) != 5 {
+					b.Fatalf("%d blocks, %v", len(blocks), err)
+				}
+			}
+		})
 	}
 }

@@ -66,7 +66,20 @@ const Marker = "#~"
 // Find returns the calc blocks of s in document order. It does not fail on
 // any input goldmark accepts; the error is reserved for an inconsistent
 // parse (a fence that cannot be located in Raw), reported with its position.
+//
+// In most notebook files every fence opens at column 1, outside any list or
+// block quote; their blocks are found with one scan of the lines, without
+// goldmark (findFast, which decides that and gives the same answer). Any
+// other file goes through goldmark's parse (findGoldmark).
 func Find(s *mdsrc.Source) ([]Block, error) {
+	if blocks, why, _ := findFast(s); why == "" {
+		return blocks, nil
+	}
+	return findGoldmark(s)
+}
+
+// findGoldmark finds the calc blocks of s in goldmark's parse of the file.
+func findGoldmark(s *mdsrc.Source) ([]Block, error) {
 	var blocks []Block
 	var err error
 	var claimed map[int]bool

@@ -70,6 +70,7 @@ type Source struct {
 	lineStarts []int // offset of the first byte of each line; lineStarts[0] == 0
 	docOnce    sync.Once
 	doc        ast.Node
+	skipped    bool // Parse refused the body: Doc is an empty document
 }
 
 // Doc is the goldmark (GFM) parse of Masked(); all offsets are offsets into Raw. It is made
@@ -166,7 +167,16 @@ func Parse(raw []byte) (*Source, error) {
 }
 
 // noBody makes Doc an empty document: the body is never parsed.
-func (s *Source) noBody() { s.docOnce.Do(func() { s.doc = ast.NewDocument() }) }
+func (s *Source) noBody() {
+	s.skipped = true
+	s.docOnce.Do(func() { s.doc = ast.NewDocument() })
+}
+
+// Skipped reports whether Parse refused to read the Markdown body (a file larger than
+// [MaxFileBytes], or lists and block quotes nested deeper than [MaxNesting]): Doc is then an
+// empty document whatever the text says. A reader that looks at the text without Doc (such as
+// calcblock's fast path) must treat the body as empty too.
+func (s *Source) Skipped() bool { return s.skipped }
 
 // MaxFileBytes is the largest file whose Markdown [Parse] reads: goldmark parses between 0.5
 // and 4 MB/s on a slow machine and keeps a tree many times the size of its input, and a note

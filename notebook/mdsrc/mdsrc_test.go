@@ -351,8 +351,8 @@ func TestNestingBound(t *testing.T) {
 				if err != nil {
 					t.Fatalf("unexpected error %v", err)
 				}
-				if s.Doc().ChildCount() == 0 {
-					t.Error("the body was not parsed")
+				if s.Doc().ChildCount() == 0 || s.Skipped() {
+					t.Errorf("the body was not parsed (Skipped: %v)", s.Skipped())
 				}
 				return
 			}
@@ -363,8 +363,8 @@ func TestNestingBound(t *testing.T) {
 			if pe.Line != tc.line+3 || pe.Col != tc.col || !strings.Contains(pe.Msg, "nested more than 32") {
 				t.Errorf("got %d:%d %s, want %d:%d", pe.Line, pe.Col, pe.Msg, tc.line+3, tc.col)
 			}
-			if s.Doc().ChildCount() != 0 {
-				t.Error("the body was parsed")
+			if s.Doc().ChildCount() != 0 || !s.Skipped() {
+				t.Errorf("the body was parsed (Skipped: %v)", s.Skipped())
 			}
 			if !s.HasFrontMatter {
 				t.Error("the front matter was lost")
@@ -382,8 +382,8 @@ func TestSizeBound(t *testing.T) {
 	if !errors.As(err, &pe) || pe.Line != 1 || !strings.Contains(pe.Msg, "larger than 4 MiB") {
 		t.Fatalf("err = %v", err)
 	}
-	if !s.HasFrontMatter || s.Doc().ChildCount() != 0 || !bytes.Equal(s.Raw, src) {
-		t.Error("want the front matter, the raw bytes and no body")
+	if !s.HasFrontMatter || s.Doc().ChildCount() != 0 || !s.Skipped() || !bytes.Equal(s.Raw, src) {
+		t.Error("want the front matter, the raw bytes and no body (Skipped)")
 	}
 }
 
