@@ -172,12 +172,9 @@ func WithDataLoader(l DataLoader) Option { return func(e *Env) { e.loader = l } 
 // (variables, pi, constants, materials) but no functions: those come with [WithFuncs] or
 // [Env.Register] (package calc/library has the tool's).
 func NewEnv(opts ...Option) *Env {
-	e := &Env{
-		vars:   map[string]Value{},
-		failed: map[string]int{},
-		funcs:  map[string]*Func{},
-		dir:    ".",
-	}
+	// The maps are made by their first write: an Env is made per file, and most files
+	// register no function and have no failed line.
+	e := &Env{dir: "."}
 	for _, o := range opts {
 		o(e)
 	}
@@ -187,6 +184,9 @@ func NewEnv(opts ...Option) *Env {
 // Register adds or replaces a function.
 func (e *Env) Register(f Func) {
 	fc := f
+	if e.funcs == nil {
+		e.funcs = map[string]*Func{}
+	}
 	e.funcs[f.Name] = &fc
 }
 
@@ -203,6 +203,11 @@ func (e *Env) Funcs() []*Func {
 
 // Set defines (or redefines) a variable.
 func (e *Env) Set(name string, v Value) {
+	if e.vars == nil {
+		// room for the names of a typical file's blocks
+		e.vars = make(map[string]Value, 8)
+		e.order = make([]string, 0, 8)
+	}
 	if _, ok := e.vars[name]; !ok {
 		e.order = append(e.order, name)
 	}
@@ -233,7 +238,13 @@ type LineResult struct {
 // lines and later blocks sharing this Env, replacing an earlier definition; a failed
 // assignment leaves the name undefined, and later uses say which line failed.
 func (e *Env) EvalLine(line string, lineNo int) LineResult {
-	st, err := ParseLine(line, lineNo)
+	return e.evalLine(line, lineNo, parseShared)
+}
+
+// evalLine is EvalLine with the parser given: parseShared, or ParseLine for the test that
+// the memo changes nothing.
+func (e *Env) evalLine(line string, lineNo int, parse func(string, int) (*Statement, error)) LineResult {
+	st, err := parse(line, lineNo)
 	if err != nil {
 		if name, ok := assignedName(line); ok {
 			e.forget(name, lineNo)
@@ -285,6 +296,9 @@ func (e *Env) forget(name string, lineNo int) {
 		delete(e.vars, name)
 		e.order = removeName(e.order, name)
 	}
+	if e.failed == nil {
+		e.failed = map[string]int{}
+	}
 	e.failed[name] = lineNo
 }
 
@@ -294,15 +308,16 @@ func assignedName(line string) (string, bool) {
 	if i := strings.IndexByte(line, '='); i >= 0 {
 		line = line[:i+1] // all that matters, however long the line
 	}
-	lx := &lexer{src: []rune(line)}
+	var lx lexer
+	lx.reset(line, 0)
 	lx.skipSpace()
-	if lx.i >= len(lx.src) || !isIdentStart(lx.src[lx.i]) {
+	if lx.i >= len(lx.src) || !isIdentStart(lx.at(lx.i)) {
 		return "", false
 	}
 	name := lx.ident()
 	lx.skipSpace()
-	if lx.i < len(lx.src) && lx.src[lx.i] == '=' {
-		return name, true
+	if lx.at(lx.i) == '=' {
+		return strings.Clone(name), true // kept in the Env: not a slice of the whole line
 	}
 	return "", false
 }
@@ -328,7 +343,12 @@ func errResult(k LineKind, name string, err error) LineResult {
 // Eval evaluates one expression (as `cleave eval` does). Positions in errors are on
 // line 1.
 func (e *Env) Eval(expr string) (Value, error) {
-	x, err := ParseExpr(expr)
+	return e.evalExpr(expr, parseExprShared)
+}
+
+// evalExpr is Eval with the parser given, as for evalLine.
+func (e *Env) evalExpr(expr string, parse func(string) (Node, error)) (Value, error) {
+	x, err := parse(expr)
 	if err != nil {
 		return nil, err
 	}

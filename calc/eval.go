@@ -59,7 +59,7 @@ func (e *Env) eval(n Node) (Value, error) {
 			// A negative literal is one number: -20 °C is 253.15 K, not -(293.15 K).
 			return e.evalSignedNumber(lit, -1)
 		}
-		x, err := e.evalQuantity(n.X, "the operand of "+n.Op)
+		x, err := e.evalQuantity(n.X, "the operand of ", n.Op)
 		if err != nil {
 			return nil, err
 		}
@@ -73,11 +73,11 @@ func (e *Env) eval(n Node) (Value, error) {
 	case *Binary:
 		return e.evalBinary(n)
 	case *RangeExpr:
-		lo, err := e.evalQuantity(n.Lo, "the start of a range")
+		lo, err := e.evalQuantity(n.Lo, "the start of a range", "")
 		if err != nil {
 			return nil, err
 		}
-		hi, err := e.evalQuantity(n.Hi, "the end of a range")
+		hi, err := e.evalQuantity(n.Hi, "the end of a range", "")
 		if err != nil {
 			return nil, err
 		}
@@ -141,41 +141,40 @@ func (e *Env) evalNumber(n *NumberLit) (Value, error) { return e.evalSignedNumbe
 // evalSignedNumber evaluates sign × the literal n. A literal in °C is an absolute temperature
 // (t + 273.15 K); a literal in a unit the trade keeps (rpm, Torr, Oe, ...) is shown in it.
 func (e *Env) evalSignedNumber(n *NumberLit, sign float64) (Value, error) {
-	v, err := e.literal(n, sign)
+	q, u, err := e.literal(n, sign)
 	if err != nil {
 		return nil, err
 	}
-	q := v.(Quantity)
 	if n.Unit == "" {
 		return q, nil
 	}
-	u, _ := parseUnitAt(n.Unit, n.UnitPos) // parsed without error by literal
 	if u.Offset != 0 {
 		q.Q = quantity.Celsius(q.Q.Value(), q.Q.Uncertainty())
 	}
 	if u.Keep {
-		q.Unit = &u
+		keep := u // a copy of its own, made only for a unit that is kept
+		q.Unit = &keep
 	}
 	return q, nil
 }
 
-// literal is the value sign × n in SI, before a unit's offset.
-func (e *Env) literal(n *NumberLit, sign float64) (Value, error) {
+// literal is the value sign × n in SI, before a unit's offset, and the unit it is written in.
+func (e *Env) literal(n *NumberLit, sign float64) (Quantity, quantity.Unit, error) {
 	unit := quantity.Unit{Scale: 1}
 	if n.Unit != "" {
 		u, err := parseUnitAt(n.Unit, n.UnitPos)
 		if err != nil {
-			return nil, err
+			return Quantity{}, unit, err
 		}
 		unit = u
 	}
 	v, err := parseFloatAt(n.Text, n.Pos)
 	if err != nil {
-		return nil, err
+		return Quantity{}, unit, err
 	}
 	v *= sign
 	if n.Unc == "" {
-		return Q(quantity.New(v*unit.Scale, unit.D)), nil
+		return Q(quantity.New(v*unit.Scale, unit.D)), unit, nil
 	}
 	var sigma float64 // in SI
 	if strings.HasPrefix(n.Unc, "(") {
@@ -189,12 +188,12 @@ func (e *Env) literal(n *NumberLit, sign float64) (Value, error) {
 		s := digits + "e" + strconv.Itoa(-decimals)
 		u, err := strconv.ParseFloat(s, 64)
 		if err != nil {
-			return nil, posErr(n.UncPos, nil, "uncertainty %s is out of range", n.Unc)
+			return Quantity{}, unit, posErr(n.UncPos, nil, "uncertainty %s is out of range", n.Unc)
 		}
 		if exp != "" {
 			p, err := strconv.Atoi(strings.TrimPrefix(exp[1:], "+"))
 			if err != nil || p > 400 || p < -400 {
-				return nil, posErr(n.Pos, nil, "number %s is out of range", n.Text)
+				return Quantity{}, unit, posErr(n.Pos, nil, "number %s is out of range", n.Text)
 			}
 			u *= math.Pow(10, float64(p))
 		}
@@ -202,16 +201,16 @@ func (e *Env) literal(n *NumberLit, sign float64) (Value, error) {
 	} else {
 		u, err := parseFloatAt(n.Unc, n.UncPos)
 		if err != nil {
-			return nil, err
+			return Quantity{}, unit, err
 		}
 		uScale := unit.Scale
 		if n.UncAfter && n.UncUnit != "" {
 			uu, err := parseUnitAt(n.UncUnit, n.UncUPos)
 			if err != nil {
-				return nil, err
+				return Quantity{}, unit, err
 			}
 			if uu.D != unit.D {
-				return nil, posErr(n.UncUPos, &quantity.DimError{Op: "±", Left: unit.D, Right: uu.D},
+				return Quantity{}, unit, posErr(n.UncUPos, &quantity.DimError{Op: "±", Left: unit.D, Right: uu.D},
 					"the uncertainty is in %s but the value is in %s: their dimensions differ (%s vs %s)", n.UncUnit, n.Unit, DimName(uu.D), DimName(unit.D))
 			}
 			uScale = uu.Scale
@@ -219,13 +218,14 @@ func (e *Env) literal(n *NumberLit, sign float64) (Value, error) {
 		sigma = u * uScale
 	}
 	if sigma < 0 || math.IsInf(sigma, 0) || math.IsNaN(sigma) {
-		return nil, posErr(n.UncPos, nil, "an uncertainty must be a finite number >= 0")
+		return Quantity{}, unit, posErr(n.UncPos, nil, "an uncertainty must be a finite number >= 0")
 	}
-	return Q(quantity.Uncertain(v*unit.Scale, sigma, unit.D)), nil
+	return Q(quantity.Uncertain(v*unit.Scale, sigma, unit.D)), unit, nil
 }
 
-// evalQuantity evaluates n and requires a quantity; what names the operand for messages.
-func (e *Env) evalQuantity(n Node, what string) (quantity.Quantity, error) {
+// evalQuantity evaluates n and requires a quantity; what followed by op names the operand
+// for messages (joined only for a message: most operands are quantities).
+func (e *Env) evalQuantity(n Node, what, op string) (quantity.Quantity, error) {
 	v, err := e.eval(n)
 	if err != nil {
 		return quantity.Quantity{}, err
@@ -233,7 +233,7 @@ func (e *Env) evalQuantity(n Node, what string) (quantity.Quantity, error) {
 	q, ok := v.(Quantity)
 	if !ok {
 		p := n.Position()
-		return quantity.Quantity{}, posErr(p, ErrType, "%s must be a quantity, found a %s", what, v.Type())
+		return quantity.Quantity{}, posErr(p, ErrType, "%s%s must be a quantity, found a %s", what, op, v.Type())
 	}
 	return q.Q, nil
 }
@@ -249,13 +249,14 @@ func chainOp(op string) bool { return op == "+" || op == "-" || op == "*" || op 
 // same as the recursive form gave.
 func (e *Env) evalBinary(n *Binary) (Value, error) {
 	if !chainOp(n.Op) {
-		x, err := e.evalQuantity(n.X, "the left operand of "+n.Op)
+		x, err := e.evalQuantity(n.X, "the left operand of ", n.Op)
 		if err != nil {
 			return nil, err
 		}
 		return e.binaryRight(n, x)
 	}
-	spine := []*Binary{n}
+	var buf [16]*Binary // a short run needs no slice of its own
+	spine := append(buf[:0], n)
 	for {
 		b, ok := spine[len(spine)-1].X.(*Binary)
 		if !ok || !chainOp(b.Op) {
@@ -264,7 +265,7 @@ func (e *Env) evalBinary(n *Binary) (Value, error) {
 		spine = append(spine, b)
 	}
 	first := spine[len(spine)-1]
-	x, err := e.evalQuantity(first.X, "the left operand of "+first.Op)
+	x, err := e.evalQuantity(first.X, "the left operand of ", first.Op)
 	if err != nil {
 		return nil, err
 	}
@@ -282,7 +283,7 @@ func (e *Env) evalBinary(n *Binary) (Value, error) {
 // result that overflows to an infinity, or a product or quotient of two non-zero numbers that
 // underflows to zero, is an error at the operator: it would otherwise be written as a result.
 func (e *Env) binaryRight(n *Binary, x quantity.Quantity) (Value, error) {
-	y, err := e.evalQuantity(n.Y, "the right operand of "+n.Op)
+	y, err := e.evalQuantity(n.Y, "the right operand of ", n.Op)
 	if err != nil {
 		return nil, err
 	}
@@ -420,7 +421,8 @@ func convertValue(v Value, u quantity.Unit, n *Convert) (Value, error) {
 // evalPostfix evaluates a chain of field accesses and indexes (r.a[0].b) from its innermost
 // operand outwards, in a loop: a long chain costs no recursion.
 func (e *Env) evalPostfix(n Node) (Value, error) {
-	var spine []Node
+	var buf [8]Node // a short chain needs no slice of its own
+	spine := buf[:0]
 	cur := n
 spine:
 	for {
@@ -478,10 +480,9 @@ func (e *Env) field(n *FieldAccess, x Value) (Value, error) {
 		return nil, posErr(n.Pos, ErrUnknownName, "%s", msg)
 	}
 	if r, ok := x.(*Record); ok && r.Path != "" {
-		path := r.Path + "." + n.Name
 		if sub, ok := v.(*Record); ok {
 			cp := *sub
-			cp.Path = path
+			cp.Path = r.Path + "." + n.Name
 			return &cp, nil
 		}
 	}
@@ -541,7 +542,12 @@ func (e *Env) evalCall(n *Call) (Value, error) {
 		return nil, posErr(n.Pos, ErrUnknownFunction, "%s", msg)
 	}
 	args := make([]Value, len(f.Params))
-	argPos := make([]Pos, len(f.Params))
+	var posBuf [8]Pos // positions are read only for messages: most calls need no slice for them
+	argPos := posBuf[:0]
+	if len(f.Params) > len(posBuf) {
+		argPos = make([]Pos, len(f.Params))
+	}
+	argPos = argPos[:len(f.Params)]
 	var extra List
 	for i, a := range n.Args {
 		v, err := e.eval(a.Value)

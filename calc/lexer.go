@@ -3,7 +3,9 @@ package calc
 import (
 	"fmt"
 	"strings"
+	"sync"
 	"unicode"
+	"unicode/utf8"
 )
 
 // tokKind is the kind of a lexical token.
@@ -25,7 +27,7 @@ type token struct {
 	kind tokKind
 	text string // operator text, identifier, string contents (unescaped), comment text
 	pos  Pos
-	num  *numLit
+	num  int // for tNumber, the index of its numLit in the lexer's nums
 }
 
 // numLit is the lexed form of a number literal such as `12.5 ± 0.2 um`,
@@ -41,15 +43,64 @@ type numLit struct {
 	UncAfter bool // the uncertainty follows the unit: `12.5 um ± 0.2 um`
 }
 
-// lexer splits one line into tokens. It works on runes so that columns count characters.
+// lexer splits one line into tokens. It works on the string itself: i and every other index
+// are byte offsets, always at the start of a character, and col turns an offset into the
+// column in characters that positions report. Characters are decoded as a conversion of the
+// line to []rune would decode them (an invalid byte is one U+FFFD), so columns and texts are
+// those of a lexer over runes (TestLexMatchesReference keeps it so).
 type lexer struct {
-	src  []rune
+	src  string
 	i    int
 	line int
 	toks []token
+	nums []numLit
+
+	ascii bool // src is all ASCII: a column is the byte offset plus one
+	valid bool // src is valid UTF-8: a slice of it is the text as written
+	// The last offset turned into a column, and its column less one: columns are asked for
+	// mostly left to right, so counting characters starts from there.
+	colAt, colRunes int
 
 	lastPos  Pos // where the last uncertainty number started
 	lastText string
+}
+
+// lexers are reused from line to line: their token and number slices are the lexer's
+// only allocations that would otherwise grow with every line.
+var lexers = sync.Pool{New: func() any { return new(lexer) }}
+
+// maxPooledTokens bounds the token slice a pooled lexer keeps, so that one long line does
+// not pin its tokens' memory for the rest of the run.
+const maxPooledTokens = 256
+
+func getLexer(src string, line int) *lexer {
+	lx := lexers.Get().(*lexer)
+	lx.reset(src, line)
+	return lx
+}
+
+func (lx *lexer) reset(src string, line int) {
+	*lx = lexer{src: src, line: line, toks: lx.toks[:0], nums: lx.nums[:0]}
+	lx.ascii, lx.valid = true, true
+	for k := 0; k < len(src); k++ {
+		if src[k] >= utf8.RuneSelf {
+			lx.ascii = false
+			lx.valid = utf8.ValidString(src[k:])
+			break
+		}
+	}
+}
+
+// release returns lx to the pool, dropping what refers to the line (what lies beyond the
+// slices' lengths was dropped when an earlier line released them).
+func (lx *lexer) release() {
+	if cap(lx.toks) > maxPooledTokens {
+		return
+	}
+	clear(lx.toks)
+	clear(lx.nums)
+	*lx = lexer{toks: lx.toks[:0], nums: lx.nums[:0]}
+	lexers.Put(lx)
 }
 
 func isIdentStart(r rune) bool { return r == '_' || unicode.IsLetter(r) }
@@ -58,40 +109,38 @@ func isIdentPart(r rune) bool {
 }
 func isDigit(r rune) bool { return r >= '0' && r <= '9' }
 
-// lex tokenizes src (one line; a newline is an error). It stops at "#~", the start of the
-// tool-owned result region, as if the line ended there.
-func lex(src string, line int) ([]token, error) {
-	if i := strings.Index(src, "#~"); i >= 0 {
-		src = src[:i] // even inside a string: the result region is never input
+// lex tokenizes src (one line; a newline is an error) into lx.toks. It stops at "#~", the
+// start of the tool-owned result region, as if the line ended there.
+func (lx *lexer) lex() error {
+	if i := strings.Index(lx.src, "#~"); i >= 0 {
+		lx.reset(lx.src[:i], lx.line) // even inside a string: the result region is never input
 	}
-	lx := &lexer{src: []rune(src), line: line}
+	if lx.toks == nil {
+		// About one token for every four bytes of a typical line (`nu = filling_factor(n, B)`
+		// has nine tokens in 25 bytes), and the end of the line.
+		lx.toks = make([]token, 0, min(len(lx.src)/4+4, MaxTokens+1))
+	}
 	for {
 		lx.skipSpace()
 		if lx.i >= len(lx.src) {
 			break
 		}
 		start := lx.pos()
-		r := lx.src[lx.i]
+		r, w := lx.runeAt(lx.i)
 		switch {
 		case r == '#':
-			if lx.peek(1) == '=' {
-				lx.i = len(lx.src)
-				continue
-			}
-			j := lx.i + 1
-			for j < len(lx.src) && !(lx.src[j] == '#' && j+1 < len(lx.src) && lx.src[j+1] == '=') {
-				j++
-			}
-			lx.toks = append(lx.toks, token{kind: tComment, text: string(lx.src[lx.i+1 : j]), pos: start})
-			lx.i = j
+			// a comment runs to the end of the line (the result region is already cut off)
+			lx.toks = append(lx.toks, token{kind: tComment, text: lx.text(lx.i+1, len(lx.src)), pos: start})
+			lx.i = len(lx.src)
 		case r == '\n' || r == '\r':
-			return nil, lx.errAt(start, "unexpected line break: a calc line is one line")
-		case isDigit(r) || (r == '.' && isDigit(lx.peek(1))):
+			return lx.errAt(start, "unexpected line break: a calc line is one line")
+		case isDigit(r) || (r == '.' && isDigit(lx.at(lx.i+1))):
 			n, err := lx.number()
 			if err != nil {
-				return nil, err
+				return err
 			}
-			lx.toks = append(lx.toks, token{kind: tNumber, text: n.Text, pos: start, num: n})
+			lx.nums = append(lx.nums, n)
+			lx.toks = append(lx.toks, token{kind: tNumber, text: n.Text, pos: start, num: len(lx.nums) - 1})
 		case r == '(' && lx.groupedNumber(start):
 			// "(3.070 ± 0.040)e11 cm^-2", the form results are displayed in
 		case isIdentStart(r):
@@ -99,102 +148,146 @@ func lex(src string, line int) ([]token, error) {
 		case r == '"':
 			s, err := lx.str()
 			if err != nil {
-				return nil, err
+				return err
 			}
 			lx.toks = append(lx.toks, token{kind: tString, text: s, pos: start})
 		default:
 			op := ""
 			switch r {
-			case '+', '*', '/', '^', '(', ')', '[', ']', ',', '=':
-				op = string(r)
+			case '+':
+				op = "+"
+			case '*', '×', '·':
+				op = "*"
+			case '/', '÷':
+				op = "/"
+			case '^':
+				op = "^"
+			case '(':
+				op = "("
+			case ')':
+				op = ")"
+			case '[':
+				op = "["
+			case ']':
+				op = "]"
+			case ',':
+				op = ","
+			case '=':
+				op = "="
 			case '-':
 				op = "-"
-				if lx.peek(1) == '>' {
+				if lx.at(lx.i+1) == '>' {
 					op = "->"
 				}
 			case '.':
 				op = "."
-				if lx.peek(1) == '.' {
+				if lx.at(lx.i+1) == '.' {
 					op = ".."
 				}
 			case '→':
 				op = "->"
-			case '×', '·':
-				op = "*"
-			case '÷':
-				op = "/"
 			case '−':
 				op = "-"
 			}
 			if op == "" {
-				return nil, lx.errAt(start, fmt.Sprintf("unexpected character %q", r))
+				return lx.errAt(start, fmt.Sprintf("unexpected character %q", r))
 			}
 			if op == "->" && r == '-' || op == ".." {
 				lx.i += 2
 			} else {
-				lx.i++
+				lx.i += w
 			}
 			lx.toks = append(lx.toks, token{kind: tOp, text: op, pos: start})
 			if op == "->" {
 				// The rest of the display request is a unit, up to a comment or the end.
 				if err := lx.targetUnit(); err != nil {
-					return nil, err
+					return err
 				}
 			}
 		}
 	}
 	lx.toks = append(lx.toks, token{kind: tEOF, pos: lx.pos()})
-	return lx.toks, nil
+	return nil
 }
 
-func (lx *lexer) pos() Pos { return Pos{Line: lx.line, Col: lx.i + 1} }
+// col is the 1-based column, in characters, of the character at byte offset j.
+func (lx *lexer) col(j int) int {
+	if lx.ascii {
+		return j + 1
+	}
+	if j >= lx.colAt {
+		lx.colRunes += utf8.RuneCountInString(lx.src[lx.colAt:j])
+	} else {
+		lx.colRunes -= utf8.RuneCountInString(lx.src[j:lx.colAt])
+	}
+	lx.colAt = j
+	return lx.colRunes + 1
+}
+
+func (lx *lexer) pos() Pos { return Pos{Line: lx.line, Col: lx.col(lx.i)} }
+
+// posAt is the position of the character at byte offset j.
+func (lx *lexer) posAt(j int) Pos { return Pos{Line: lx.line, Col: lx.col(j)} }
 
 func (lx *lexer) errAt(p Pos, msg string) error { return &Error{Line: p.Line, Col: p.Col, Msg: msg} }
 
-func (lx *lexer) peek(k int) rune {
-	if lx.i+k < len(lx.src) {
-		return lx.src[lx.i+k]
+// runeAt decodes the character at byte offset j and its width in bytes; past the end it is
+// 0 with width 0.
+func (lx *lexer) runeAt(j int) (rune, int) {
+	if j < 0 || j >= len(lx.src) {
+		return 0, 0
 	}
-	return 0
+	if c := lx.src[j]; c < utf8.RuneSelf {
+		return rune(c), 1
+	}
+	return utf8.DecodeRuneInString(lx.src[j:])
 }
 
+// at is the character at byte offset j, 0 outside the line.
 func (lx *lexer) at(j int) rune {
-	if j >= 0 && j < len(lx.src) {
-		return lx.src[j]
+	r, _ := lx.runeAt(j)
+	return r
+}
+
+// text is the line's text between byte offsets a and b as a lexer over runes gives it: the
+// slice itself, except that each invalid byte of a line that is not valid UTF-8 reads as
+// U+FFFD.
+func (lx *lexer) text(a, b int) string {
+	s := lx.src[a:b]
+	if lx.valid {
+		return s
 	}
-	return 0
+	return string([]rune(s))
 }
 
 func isSpace(r rune) bool { return r == ' ' || r == '\t' || r == '\u00a0' }
 
-func (lx *lexer) skipSpace() {
-	for lx.i < len(lx.src) && isSpace(lx.src[lx.i]) {
-		lx.i++
-	}
-}
+func (lx *lexer) skipSpace() { lx.i = skipSp(lx, lx.i) }
 
 // ident reads an identifier. A '.' between two digits stays inside the identifier, so
 // that alloy names such as Al0.33Ga0.67As are one name.
 func (lx *lexer) ident() string {
 	j := lx.i
 	for j < len(lx.src) {
-		r := lx.src[j]
+		r, w := lx.runeAt(j)
 		if isIdentPart(r) {
-			j++
+			j += w
 			continue
 		}
-		if r == '.' && j > lx.i && isDigit(lx.src[j-1]) && isDigit(lx.at(j+1)) {
+		// the byte before j is the last byte of the previous character: an ASCII digit
+		// only if that character is one
+		if r == '.' && j > lx.i && isDigit(rune(lx.src[j-1])) && isDigit(lx.at(j+1)) {
 			j++
 			continue
 		}
 		break
 	}
-	s := string(lx.src[lx.i:j])
+	s := lx.text(lx.i, j)
 	lx.i = j
 	return s
 }
 
-// decimal reads digits [. digits] [e [+-] digits] at j and returns the end index, or j if
+// decimal reads digits [. digits] [e [+-] digits] at j and returns the end offset, or j if
 // there is no number there.
 func (lx *lexer) decimal(j int) int {
 	k := j
@@ -234,19 +327,19 @@ func (lx *lexer) exponent(k int) int {
 func (lx *lexer) groupedNumber(start Pos) bool {
 	j := skipSp(lx, lx.i+1)
 	neg := false
-	if lx.at(j) == '-' || lx.at(j) == '−' {
+	if r, w := lx.runeAt(j); r == '-' || r == '−' {
 		neg = true
-		j = skipSp(lx, j+1)
+		j = skipSp(lx, j+w)
 	}
 	vEnd := lx.decimal(j)
 	if vEnd == j {
 		return false
 	}
-	v := string(lx.src[j:vEnd])
+	v := lx.src[j:vEnd]
 	k := skipSp(lx, vEnd)
 	switch {
 	case lx.at(k) == '±':
-		k++
+		k += len("±")
 	case lx.at(k) == '+' && lx.at(k+1) == '/' && lx.at(k+2) == '-':
 		k += 3
 	default:
@@ -257,7 +350,7 @@ func (lx *lexer) groupedNumber(start Pos) bool {
 	if uEnd == k {
 		return false
 	}
-	u := string(lx.src[k:uEnd])
+	u := lx.src[k:uEnd]
 	c := skipSp(lx, uEnd)
 	if lx.at(c) != ')' || lx.at(c+1) != 'e' && lx.at(c+1) != 'E' {
 		return false
@@ -266,23 +359,24 @@ func (lx *lexer) groupedNumber(start Pos) bool {
 	if eEnd == c+1 || strings.ContainsAny(v, "eE") || strings.ContainsAny(u, "eE") {
 		return false
 	}
-	exp := string(lx.src[c+1 : eEnd])
-	n := &numLit{Text: v + exp, Unc: u + exp, UncPos: Pos{lx.line, k + 1}}
+	exp := lx.src[c+1 : eEnd]
+	n := numLit{Text: v + exp, Unc: u + exp, UncPos: lx.posAt(k)}
 	lx.i = eEnd
 	if neg {
 		// a negative value reads as unary minus applied to the number
 		lx.toks = append(lx.toks, token{kind: tOp, text: "-", pos: start})
-		start = Pos{lx.line, j + 1}
+		start = lx.posAt(j)
 	}
 	if unit, p, ok := lx.unit(); ok {
 		n.Unit, n.UnitPos = unit, p
 	}
-	lx.toks = append(lx.toks, token{kind: tNumber, text: n.Text, pos: start, num: n})
+	lx.nums = append(lx.nums, n)
+	lx.toks = append(lx.toks, token{kind: tNumber, text: n.Text, pos: start, num: len(lx.nums) - 1})
 	return true
 }
 
 // number lexes a number literal with its optional uncertainty and unit.
-func (lx *lexer) number() (*numLit, error) {
+func (lx *lexer) number() (numLit, error) {
 	start := lx.i
 	j := lx.decimal(lx.i)
 	if j == lx.i { // ".5"
@@ -292,7 +386,7 @@ func (lx *lexer) number() (*numLit, error) {
 		}
 		j = lx.exponent(j)
 	}
-	n := &numLit{}
+	var n numLit
 	// Concise uncertainty: 3.07(4) or 3.07(4)e11, directly attached.
 	if lx.at(j) == '(' && isDigit(lx.at(j+1)) {
 		k := j + 1
@@ -300,27 +394,27 @@ func (lx *lexer) number() (*numLit, error) {
 			k++
 		}
 		if lx.at(k) == ')' {
-			mant := string(lx.src[start:j])
+			mant := lx.src[start:j]
 			if strings.ContainsAny(mant, "eE") {
-				return nil, lx.errAt(Pos{lx.line, j + 1}, "concise uncertainty goes before the exponent, as in 3.07(4)e11")
+				return n, lx.errAt(lx.posAt(j), "concise uncertainty goes before the exponent, as in 3.07(4)e11")
 			}
-			n.UncPos = Pos{lx.line, j + 1}
-			n.Unc = string(lx.src[j : k+1])
+			n.UncPos = lx.posAt(j)
+			n.Unc = lx.src[j : k+1]
 			e := lx.exponent(k + 1)
-			n.Text = mant + string(lx.src[k+1:e])
+			n.Text = mant + lx.src[k+1:e]
 			j = e
 		}
 	}
 	if n.Text == "" {
-		n.Text = string(lx.src[start:j])
+		n.Text = lx.src[start:j]
 	}
 	if lx.at(j) == '.' && isDigit(lx.at(j+1)) {
-		return nil, lx.errAt(Pos{lx.line, j + 1}, "malformed number: a second decimal point")
+		return n, lx.errAt(lx.posAt(j), "malformed number: a second decimal point")
 	}
 	lx.i = j
 	if n.Unc == "" {
 		if ok, err := lx.uncertainty(); err != nil {
-			return nil, err
+			return n, err
 		} else if ok {
 			n.UncPos, n.Unc = lx.lastPos, lx.lastText
 		}
@@ -331,7 +425,7 @@ func (lx *lexer) number() (*numLit, error) {
 	if n.Unc == "" && n.Unit != "" {
 		ok, err := lx.uncertainty()
 		if err != nil {
-			return nil, err
+			return n, err
 		}
 		if ok {
 			n.UncPos, n.Unc, n.UncAfter = lx.lastPos, lx.lastText, true
@@ -345,21 +439,16 @@ func (lx *lexer) number() (*numLit, error) {
 
 // uncertainty reads an optional "± number" or "+/- number" after spaces.
 func (lx *lexer) uncertainty() (bool, error) {
-	j := lx.i
-	for isSpace(lx.at(j)) {
-		j++
-	}
+	j := skipSp(lx, lx.i)
 	switch {
 	case lx.at(j) == '±':
-		j++
+		j += len("±")
 	case lx.at(j) == '+' && lx.at(j+1) == '/' && lx.at(j+2) == '-':
 		j += 3
 	default:
 		return false, nil
 	}
-	for isSpace(lx.at(j)) {
-		j++
-	}
+	j = skipSp(lx, j)
 	e := lx.decimal(j)
 	if e == j && lx.at(j) == '.' && isDigit(lx.at(j+1)) {
 		e = j + 1
@@ -369,10 +458,10 @@ func (lx *lexer) uncertainty() (bool, error) {
 		e = lx.exponent(e)
 	}
 	if e == j {
-		return false, lx.errAt(Pos{lx.line, j + 1}, "expected a number (the uncertainty) after ±")
+		return false, lx.errAt(lx.posAt(j), "expected a number (the uncertainty) after ±")
 	}
-	lx.lastPos = Pos{lx.line, j + 1}
-	lx.lastText = string(lx.src[j:e])
+	lx.lastPos = lx.posAt(j)
+	lx.lastText = lx.src[j:e]
 	lx.i = e
 	return true, nil
 }
@@ -385,10 +474,7 @@ func (lx *lexer) uncertainty() (bool, error) {
 // So `2e6 cm^2/(V s)` and `1 kg m^2 s^-2` are units, while in `5 T / B` and `5 T * x`
 // the operator is arithmetic.
 func (lx *lexer) unit() (string, Pos, bool) {
-	j := lx.i
-	for isSpace(lx.at(j)) {
-		j++
-	}
+	j := skipSp(lx, lx.i)
 	if !isUnitStart(lx.at(j)) {
 		return "", Pos{}, false
 	}
@@ -398,7 +484,7 @@ func (lx *lexer) unit() (string, Pos, bool) {
 		return "", Pos{}, false
 	}
 	lx.i = end
-	return strings.TrimRight(string(lx.src[start:end]), " \t"), Pos{lx.line, start + 1}, true
+	return strings.TrimRight(lx.text(start, end), " \t"), lx.posAt(start), true
 }
 
 func isUnitStart(r rune) bool {
@@ -426,9 +512,9 @@ func (lx *lexer) unitSeq(j, depth int) (int, bool) {
 		if depth > 0 {
 			k = skipSp(lx, k)
 		}
-		switch r := lx.at(k); {
+		switch r, w := lx.runeAt(k); {
 		case r == '*' || r == '/' || r == '·':
-			nx := k + 1
+			nx := k + w
 			if depth > 0 {
 				nx = skipSp(lx, nx)
 			}
@@ -466,11 +552,16 @@ func (lx *lexer) unitFactor(j, depth int) (int, bool) {
 		j = e + 1
 	case isUnitStart(lx.at(j)):
 		start := j
-		for isUnitPart(lx.at(j)) {
-			j++
+		for {
+			r, w := lx.runeAt(j)
+			if !isUnitPart(r) {
+				break
+			}
+			j += w
 		}
 		// A monolayer names its material: ML(GaAs), ML(Al(0.3)Ga(0.7)As).
-		if lx.at(j) == '(' && string(lx.src[start:j]) == "ML" {
+		if lx.at(j) == '(' && lx.src[start:j] == "ML" {
+			// byte by byte: '(' and ')' are never part of a longer character
 			depth := 0
 			for k := j; k < len(lx.src); k++ {
 				if lx.src[k] == '(' {
@@ -501,11 +592,15 @@ func (lx *lexer) unitFactor(j, depth int) (int, bool) {
 	return j, true
 }
 
+// skipSp returns the offset of the first character at or after j that is not a space.
 func skipSp(lx *lexer, j int) int {
-	for isSpace(lx.at(j)) {
-		j++
+	for {
+		r, w := lx.runeAt(j)
+		if !isSpace(r) {
+			return j
+		}
+		j += w
 	}
-	return j
 }
 
 // targetUnit lexes the unit of a display request `-> unit`, with the same rule as a unit
@@ -520,32 +615,44 @@ func (lx *lexer) targetUnit() error {
 	return nil
 }
 
-// str reads a "..." string. Escapes: \" and \\ only.
+// str reads a "..." string. Escapes: \" and \\ only. A string without escapes is a slice
+// of the line.
 func (lx *lexer) str() (string, error) {
 	start := lx.pos()
 	var b strings.Builder
+	escaped := false
 	j := lx.i + 1
 	for {
 		if j >= len(lx.src) {
 			return "", lx.errAt(start, "unterminated string: expected a closing \"")
 		}
-		r := lx.src[j]
+		r, w := lx.runeAt(j)
 		switch r {
 		case '"':
+			s := b.String()
+			if !escaped {
+				s = lx.text(lx.i+1, j)
+			}
 			lx.i = j + 1
-			return b.String(), nil
+			return s, nil
 		case '\\':
 			nx := lx.at(j + 1)
 			if nx != '"' && nx != '\\' {
-				return "", lx.errAt(Pos{lx.line, j + 1}, `unknown escape in string: only \" and \\ are allowed`)
+				return "", lx.errAt(lx.posAt(j), `unknown escape in string: only \" and \\ are allowed`)
+			}
+			if !escaped {
+				escaped = true
+				b.WriteString(lx.text(lx.i+1, j))
 			}
 			b.WriteRune(nx)
 			j += 2
 		case '\n', '\r':
-			return "", lx.errAt(Pos{lx.line, j + 1}, "unexpected line break in string")
+			return "", lx.errAt(lx.posAt(j), "unexpected line break in string")
 		default:
-			b.WriteRune(r)
-			j++
+			if escaped {
+				b.WriteRune(r)
+			}
+			j += w
 		}
 	}
 }

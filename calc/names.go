@@ -2,8 +2,10 @@ package calc
 
 import (
 	"math"
+	"slices"
 	"strconv"
 	"strings"
+	"sync"
 
 	"cleave/calc/constants"
 	"cleave/calc/materials"
@@ -25,8 +27,8 @@ func (e *Env) lookupName(id *Ident) (Value, error) {
 	if c, ok := constants.Lookup(id.Name); ok {
 		return Q(c.Quantity()), nil
 	}
-	if m, err := materials.Lookup(id.Name); err == nil {
-		return MaterialRecord(m), nil
+	if r, ok := materialRecord(id.Name); ok {
+		return r, nil
 	}
 	if e.resolver != nil {
 		if v, ok := e.resolver.Lookup(id.Name); ok {
@@ -64,7 +66,7 @@ func (e *Env) knownNames() []string {
 // eps_r, g, gs, gv, vF (m/s), carrier, x, a (the cubic lattice constant at 300 K). Fields that do not apply (NaN or zero in the
 // table, such as graphene's mass) are left out.
 func MaterialRecord(m materials.Material) *Record {
-	r := &Record{}
+	r := &Record{Fields: make([]RecordField, 0, 10)} // room for every field
 	add := func(n string, v Value) { r.Fields = append(r.Fields, RecordField{n, v}) }
 	add("name", String(m.Name))
 	if m.Mstar > 0 {
@@ -93,6 +95,38 @@ func MaterialRecord(m materials.Material) *Record {
 	}
 	return r
 }
+
+// materialRecord is the record MaterialRecord makes of the material called name, if there is
+// one. The fields of each material's record are made once and shared: a field's value is
+// never changed, and each record gets a slice of fields of its own.
+func materialRecord(name string) (*Record, bool) {
+	materialFields.mu.RLock()
+	f, ok := materialFields.m[name]
+	materialFields.mu.RUnlock()
+	if !ok {
+		m, found := materials.Find(name)
+		if !found {
+			return nil, false
+		}
+		f = MaterialRecord(m).Fields
+		materialFields.mu.Lock()
+		if len(materialFields.m) < maxMaterialRecords {
+			materialFields.m[strings.Clone(name)] = f
+		}
+		materialFields.mu.Unlock()
+	}
+	return &Record{Fields: slices.Clone(f)}, true
+}
+
+// materialFields holds the fields of the material records made so far, by the name a line
+// wrote (the same name always gives the same material); past maxMaterialRecords names a
+// record is made at every lookup.
+var materialFields = struct {
+	mu sync.RWMutex
+	m  map[string][]RecordField
+}{m: map[string][]RecordField{}}
+
+const maxMaterialRecords = 1024
 
 // nearest returns the candidate closest to name by edit distance, if it is close enough
 // to be a plausible typo.
@@ -152,9 +186,9 @@ func materialCall(n *Call) (Value, bool) {
 	default:
 		return nil, false
 	}
-	m, err := materials.Lookup(n.Func + "(" + inner + ")")
-	if err != nil {
+	r, ok := materialRecord(n.Func + "(" + inner + ")")
+	if !ok {
 		return nil, false
 	}
-	return MaterialRecord(m), true
+	return r, true
 }

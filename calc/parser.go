@@ -2,6 +2,7 @@ package calc
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 	"unicode/utf8"
 )
@@ -48,6 +49,7 @@ const (
 
 type parser struct {
 	toks  []token
+	nums  []numLit // the number literals the tokens index
 	i     int
 	depth int
 }
@@ -62,22 +64,32 @@ func ParseLine(line string, lineNo int) (*Statement, error) {
 		return nil, &Error{Line: lineNo, Col: utf8.RuneCountInString(line[:MaxLineBytes]) + 1, Err: ErrTooLarge,
 			Msg: fmt.Sprintf("line of %d bytes: a calc line may hold at most %d; give parts of the expression names on lines of their own", len(line), MaxLineBytes)}
 	}
-	toks, err := lex(line, lineNo)
-	if err != nil {
+	// The tree keeps slices of the line (names, strings, units): a copy of its own, so that
+	// it holds on to no larger text the line was cut from.
+	return parseLine(strings.Clone(line), lineNo)
+}
+
+// parseLine parses line, which is no longer than MaxLineBytes and has no result region.
+func parseLine(line string, lineNo int) (*Statement, error) {
+	lx := getLexer(line, lineNo)
+	defer lx.release() // the tree copies what it keeps out of the tokens
+	if err := lx.lex(); err != nil {
 		return nil, err
 	}
+	toks := lx.toks
 	if len(toks)-1 > MaxTokens { // the last token is the end of the line
 		t := toks[MaxTokens]
 		return nil, &Error{Line: t.pos.Line, Col: t.pos.Col, Err: ErrTooLarge,
 			Msg: fmt.Sprintf("expression of %d parts: a calc line may hold at most %d numbers, names, operators and brackets; give parts of it names on lines of their own", len(toks)-1, MaxTokens)}
 	}
-	p := &parser{toks: toks}
+	p := &parser{toks: toks, nums: lx.nums}
 	st := &Statement{}
 	// a trailing comment
 	hadComment := false
 	if n := len(p.toks); n >= 2 && p.toks[n-2].kind == tComment {
 		st.Comment, hadComment = p.toks[n-2].text, true
-		p.toks = append(p.toks[:n-2:n-2], p.toks[n-1])
+		p.toks[n-2] = p.toks[n-1]
+		p.toks = p.toks[:n-1]
 	}
 	if p.peek().kind == tEOF {
 		if hadComment {
@@ -117,6 +129,11 @@ func ParseExpr(src string) (Node, error) {
 	if err != nil {
 		return nil, err
 	}
+	return exprOf(st)
+}
+
+// exprOf is the expression of a line that must be one.
+func exprOf(st *Statement) (Node, error) {
 	switch st.Kind {
 	case Expr:
 		return st.Expr, nil
@@ -329,7 +346,7 @@ func (p *parser) primary() (Node, error) {
 	switch t.kind {
 	case tNumber:
 		p.next()
-		n := t.num
+		n := &p.nums[t.num]
 		return &NumberLit{Pos: t.pos, Text: n.Text, Unc: n.Unc, Unit: n.Unit, UncUnit: n.UncUnit,
 			UncAfter: n.UncAfter, UnitPos: n.UnitPos, UncPos: n.UncPos, UncUPos: n.UncUPos}, nil
 	case tString:
@@ -361,18 +378,21 @@ func (p *parser) primary() (Node, error) {
 				p.next()
 				return l, nil
 			}
+			var buf [8]Node // one slice of the right size for the tree
+			elems := buf[:0]
 			for {
 				x, err := p.expr()
 				if err != nil {
 					return nil, err
 				}
-				l.Elems = append(l.Elems, x)
+				elems = append(elems, x)
 				if p.isOp(",") {
 					p.next()
 					continue
 				}
 				if p.isOp("]") {
 					p.next()
+					l.Elems = slices.Clone(elems)
 					return l, nil
 				}
 				return nil, p.errExpected(", or ] in the list opened at column " + fmt.Sprint(t.pos.Col))
@@ -391,6 +411,8 @@ func (p *parser) call(name token) (Node, error) {
 		return c, nil
 	}
 	seenNamed := false
+	var buf [4]Arg // most calls have a few arguments: one slice of the right size for the tree
+	args := buf[:0]
 	for {
 		a := Arg{Pos: p.peek().pos}
 		if p.peek().kind == tIdent && p.peekAt(1).kind == tOp && p.peekAt(1).text == "=" {
@@ -405,13 +427,14 @@ func (p *parser) call(name token) (Node, error) {
 			return nil, err
 		}
 		a.Value = x
-		c.Args = append(c.Args, a)
+		args = append(args, a)
 		if p.isOp(",") {
 			p.next()
 			continue
 		}
 		if p.isOp(")") {
 			p.next()
+			c.Args = slices.Clone(args)
 			return c, nil
 		}
 		return nil, p.errExpected(", or ) in the call of " + name.text + " opened at column " + fmt.Sprint(open.pos.Col))

@@ -66,6 +66,13 @@ func All() []calc.Func {
 // [All], and [ReadData] as its data loader), then opts applied: a notebook folder
 // (calc.WithFS), a resolver for entry fields (calc.WithResolver), further functions.
 func NewEnv(opts ...calc.Option) *calc.Env {
-	base := []calc.Option{calc.WithFuncTable(table()), calc.WithDataLoader(ReadData)}
-	return calc.NewEnv(append(base, opts...)...)
+	base := baseOptions()
+	all := make([]calc.Option, 0, len(base)+len(opts))
+	return calc.NewEnv(append(append(all, base...), opts...)...)
 }
+
+// baseOptions are the options every environment starts with, made once (they set the same
+// table and reader each time).
+var baseOptions = sync.OnceValue(func() []calc.Option {
+	return []calc.Option{calc.WithFuncTable(table()), calc.WithDataLoader(ReadData)}
+})

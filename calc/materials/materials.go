@@ -14,10 +14,12 @@ package materials
 
 import (
 	"fmt"
+	"maps"
 	"math"
 	"sort"
 	"strconv"
 	"strings"
+	"sync"
 )
 
 // Material is one entry: the parameters a Landau-level or transport formula needs.
@@ -338,6 +340,75 @@ func Names() []string {
 // composition. Each call returns a fresh Sources map.
 func Lookup(name string) (Material, error) {
 	name = strings.TrimSpace(name)
+	if m, ok := known.get(name); ok {
+		m.Sources = maps.Clone(m.Sources)
+		return m, nil
+	}
+	m, err := build(name)
+	if err != nil {
+		return Material{}, err
+	}
+	known.put(name, m)
+	m.Sources = maps.Clone(m.Sources) // the memo's map is never handed out
+	return m, nil
+}
+
+// Find is [Lookup] for a caller that needs only whether name is a material, and its
+// parameters: it builds no error message, and the material's Sources are nil. The calc
+// language tries every name it does not know otherwise as a material (`wafer`, `geometry`),
+// so a name that cannot be one is refused without parsing it.
+func Find(name string) (Material, bool) {
+	name = strings.TrimSpace(name)
+	if m, ok := known.get(name); ok {
+		m.Sources = nil
+		return m, true
+	}
+	// Beyond the fixed names, only a formula is a material, and a formula starts with an
+	// element symbol (ParseAlloy refuses anything else at its first byte).
+	if _, ok := fixed[name]; !ok && (name == "" || name[0] < 'A' || name[0] > 'Z') {
+		return Material{}, false
+	}
+	m, err := build(name)
+	if err != nil {
+		return Material{}, false
+	}
+	known.put(name, m)
+	m.Sources = nil
+	return m, true
+}
+
+// known holds the materials looked up so far by the names they were asked for, each built
+// once: the same name always gives the same material, so it holds no answer that could go
+// stale. Names are few in practice (the binaries and the compositions a notebook grows);
+// past maxKnown names a material is built at every lookup. Its Sources maps are read only
+// to be copied.
+var known = materialMemo{m: map[string]Material{}}
+
+const maxKnown = 1024
+
+type materialMemo struct {
+	mu sync.RWMutex
+	m  map[string]Material
+}
+
+func (k *materialMemo) get(name string) (Material, bool) {
+	k.mu.RLock()
+	m, ok := k.m[name]
+	k.mu.RUnlock()
+	return m, ok
+}
+
+func (k *materialMemo) put(name string, m Material) {
+	k.mu.Lock()
+	if len(k.m) < maxKnown {
+		// a copy of the name: it may be a slice of a longer text
+		k.m[strings.Clone(name)] = m
+	}
+	k.mu.Unlock()
+}
+
+// build makes the material name (already trimmed) names, or says why there is none.
+func build(name string) (Material, error) {
 	if f, ok := fixed[name]; ok {
 		return f(), nil
 	}

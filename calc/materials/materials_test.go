@@ -3,8 +3,10 @@ package materials
 import (
 	"cleave/internal/testutil"
 	"errors"
+	"fmt"
 	"math"
 	"strings"
+	"sync"
 	"testing"
 )
 
@@ -252,11 +254,76 @@ func TestLookupFreshSources(t *testing.T) {
 	}
 }
 
+// checkMemoMatchesBuild: Lookup (first call or from the memo) and Find give what building
+// the material afresh gives: the same material or the same error, Find without Sources.
+func checkMemoMatchesBuild(t *testing.T, name string) {
+	t.Helper()
+	want, wantErr := build(strings.TrimSpace(name))
+	for i := range 2 {
+		got, err := Lookup(name)
+		if fmt.Sprint(err) != fmt.Sprint(wantErr) || fmt.Sprintf("%+v", got) != fmt.Sprintf("%+v", want) {
+			t.Fatalf("Lookup(%q) call %d = %+v, %v; want %+v, %v", name, i+1, got, err, want, wantErr)
+		}
+		found, ok := Find(name)
+		w := want
+		w.Sources = nil
+		if ok != (wantErr == nil) || found.Sources != nil || fmt.Sprintf("%+v", found) != fmt.Sprintf("%+v", w) {
+			t.Fatalf("Find(%q) call %d = %+v, %v; want %+v, %v", name, i+1, found, ok, w, wantErr == nil)
+		}
+	}
+}
+
+// TestMemoMatchesBuild: the memo of looked-up materials changes no answer, for names that
+// are materials, names that are not (with their messages), and names padded with spaces.
+func TestMemoMatchesBuild(t *testing.T) {
+	for _, name := range []string{
+		"GaAs", "AlAs", "InAs", "InSb", "InP", "AlSb", "Si", "Si(100)", "Ge", "Ge(holes)", "graphene",
+		"Al0.3Ga0.7As", "Al(0.3)Ga(0.7)As", "Al0.33Ga0.67As", "Al0.25Ga0.748As", "In0.53Ga0.47As",
+		"In0.2Ga0.8As", "In0.52Al0.48As", " GaAs ", "\tAl0.3Ga0.7As", "AlGaAs", "AlxGa1-xAs", "gaas",
+		"Graphene", "HgTe", "Si(111)", "", " ", "wafer", "geometry", "B", "E_F", "_x", "Al0.3Ga0.8As",
+		"Al1.3Ga0.7As", "Al0.3", "µ", "ħ",
+	} {
+		checkMemoMatchesBuild(t, name)
+	}
+	// a caller changing its copy of Sources changes neither the memo nor Find's answer
+	a, _ := Lookup("Al0.3Ga0.7As")
+	a.Sources["Mstar"] = "changed"
+	a.Sources["new"] = "added"
+	checkMemoMatchesBuild(t, "Al0.3Ga0.7As")
+}
+
+// TestMemoConcurrent: lookups from many goroutines at once (the engine evaluates files in
+// parallel) give every one the same answer; run with -race.
+func TestMemoConcurrent(t *testing.T) {
+	names := []string{"GaAs", "Al0.3Ga0.7As", "In0.53Ga0.47As", "wafer", "AlGaAs", "Si(100)", "In0.1Al0.9As"}
+	var wg sync.WaitGroup
+	for g := range 8 {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range 50 {
+				name := names[(g+i)%len(names)]
+				m, err := Lookup(name)
+				f, ok := Find(name)
+				if ok != (err == nil) || ok && (m.Name != f.Name || m.Mstar != f.Mstar) {
+					t.Errorf("%s: Lookup %v, %v; Find %v, %v", name, m.Name, err, f.Name, ok)
+					return
+				}
+				if ok {
+					m.Sources["Mstar"] = "mine" // each caller's own map
+				}
+			}
+		}()
+	}
+	wg.Wait()
+}
+
 func FuzzParseAlloy(f *testing.F) {
 	for _, s := range []string{"Al0.33Ga0.67As", "Al(0.33)Ga(0.67)As", "In0.53Ga0.47As", "GaAs", "AlxGa1-xAs", "Si0.2Ge0.8", "Al0.3GaAs", ""} {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, s string) {
+		checkMemoMatchesBuild(t, s)
 		el, x, err := ParseAlloy(s)
 		if err != nil {
 			var fe *FormulaError

@@ -1,6 +1,7 @@
 package quantity
 
 import (
+	"bytes"
 	"fmt"
 	"math"
 	"strconv"
@@ -131,10 +132,9 @@ func Customary(q Quantity) Unit {
 	if q.temp == TempCelsius {
 		return parsedDisplay[celsiusSymbol]
 	}
-	si := Unit{Symbol: q.d.String(), Scale: 1, D: q.d}
 	r, ok := displayRules[q.d]
 	if !ok {
-		return si
+		return siUnit(q.d)
 	}
 	a := math.Abs(q.v)
 	if a == 0 || math.IsNaN(a) || math.IsInf(a, 0) {
@@ -148,10 +148,14 @@ func Customary(q Quantity) Unit {
 		}
 	}
 	if !representable(a, u.Scale) || !representable(q.Uncertainty(), u.Scale) {
-		return si
+		return siUnit(q.d)
 	}
 	return u
 }
+
+// siUnit is the unit of dimension d in SI base units, with scale 1. (Customary writes its
+// symbol out only when it is the answer.)
+func siUnit(d Dim) Unit { return Unit{Symbol: d.String(), Scale: 1, D: d} }
 
 // representable reports whether the SI magnitude x keeps its precision in
 // a unit of the given scale: the converted number is finite, and either
@@ -180,36 +184,48 @@ func FormatIn(q Quantity, u Unit) (string, error) {
 	if err != nil {
 		return "", err
 	}
-	var num string
+	// the text is written into one buffer: an exact value with its unit is one allocation
+	var buf [48]byte
+	b := buf[:0]
 	// A relative uncertainty below 1e-8 (values derived only from CODATA's measured
 	// constants, e.g. mu_B B) would need a dozen digits; such values are shown as exact ones.
 	if sigma := fromSI(q.Uncertainty(), u.Scale); sigma == 0 || !q.HasUncertainty() || math.Abs(sigma) < 1e-8*math.Abs(v) {
-		num = formatExact(v)
+		b = appendExact(b, v)
 	} else {
-		num = formatUncertain(v, math.Abs(sigma))
+		b = append(b, formatUncertain(v, math.Abs(sigma))...)
 	}
-	if u.Symbol == "" {
-		return num, nil
+	if u.Symbol != "" {
+		b = append(append(b, ' '), u.Symbol...)
 	}
-	return num + " " + u.Symbol, nil
+	return string(b), nil
 }
 
 // formatExact writes x to 5 significant figures, in scientific notation
 // ("3.0000e11") when the rounded |x| is at least 1e5 or below 1e-3.
-func formatExact(x float64) string {
+func formatExact(x float64) string { return string(appendExact(nil, x)) }
+
+// appendExact appends formatExact(x) to b.
+func appendExact(b []byte, x float64) []byte {
 	if math.IsNaN(x) || math.IsInf(x, 0) {
-		return nonFinite(x)
+		return append(b, nonFinite(x)...)
 	}
 	if x == 0 {
-		return "0"
+		return append(b, '0')
 	}
-	s := strconv.FormatFloat(x, 'e', 4, 64)
-	mant, exp, _ := strings.Cut(s, "e")
-	e, _ := strconv.Atoi(exp)
+	start := len(b)
+	b = strconv.AppendFloat(b, x, 'e', 4, 64) // "-3.0000e+11"
+	i := start + bytes.IndexByte(b[start:], 'e')
+	e := 0
+	for _, c := range b[i+2:] {
+		e = 10*e + int(c-'0')
+	}
+	if b[i+1] == '-' {
+		e = -e
+	}
 	if e >= 5 || e < -3 {
-		return mant + "e" + strconv.Itoa(e)
+		return strconv.AppendInt(b[:i+1], int64(e), 10) // "-3.0000e11"
 	}
-	return strconv.FormatFloat(x, 'f', max(0, 4-e), 64)
+	return strconv.AppendFloat(b[:start], x, 'f', max(0, 4-e), 64)
 }
 
 func nonFinite(x float64) string {

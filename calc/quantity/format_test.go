@@ -7,6 +7,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -35,6 +36,51 @@ func TestFormatExact(t *testing.T) {
 	for _, tt := range tests {
 		if got := formatExact(tt.x); got != tt.want {
 			t.Errorf("formatExact(%g) = %q, want %q", tt.x, got, tt.want)
+		}
+	}
+}
+
+// refFormatExact is formatExact as it was written before it appended to a buffer, kept as
+// the reference TestFormatExactMatchesReference compares with.
+func refFormatExact(x float64) string {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return nonFinite(x)
+	}
+	if x == 0 {
+		return "0"
+	}
+	s := strconv.FormatFloat(x, 'e', 4, 64)
+	mant, exp, _ := strings.Cut(s, "e")
+	e, _ := strconv.Atoi(exp)
+	if e >= 5 || e < -3 {
+		return mant + "e" + strconv.Itoa(e)
+	}
+	return strconv.FormatFloat(x, 'f', max(0, 4-e), 64)
+}
+
+// TestFormatExactMatchesReference: formatExact, and FormatIn of exact quantities, write what
+// the string-building version wrote, for random values over the whole range of float64
+// (every decimal exponent, both signs, subnormals, the rounding edges of the scientific form).
+func TestFormatExactMatchesReference(t *testing.T) {
+	r := rand.New(rand.NewPCG(1, 2))
+	xs := []float64{0, math.Copysign(0, -1), 1, -1, 99999.4, 99999.5, 99999.96, 1e5, 0.001, 0.00099999, 0.000999996,
+		math.MaxFloat64, -math.MaxFloat64, math.SmallestNonzeroFloat64, 0x1p-1022, 1e-310, math.Inf(1), math.NaN()}
+	for range 20000 {
+		x := math.Float64frombits(r.Uint64())
+		xs = append(xs, x, math.Pow(10, float64(r.IntN(40)-20))*(r.Float64()*2-1))
+	}
+	for _, x := range xs {
+		if got, want := formatExact(x), refFormatExact(x); got != want {
+			t.Fatalf("formatExact(%v) = %q, want %q", x, got, want)
+		}
+	}
+	m := MustUnit("mm")
+	for _, x := range xs[:2000] {
+		q := New(x, Length)
+		got, err := FormatIn(q, m)
+		v, _ := q.In(m)
+		if want := refFormatExact(v) + " mm"; err != nil || got != want {
+			t.Fatalf("FormatIn(%v m, mm) = %q, %v; want %q", x, got, err, want)
 		}
 	}
 }

@@ -2,7 +2,10 @@ package quantity
 
 import (
 	"errors"
+	"fmt"
 	"math"
+	"strings"
+	"sync"
 	"testing"
 )
 
@@ -14,6 +17,49 @@ var unitSeeds = []string{
 	"sccm", "rpm^2", "mTorr", "kOe", "uL", "inch", "ppm",
 }
 
+// checkUnitMemo: ParseUnit, the first time and from its memo, gives what parsing afresh gives:
+// the same unit or the same error.
+func checkUnitMemo(t *testing.T, s string) {
+	t.Helper()
+	want, wantErr := parseUnit(s)
+	for i := range 2 {
+		got, err := ParseUnit(s)
+		if fmt.Sprintf("%+v %v", got, err) != fmt.Sprintf("%+v %v", want, wantErr) {
+			t.Fatalf("ParseUnit(%q) call %d = %+v, %v; parsed afresh %+v, %v", s, i+1, got, err, want, wantErr)
+		}
+		if err != nil && fmt.Sprintf("%#v", err) != fmt.Sprintf("%#v", wantErr) {
+			t.Fatalf("ParseUnit(%q) call %d: error %#v, parsed afresh %#v", s, i+1, err, wantErr)
+		}
+	}
+}
+
+// TestUnitMemo: the memo of parsed units changes no unit and no error, with texts padded
+// with spaces, long texts (parsed each time) and texts parsed from many goroutines at once
+// (run with -race).
+func TestUnitMemo(t *testing.T) {
+	texts := append(append([]string(nil), unitSeeds...), " T ", "T ", " cm^-2", strings.Repeat("m ", 40), "µm\t")
+	for _, s := range texts {
+		checkUnitMemo(t, s)
+	}
+	var wg sync.WaitGroup
+	for g := range 8 {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range 40 {
+				s := texts[(g*7+i)%len(texts)]
+				want, wantErr := parseUnit(s)
+				got, err := ParseUnit(s)
+				if fmt.Sprintf("%+v %v", got, err) != fmt.Sprintf("%+v %v", want, wantErr) {
+					t.Errorf("ParseUnit(%q) = %+v, %v; want %+v, %v", s, got, err, want, wantErr)
+					return
+				}
+			}
+		}()
+	}
+	wg.Wait()
+}
+
 // FuzzParseUnit: ParseUnit never panics; an accepted unit has a positive
 // (or at worst non-NaN) scale, and its dimension's SI string parses back to
 // the same dimension with scale 1.
@@ -22,6 +68,7 @@ func FuzzParseUnit(f *testing.F) {
 		f.Add(s)
 	}
 	f.Fuzz(func(t *testing.T, s string) {
+		checkUnitMemo(t, s)
 		u, err := ParseUnit(s)
 		if err != nil {
 			var ue *UnitError

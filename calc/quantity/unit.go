@@ -5,6 +5,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"sync"
 	"unicode"
 	"unicode/utf8"
 
@@ -275,6 +276,46 @@ func (p *unitParser) skipSpace() bool {
 //
 // Errors are *[UnitError] values with the byte offset of the problem.
 func ParseUnit(s string) (Unit, error) {
+	if len(s) > maxMemoUnitBytes {
+		return parseUnit(s)
+	}
+	parsedUnits.mu.RLock()
+	u, ok := parsedUnits.m[s]
+	parsedUnits.mu.RUnlock()
+	if ok {
+		return u, nil
+	}
+	// The memo's key and the unit's Symbol share one copy of the text, which holds on to
+	// no larger text it was cut from.
+	k := strings.Clone(s)
+	u, err := parseUnit(k)
+	if err != nil {
+		return Unit{}, err
+	}
+	parsedUnits.mu.Lock()
+	if len(parsedUnits.m) < maxMemoUnits {
+		parsedUnits.m[k] = u
+	}
+	parsedUnits.mu.Unlock()
+	return u, nil
+}
+
+// parsedUnits holds the units parsed so far by their text: the same text always gives the same
+// Unit (a value with nothing to share but its Symbol's immutable text), and the units a
+// notebook writes are few ("T", "cm^-2", "um", on every quantity of every file). Errors are
+// not kept. Past maxMemoUnits texts a unit is parsed each time.
+var parsedUnits = struct {
+	mu sync.RWMutex
+	m  map[string]Unit
+}{m: map[string]Unit{}}
+
+const (
+	maxMemoUnits     = 1024
+	maxMemoUnitBytes = 64
+)
+
+// parseUnit is ParseUnit without the memo.
+func parseUnit(s string) (Unit, error) {
 	p := &unitParser{s: s}
 	p.skipSpace()
 	if p.pos == len(s) {
