@@ -1,6 +1,10 @@
 package notebook
 
-import "testing"
+import (
+	"testing"
+
+	"go.yaml.in/yaml/v3"
+)
 
 // BenchmarkLoadValidate10k loads and validates a generated notebook of about
 // 10,000 entries (909 wafers with layer tables, 1818 pieces, 3636 devices,
@@ -20,4 +24,55 @@ func BenchmarkLoadValidate10k(b *testing.B) {
 			b.Fatalf("only %d entries", len(nb.Entries))
 		}
 	}
+}
+
+// typicalFrontMatter is the front matter of a device entry as the fast path of decodeYAML
+// reads it.
+const typicalFrontMatter = `id: W00012-A-HB1
+kind: device
+from: W00012-A
+mask: M1
+devices: [W00012-A-HB1, W00012-B-HB1]
+base_temperature: 0.3 K
+design_density: 2.3e11 cm^-2
+channel: GaAs
+grown: 2024-03-01
+position: {x: -10 mm, y: 5 mm}
+axis: "[1-10]"
+tags:
+  - calibration
+  - Al0.3Ga0.7As
+`
+
+// BenchmarkDecodeYAML decodes typicalFrontMatter with decodeYAML (which takes the fast path)
+// and with yaml v3 alone, as decodeYAML did before the fast path.
+func BenchmarkDecodeYAML(b *testing.B) {
+	y := []byte(typicalFrontMatter)
+	if !decodePlainYAML(y, &yaml.Node{}) {
+		b.Fatal("the fast path refuses the typical front matter")
+	}
+	b.Run("fast", func(b *testing.B) {
+		b.ReportAllocs()
+		for b.Loop() {
+			var n yaml.Node
+			if err := decodeYAML(y, &n); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
+	b.Run("yamlv3", func(b *testing.B) {
+		b.ReportAllocs()
+		for b.Loop() {
+			var n yaml.Node
+			if err := checkYAMLText(y); err != nil {
+				b.Fatal(err)
+			}
+			if err := yaml.Unmarshal(y, &n); err != nil {
+				b.Fatal(err)
+			}
+			if err := checkYAMLTree(&n); err != nil {
+				b.Fatal(err)
+			}
+		}
+	})
 }

@@ -3,10 +3,14 @@ package notebook
 import (
 	"bytes"
 	"fmt"
+	"math/rand/v2"
+	"reflect"
 	"testing"
 	"testing/fstest"
 	"time"
 	"unicode/utf8"
+
+	"go.yaml.in/yaml/v3"
 )
 
 // FuzzLoad loads a two-file notebook whose second file has fuzzed front
@@ -63,6 +67,35 @@ func FuzzLoad(f *testing.F) {
 		var b bytes.Buffer
 		if err := nb.Tree(&b, ""); err != nil {
 			t.Fatal(err)
+		}
+	})
+}
+
+// FuzzFrontMatterFast holds the fast path for plain front matter (yamlfast.go) equal to yaml v3:
+// whenever it accepts a text, yaml.Unmarshal must accept it too and build the very same tree;
+// when it refuses one, it must leave the node alone. Seeded with every front matter in the
+// repository, the cases of TestPlainYAML and documents of genPlainYAML.
+func FuzzFrontMatterFast(f *testing.F) {
+	for _, y := range repoFrontMatter(f) {
+		f.Add(y)
+	}
+	for _, tc := range plainYAMLCases {
+		f.Add(tc.in)
+	}
+	r := rand.New(rand.NewPCG(1, 2))
+	for range 100 {
+		f.Add(genPlainYAML(r))
+	}
+	f.Fuzz(func(t *testing.T, s string) {
+		var fast yaml.Node
+		if !decodePlainYAML([]byte(s), &fast) {
+			if !reflect.DeepEqual(fast, yaml.Node{}) {
+				t.Fatalf("refusing %q left a node behind", s)
+			}
+			return
+		}
+		if d := sameAsYAML(s); d != "" {
+			t.Fatalf("%q: %s", s, d)
 		}
 	})
 }

@@ -347,7 +347,9 @@ func parseEntry(p string, src *mdsrc.Source) (e *Entry, probs []Problem) {
 
 // decodeYAML decodes into a node, turning a panic inside the YAML library
 // into an error so that bad input can never crash a load, within the bounds
-// of yamlbound.go (a *frontMatterError).
+// of yamlbound.go (a *frontMatterError). Plain front matter takes the fast
+// path of yamlfast.go, which builds the same tree; anything else, and every
+// error, comes from yaml v3.
 func decodeYAML(b []byte, n *yaml.Node) (err error) {
 	defer func() {
 		if r := recover(); r != nil {
@@ -357,8 +359,10 @@ func decodeYAML(b []byte, n *yaml.Node) (err error) {
 	if err := checkYAMLText(b); err != nil {
 		return err
 	}
-	if err := yaml.Unmarshal(b, n); err != nil {
-		return err
+	if !decodePlainYAML(b, n) {
+		if err := yaml.Unmarshal(b, n); err != nil {
+			return err
+		}
 	}
 	return checkYAMLTree(n)
 }
