@@ -13,8 +13,12 @@ import (
 // backslash. A fenceLen below 3 is treated as 3.
 func Sanitize(result string, fence byte, fenceLen int) string {
 	fenceLen = max(fenceLen, 3)
-	r := strings.TrimSpace(lineBreaks.Replace(result))
-	if fence != '`' && fence != '~' {
+	r := result
+	if strings.ContainsAny(r, "\r\n") {
+		r = lineBreaks.Replace(r)
+	}
+	r = strings.TrimSpace(r)
+	if fence != '`' && fence != '~' || strings.IndexByte(r, fence) < 0 {
 		return r
 	}
 	if !strings.Contains(r, strings.Repeat(string(fence), fenceLen)) {

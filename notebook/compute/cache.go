@@ -159,17 +159,8 @@ func (c *Cache) knownSummary(stamps map[string]string) func(string) (*notebook.S
 	}
 }
 
-// lookup returns the stored outcomes of the file at path when its key matches and every
-// recorded dependency still has its recorded value.
-func (c *Cache) lookup(rs *runState, path, key string, n int) ([]calcblock.Outcome, bool) {
-	r, ok := c.find(rs, path, key, n)
-	if !ok {
-		return nil, false
-	}
-	return r.outs, true
-}
-
-// find is lookup returning the record.
+// find returns the stored record of the file at path when its key matches, it has n
+// outcomes and every recorded dependency still has its recorded value.
 func (c *Cache) find(rs *runState, path, key string, n int) (*cacheRec, bool) {
 	c.mu.Lock()
 	r, ok := c.cur[path]
@@ -189,8 +180,8 @@ func (c *Cache) find(rs *runState, path, key string, n int) (*cacheRec, bool) {
 }
 
 // store keeps what an evaluation of the file at path computed and read.
-func (c *Cache) store(path, key string, rec deps, outs []calcblock.Outcome) {
-	r := &cacheRec{key: key, outs: outs, okey: outsKey(outs)}
+func (c *Cache) store(path, key string, rec deps, outs []calcblock.Outcome, okey string) {
+	r := &cacheRec{key: key, outs: outs, okey: okey}
 	for k, v := range rec {
 		r.deps = append(r.deps, depValue{k, v})
 	}

@@ -3,6 +3,7 @@ package compute
 import (
 	"bytes"
 	"crypto/sha256"
+	"encoding/binary"
 	"encoding/hex"
 	"errors"
 	"fmt"
@@ -168,15 +169,31 @@ func Run(fsys fs.FS, nb *notebook.Notebook, opt Options) (*Report, error) {
 	}
 	wg.Wait()
 	if rs.cache != nil {
-		// What this run read, for the next one: each file's summary and input digest.
+		// What this run read, for the next one: each file's summary and input digest (files
+		// without a block are parsed for their digest here, several at a time).
+		var fresh []*notebook.File
 		for _, f := range nb.Files {
 			if !f.Known() {
-				f := f
-				rs.cache.learn(f.Path, rs.stamps[f.Path], func(r *fileRec) {
-					r.sum, r.digest = f.Summary(), rs.parse(f).digest
-				})
+				fresh = append(fresh, f)
 			}
 		}
+		next.Store(0)
+		for range min(runtime.GOMAXPROCS(0), len(fresh)) {
+			wg.Add(1)
+			go func() {
+				defer wg.Done()
+				for {
+					i := int(next.Add(1)) - 1
+					if i >= len(fresh) {
+						return
+					}
+					f := fresh[i]
+					sum, digest := f.Summary(), rs.parse(f).digest
+					rs.cache.learn(f.Path, rs.stamps[f.Path], func(r *fileRec) { r.sum, r.digest = sum, digest })
+				}
+			}()
+		}
+		wg.Wait()
 	}
 
 	rep := &Report{}
@@ -357,9 +374,9 @@ func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileRepo
 	n := len(calcblock.CodeLines(blocks))
 	key := rs.key(f)
 	if cache != nil {
-		if outs, ok := cache.lookup(rs, f.Path, key, n); ok {
-			fr, err := calcblock.Build(f.Path, f.Source(), perr, blocks, outs)
-			rs.keepReport(f, fr, outs)
+		if rec, ok := cache.find(rs, f.Path, key, n); ok {
+			fr, err := calcblock.Build(f.Path, f.Source(), perr, blocks, rec.outs)
+			rs.keepReport(f, fr, rec.okey)
 			return fr, true, err
 		}
 	}
@@ -372,23 +389,23 @@ func (rs *runState) runFile(f *notebook.File, cache *Cache) (*calcblock.FileRepo
 		}
 		return outcomeOf(env.EvalLine(code, lineNo))
 	}))
+	okey := outsKey(outs)
 	if cache != nil {
-		cache.store(f.Path, key, rec, outs)
+		cache.store(f.Path, key, rec, outs, okey)
 	}
 	fr, err := calcblock.Build(f.Path, f.Source(), perr, blocks, outs)
 	if err == nil {
-		rs.keepReport(f, fr, outs)
+		rs.keepReport(f, fr, okey)
 	}
 	return fr, false, err
 }
 
 // keepReport remembers a file's report for the next run.
-func (rs *runState) keepReport(f *notebook.File, fr *calcblock.FileReport, outs []calcblock.Outcome) {
+func (rs *runState) keepReport(f *notebook.File, fr *calcblock.FileReport, key string) {
 	if rs.cache == nil || fr == nil {
 		return
 	}
 	stamp := rs.stamps[f.Path]
-	key := outsKey(outs)
 	if r := rs.cache.fileAt(f.Path, stamp); r != nil && r.report != nil && r.report.key == key && r.report.code == fr.Code &&
 		len(r.report.errors) == len(fr.Errors) && len(r.report.stale) == len(fr.Stale) {
 		return // known already
@@ -399,11 +416,14 @@ func (rs *runState) keepReport(f *notebook.File, fr *calcblock.FileReport, outs 
 
 // outsKey hashes a file's outcomes.
 func outsKey(outs []calcblock.Outcome) string {
-	h := sha256.New()
+	b := make([]byte, 0, 256)
 	for _, o := range outs {
-		fmt.Fprintf(h, "%v\x00%d\x00%s\x00", o.Failed, o.Col, o.Text)
+		b = appendBool(b, o.Failed)
+		b = binary.AppendUvarint(b, uint64(max(o.Col, 0)))
+		b = appendStr(b, o.Text)
 	}
-	return hex.EncodeToString(h.Sum(nil)[:16])
+	sum := sha256.Sum256(b)
+	return hex.EncodeToString(sum[:16])
 }
 
 // key names a file's own inputs: the engine, its path (error messages may name it) and its
