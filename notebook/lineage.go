@@ -154,9 +154,41 @@ func (nb *Notebook) Context(e *Entry) []*Entry {
 // Nearest returns the first entry of kind k in e's context (e itself, then
 // its ancestors nearest first).
 func (nb *Notebook) Nearest(e *Entry, k Kind) (*Entry, bool) {
-	for _, c := range nb.Context(e) {
-		if c.Kind == k {
-			return c, true
+	if e == nil {
+		return nil, false
+	}
+	if e.Kind == k {
+		return e, true
+	}
+	if nb.byID[e.ID] != e {
+		return nil, false
+	}
+	// Context's walk, stopping at the first entry of kind k: the same answer without
+	// listing every ancestor (lineages are short, so a slice does for the seen set).
+	var buf [16]*Entry
+	seen := append(buf[:0], e)
+	var big map[*Entry]bool // the seen set once the slice grows long
+	for i := 0; i < len(seen); i++ {
+		if i > 0 && seen[i].Kind == KindProcess {
+			continue // walk lists a process but does not go up through it
+		}
+		for _, n := range nb.parents[seen[i]] {
+			if len(seen) > 64 && big == nil {
+				big = make(map[*Entry]bool, 2*len(seen))
+				for _, s := range seen {
+					big[s] = true
+				}
+			}
+			if big != nil && big[n] || big == nil && slices.Contains(seen, n) {
+				continue
+			}
+			if big != nil {
+				big[n] = true
+			}
+			if n.Kind == k {
+				return n, true
+			}
+			seen = append(seen, n)
 		}
 	}
 	return nil, false
