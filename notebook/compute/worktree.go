@@ -102,28 +102,81 @@ type Scan struct {
 // unseen (git's racy-timestamp rule), so its stamp is "" and never matches.
 func (w WorkTree) Scan() (*Scan, error) {
 	start := time.Now()
-	// Folders are listed one by one (cheap), the files' stat data is read by parallel workers
-	// (one system call each, relative to its open folder: the bulk of the time).
+	limit := start.Add(-time.Second).UnixNano()
+	// One goroutine lists the folders (each in path order); as each folder is listed, its
+	// files go in chunks to workers that read their stat data (one system call per file,
+	// relative to the open folder: the bulk of the time), so listing and stat overlap.
 	type file struct {
 		path, name string
-		dir        int
+		dir        dirHandle // the open folder that holds it
 	}
-	var files []file
-	var dirs []dirHandle
+	type chunk struct {
+		files   []file
+		stamps  []string
+		regular []bool
+	}
+	var (
+		chunks []*chunk
+		dirs   []dirHandle
+		temps  []string
+		racy   atomic.Bool
+		failed atomic.Pointer[error]
+		wg     sync.WaitGroup
+	)
 	defer func() {
 		for _, d := range dirs {
 			d.close()
 		}
 	}()
-	var temps []string
+	work := make(chan *chunk, 64)
+	for range max(1, runtime.GOMAXPROCS(0)) {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			var b []byte
+			for c := range work {
+				for i, f := range c.files {
+					if failed.Load() != nil {
+						break
+					}
+					st, err := f.dir.lstat(f.name)
+					if err != nil {
+						failed.Store(&err)
+						break
+					}
+					c.regular[i] = st.regular()
+					if st.mtime >= limit {
+						racy.Store(true)
+						continue
+					}
+					b = binary.AppendUvarint(b[:0], uint64(st.mode))
+					b = binary.AppendUvarint(b, uint64(st.size))
+					b = binary.AppendVarint(b, st.mtime)
+					b = binary.AppendUvarint(b, st.ino)
+					c.stamps[i] = string(b)
+				}
+			}
+		}()
+	}
+	const chunkLen = 128
+	var pending []file // files listed, not yet sent
+	flush := func() {
+		for len(pending) > 0 {
+			n := min(chunkLen, len(pending))
+			c := &chunk{files: pending[:n:n], stamps: make([]string, n), regular: make([]bool, n)}
+			pending = pending[n:]
+			chunks = append(chunks, c)
+			work <- c
+		}
+		pending = nil
+	}
 	var walk func(rel string) error
 	walk = func(rel string) error {
 		d, err := openDir(filepath.Join(w.Root, filepath.FromSlash(rel)))
 		if err != nil {
 			return err
 		}
-		dirs = append(dirs, d)
-		di := len(dirs) - 1
+		dirs = append(dirs, d) // closed when the scan ends
 		ents, err := d.readDir()
 		if err != nil {
 			return err
@@ -153,80 +206,60 @@ func (w WorkTree) Scan() (*Scan, error) {
 			}
 			switch {
 			case e.IsDir():
+				flush() // the files before the folder go out before the folder's own
 				if err := walk(p); err != nil {
 					return err
 				}
 			case calcblock.IsTempName(e.Name()):
 				temps = append(temps, p)
 			default:
-				files = append(files, file{p, e.Name(), di})
+				pending = append(pending, file{p, e.Name(), d})
+				if len(pending) == chunkLen {
+					flush()
+				}
 			}
 		}
+		flush()
 		return nil
 	}
-	if err := walk("."); err != nil {
-		return nil, err
-	}
-	byPath := func(a, b file) int { return strings.Compare(a.path, b.path) }
-	if !slices.IsSortedFunc(files, byPath) { // cannot happen; the digest depends on the order
-		slices.SortFunc(files, byPath)
-	}
-	stamps := make([]string, len(files))
-	regular := make([]bool, len(files))
-	var racy atomic.Bool
-	var failed atomic.Pointer[error]
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	limit := start.Add(-time.Second).UnixNano()
-	const chunk = 64
-	for range max(1, min(runtime.GOMAXPROCS(0), len(files)/256)) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			var b []byte
-			for {
-				lo := int(next.Add(chunk)) - chunk
-				if lo >= len(files) {
-					return
-				}
-				for i := lo; i < min(lo+chunk, len(files)); i++ {
-					st, err := dirs[files[i].dir].lstat(files[i].name)
-					if err != nil {
-						failed.Store(&err)
-						return
-					}
-					regular[i] = st.regular()
-					if st.mtime >= limit {
-						racy.Store(true)
-						continue
-					}
-					b = binary.AppendUvarint(b[:0], uint64(st.mode))
-					b = binary.AppendUvarint(b, uint64(st.size))
-					b = binary.AppendVarint(b, st.mtime)
-					b = binary.AppendUvarint(b, st.ino)
-					stamps[i] = string(b)
-				}
-			}
-		}()
-	}
+	saltc := make(chan string, 1)
+	go func() { saltc <- saltIn(w.StateDir) }()
+	werr := walk(".")
+	close(work)
 	wg.Wait()
+	salt := <-saltc
+	if werr != nil {
+		return nil, werr
+	}
 	if err := failed.Load(); err != nil {
 		return nil, *err
 	}
-	sc := &Scan{Stamps: make(map[string]string, len(files)), Racy: racy.Load(), Temps: temps}
+	n := 0
+	for _, c := range chunks {
+		n += len(c.files)
+	}
+	sc := &Scan{Stamps: make(map[string]string, n), Racy: racy.Load(), Temps: temps}
 	h := sha256.New()
-	fmt.Fprintf(h, "%s\n", saltIn(w.StateDir))
+	fmt.Fprintf(h, "%s\n", salt)
 	var hb []byte
-	for i, f := range files {
-		sc.Stamps[f.path] = stamps[i]
-		if regular[i] && notebook.Loadable(f.path) {
-			sc.Markdown = append(sc.Markdown, f.path)
+	last := ""
+	for _, c := range chunks {
+		for i, f := range c.files {
+			if f.path <= last && last != "" {
+				// Cannot happen (the walk lists in path order); the digest depends on it.
+				return nil, fmt.Errorf("scan: %s listed after %s", f.path, last)
+			}
+			last = f.path
+			sc.Stamps[f.path] = c.stamps[i]
+			if c.regular[i] && notebook.Loadable(f.path) {
+				sc.Markdown = append(sc.Markdown, f.path)
+			}
+			hb = binary.AppendUvarint(hb[:0], uint64(len(f.path)))
+			hb = append(hb, f.path...)
+			hb = binary.AppendUvarint(hb, uint64(len(c.stamps[i])))
+			hb = append(hb, c.stamps[i]...)
+			h.Write(hb)
 		}
-		hb = binary.AppendUvarint(hb[:0], uint64(len(f.path)))
-		hb = append(hb, f.path...)
-		hb = binary.AppendUvarint(hb, uint64(len(stamps[i])))
-		hb = append(hb, stamps[i]...)
-		h.Write(hb)
 	}
 	if !sc.Racy {
 		sc.digest = hex.EncodeToString(h.Sum(nil))
