@@ -85,6 +85,9 @@ type Entry struct {
 	meta   *yaml.Node // the front-matter mapping node
 	layers []LayerRow
 	lk     []Link // the links, read at load (nil for an entry known from a summary)
+	// The lineage edges, set by the notebook's index: existing link targets in link order
+	// without repeats (up), and the entries linking here sorted for display (down).
+	up, down []*Entry
 }
 
 // load fills the front matter and the layer table of an entry known from a summary.

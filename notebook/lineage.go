@@ -3,16 +3,23 @@ package notebook
 import (
 	"slices"
 	"strings"
+	"sync"
 )
 
 // index builds the id map and the lineage graph. A link to a missing id, or to
 // an entry of a kind the field does not allow, is left out of the graph (and
 // reported by Validate).
 func (nb *Notebook) index() {
-	nb.byPath = make(map[string]*File, len(nb.Files))
-	for _, f := range nb.Files {
-		nb.byPath[f.Path] = f
-	}
+	// The path index is built beside the rest (two maps of ten thousand entries each take
+	// a while; nothing below reads byPath).
+	var paths sync.WaitGroup
+	paths.Go(func() {
+		nb.byPath = make(map[string]*File, len(nb.Files))
+		for _, f := range nb.Files {
+			nb.byPath[f.Path] = f
+		}
+	})
+	defer paths.Wait()
 	nb.byID = make(map[string]*Entry, len(nb.Entries))
 	nb.dups = map[string][]*Entry{}
 	for _, e := range nb.Entries {
@@ -25,8 +32,6 @@ func (nb *Notebook) index() {
 		}
 		nb.byID[e.ID] = e
 	}
-	nb.parents = make(map[*Entry][]*Entry, len(nb.Entries))
-	nb.children = make(map[*Entry][]*Entry, len(nb.Entries))
 	for _, e := range nb.Entries {
 		if nb.byID[e.ID] != e {
 			continue // a duplicate: its links would make the graph ambiguous
@@ -34,15 +39,17 @@ func (nb *Notebook) index() {
 		lfs := linkFields(e.Kind)
 		for _, l := range e.links() {
 			t, ok := nb.byID[l.ID]
-			if !ok || !linkAllows(lfs, l.Field, t.Kind) || slices.Contains(nb.parents[e], t) {
+			if !ok || !linkAllows(lfs, l.Field, t.Kind) || slices.Contains(e.up, t) {
 				continue
 			}
-			nb.parents[e] = append(nb.parents[e], t)
-			nb.children[t] = append(nb.children[t], e)
+			e.up = append(e.up, t)
+			t.down = append(t.down, e)
 		}
 	}
-	for _, cs := range nb.children {
-		slices.SortFunc(cs, byKindThenID)
+	for _, e := range nb.Entries {
+		if len(e.down) > 1 {
+			slices.SortFunc(e.down, byKindThenID)
+		}
 	}
 }
 
@@ -82,11 +89,11 @@ func byKindThenID(a, b *Entry) int {
 // Parents returns the entries that e links to (from, mask, process, pieces,
 // devices), in link order. Links to missing entries or to the wrong kind are
 // not included.
-func (nb *Notebook) Parents(e *Entry) []*Entry { return slices.Clone(nb.parents[e]) }
+func (nb *Notebook) Parents(e *Entry) []*Entry { return slices.Clone(e.up) }
 
 // Children returns the entries that link to e, ordered by kind (piece,
 // device, cooldown, process) then id.
-func (nb *Notebook) Children(e *Entry) []*Entry { return slices.Clone(nb.children[e]) }
+func (nb *Notebook) Children(e *Entry) []*Entry { return slices.Clone(e.down) }
 
 // Ancestors returns the ancestors of the entry with the given id, nearest
 // first (breadth first; within one generation in link order). It is nil for
@@ -101,7 +108,7 @@ func (nb *Notebook) Ancestors(id string) []*Entry {
 	if !ok {
 		return nil
 	}
-	return nb.walk(e, nb.parents)
+	return nb.walk(e, true)
 }
 
 // Descendants returns the descendants of the entry with the given id,
@@ -114,17 +121,23 @@ func (nb *Notebook) Descendants(id string) []*Entry {
 	if !ok {
 		return nil
 	}
-	return nb.walk(e, nb.children)
+	return nb.walk(e, false)
 }
 
-func (nb *Notebook) walk(start *Entry, next map[*Entry][]*Entry) []*Entry {
+// walk lists the entries reached from start going up (to parents) or down (to children),
+// breadth first, listing a process but not going on through it.
+func (nb *Notebook) walk(start *Entry, up bool) []*Entry {
 	seen := map[*Entry]bool{start: true}
 	var out []*Entry
 	queue := []*Entry{start}
 	for len(queue) > 0 {
 		e := queue[0]
 		queue = queue[1:]
-		for _, n := range next[e] {
+		next := e.down
+		if up {
+			next = e.up
+		}
+		for _, n := range next {
 			if !seen[n] {
 				seen[n] = true
 				out = append(out, n)
@@ -148,7 +161,7 @@ func (nb *Notebook) Context(e *Entry) []*Entry {
 	if nb.byID[e.ID] != e {
 		return out // a duplicate id has no place in the graph
 	}
-	return append(out, nb.walk(e, nb.parents)...)
+	return append(out, nb.walk(e, true)...)
 }
 
 // Nearest returns the first entry of kind k in e's context (e itself, then
@@ -172,7 +185,7 @@ func (nb *Notebook) Nearest(e *Entry, k Kind) (*Entry, bool) {
 		if i > 0 && seen[i].Kind == KindProcess {
 			continue // walk lists a process but does not go up through it
 		}
-		for _, n := range nb.parents[seen[i]] {
+		for _, n := range seen[i].up {
 			if len(seen) > 64 && big == nil {
 				big = make(map[*Entry]bool, 2*len(seen))
 				for _, s := range seen {
@@ -213,7 +226,7 @@ func (nb *Notebook) cycles() [][]*Entry {
 	visit = func(e *Entry) {
 		colour[e] = grey
 		stack = append(stack, e)
-		for _, p := range nb.parents[e] {
+		for _, p := range e.up {
 			switch colour[p] {
 			case white:
 				visit(p)

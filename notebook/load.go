@@ -32,8 +32,6 @@ type Notebook struct {
 	byID     map[string]*Entry // first entry (in path order) for each id
 	byPath   map[string]*File
 	dups     map[string][]*Entry
-	parents  map[*Entry][]*Entry // existing link targets, in link order, without repeats
-	children map[*Entry][]*Entry // reverse of parents, sorted for display
 	fsys     fs.FS               // what Load read, for checks of files entries name
 }
 

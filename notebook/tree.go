@@ -30,7 +30,7 @@ func (nb *Notebook) Tree(w io.Writer, id string) error {
 	if id == "" {
 		var roots []*Entry
 		for _, e := range nb.Entries {
-			if nb.byID[e.ID] == e && len(nb.parents[e]) == 0 {
+			if nb.byID[e.ID] == e && len(e.up) == 0 {
 				roots = append(roots, e)
 			}
 		}
@@ -59,8 +59,8 @@ func (nb *Notebook) Tree(w io.Writer, id string) error {
 	// The chain of first parents, farthest first.
 	var chain []*Entry
 	onChain := map[*Entry]bool{e: true}
-	for p := e; len(nb.parents[p]) > 0; {
-		p = nb.parents[p][0]
+	for p := e; len(p.up) > 0; {
+		p = p.up[0]
 		if onChain[p] {
 			break // a cycle
 		}
@@ -104,7 +104,7 @@ func label(e *Entry) string {
 
 func (nb *Notebook) printTree(w io.Writer, e *Entry, depth int, seen map[*Entry]bool, mark string) {
 	ind := strings.Repeat("  ", depth)
-	if e.Kind == KindProcess && len(nb.parents[e]) > 0 && mark == "" {
+	if e.Kind == KindProcess && len(e.up) > 0 && mark == "" {
 		seen[e] = true
 		fmt.Fprintf(w, "%s%s\n", ind, label(e)) // a side branch: see the doc of Tree
 		return
@@ -115,7 +115,7 @@ func (nb *Notebook) printTree(w io.Writer, e *Entry, depth int, seen map[*Entry]
 	}
 	seen[e] = true
 	fmt.Fprintf(w, "%s%s%s\n", ind, label(e), mark)
-	for _, c := range nb.children[e] {
+	for _, c := range e.down {
 		nb.printTree(w, c, depth+1, seen, "")
 	}
 }

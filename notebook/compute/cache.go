@@ -12,6 +12,7 @@ import (
 	"sort"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"unsafe"
 
 	"cleave/notebook"
@@ -37,6 +38,7 @@ type Cache struct {
 	// What earlier runs learnt about each file, valid while its stamp (see Scan) is the same.
 	files    [cacheShards]map[string]*fileRec // as read, by shard
 	curFiles map[string]*fileRec              // learnt by this run
+	nlearnt  atomic.Int64                     // len(curFiles): fileAt skips the lock while it is 0
 }
 
 // fileRec is what is known of one file at one stamp.
@@ -113,11 +115,13 @@ func (c *Cache) fileAt(p, stamp string) *fileRec {
 	if c == nil || stamp == "" {
 		return nil
 	}
-	c.mu.Lock()
-	r, ok := c.curFiles[p]
-	c.mu.Unlock()
-	if ok && r.stamp == stamp {
-		return r
+	if c.nlearnt.Load() > 0 {
+		c.mu.Lock()
+		r, ok := c.curFiles[p]
+		c.mu.Unlock()
+		if ok && r.stamp == stamp {
+			return r
+		}
 	}
 	if r, ok := c.files[shardOf(p)][p]; ok && r.stamp == stamp { // files is only changed by Save
 		return r
@@ -141,6 +145,7 @@ func (c *Cache) learn(p, stamp string, f func(r *fileRec)) {
 			r = &cp
 		}
 		c.curFiles[p] = r
+		c.nlearnt.Store(int64(len(c.curFiles)))
 	}
 	f(r)
 	c.dirty[shardOf(p)] = true
@@ -219,6 +224,7 @@ func (c *Cache) Save(nb *notebook.Notebook) error {
 		c.files[shardOf(p)][p] = r
 	}
 	c.cur, c.curFiles = map[string]*cacheRec{}, map[string]*fileRec{}
+	c.nlearnt.Store(0)
 	var todo []int
 	for i := range cacheShards {
 		if c.dirty[i] {
