@@ -301,13 +301,13 @@ func encodeCache(m map[string]*cacheRec, files map[string]*fileRec) []byte {
 	}
 	out := make([]byte, 0, len(cacheHeader)+4+len(b))
 	out = append(out, cacheHeader...)
-	out = binary.LittleEndian.AppendUint32(out, crc32.Checksum(b, castagnoli))
+	out = binary.LittleEndian.AppendUint32(out, crc32.Checksum(b, castagnoli()))
 	return append(out, b...)
 }
 
 // castagnoli is the CRC-32C table: the checksum tells a damaged or torn shard (the shards are
 // the tool's own files, replaced atomically), at a fraction of a cryptographic hash's cost.
-var castagnoli = crc32.MakeTable(crc32.Castagnoli)
+var castagnoli = sync.OnceValue(func() *crc32.Table { return crc32.MakeTable(crc32.Castagnoli) }) // made when first used: a check of an unchanged notebook never needs it
 
 var errBadCache = errors.New("damaged cache")
 
@@ -317,7 +317,7 @@ func decodeCache(data []byte) (map[string]*cacheRec, map[string]*fileRec, error)
 		return nil, nil, errBadCache
 	}
 	sum, b := binary.LittleEndian.Uint32(rest), rest[4:]
-	if crc32.Checksum(b, castagnoli) != sum {
+	if crc32.Checksum(b, castagnoli()) != sum {
 		return nil, nil, errBadCache
 	}
 	d := decoder{b: b}

@@ -5,6 +5,7 @@ import (
 	"html/template"
 	"sort"
 	"strings"
+	"sync"
 
 	"cleave/notebook"
 )
@@ -43,7 +44,8 @@ var funcs = template.FuncMap{"plural": plural, "kinds": func() []string {
 	return out
 }}
 
-var pageTmpl = template.Must(template.New("page").Funcs(funcs).Parse(head + `<h1>{{if .Kind}}<span class="kind">{{.Kind}}</span>{{end}}{{.Title}}</h1>
+var pageTmpl = sync.OnceValue(func() *template.Template {
+	return template.Must(template.New("page").Funcs(funcs).Parse(head + `<h1>{{if .Kind}}<span class="kind">{{.Kind}}</span>{{end}}{{.Title}}</h1>
 <p class="path">{{.Path}}</p>
 {{if or .Ancestors .Children}}<nav class="lineage" aria-label="lineage">
 {{if .Ancestors}}<div class="ancestors">from: {{range $i, $a := .Ancestors}}{{if $i}} · {{end}}<a href="{{$a.URL}}" data-id="{{$a.ID}}"><span class="kind">{{$a.Kind}}</span>{{$a.ID}}</a>{{end}}</div>{{end}}
@@ -59,6 +61,7 @@ var pageTmpl = template.Must(template.New("page").Funcs(funcs).Parse(head + `<h1
 {{.Body}}
 </article>
 ` + foot))
+})
 
 type indexPage struct {
 	Base, Title string
@@ -74,13 +77,15 @@ type kindCount struct {
 	Count int
 }
 
-var indexTmpl = template.Must(template.New("index").Funcs(funcs).Parse(head + `<h1>{{.Title}}</h1>
+var indexTmpl = sync.OnceValue(func() *template.Template {
+	return template.Must(template.New("index").Funcs(funcs).Parse(head + `<h1>{{.Title}}</h1>
 {{if .Kinds}}<ul class="kinds">{{range .Kinds}}<li><a href="kinds/{{.Kind}}.html">{{plural .Kind}}</a> ({{.Count}})</li>{{end}}</ul>{{end}}
 {{if .Rows}}<table class="entries"><tr><th>id</th><th>title</th></tr>
 {{range .Rows}}<tr><td><a href="{{.URL}}" data-id="{{.ID}}">{{.ID}}</a></td><td>{{.Title}}</td></tr>
 {{end}}</table>{{end}}
 {{if .Notes}}<h2>Notes</h2><ul>{{range .Notes}}<li><a href="{{.URL}}">{{.Title}}</a></li>{{end}}</ul>{{end}}
 ` + foot))
+})
 
 // waferTable is the table on a wafer's page: each device below it with the cooldowns that
 // measured it and their key results as the notebook stores them.
@@ -144,7 +149,7 @@ func (st *build) indexes() error {
 		kinds = append(kinds, kindCount{Kind: string(k), Count: len(byKind[k])})
 	}
 	var buf bytes.Buffer
-	if err := indexTmpl.Execute(&buf, indexPage{Title: "Notebook", Live: st.b.Opt.Live, Kinds: kinds, Notes: notes}); err != nil {
+	if err := indexTmpl().Execute(&buf, indexPage{Title: "Notebook", Live: st.b.Opt.Live, Kinds: kinds, Notes: notes}); err != nil {
 		return err
 	}
 	st.put("index.html", buf.Bytes())
@@ -159,7 +164,7 @@ func (st *build) indexes() error {
 		buf.Reset()
 		title := plural(string(k))
 		title = strings.ToUpper(title[:1]) + title[1:]
-		if err := indexTmpl.Execute(&buf, indexPage{Base: "../", Title: title, Live: st.b.Opt.Live, Rows: rows, Kind: string(k)}); err != nil {
+		if err := indexTmpl().Execute(&buf, indexPage{Base: "../", Title: title, Live: st.b.Opt.Live, Rows: rows, Kind: string(k)}); err != nil {
 			return err
 		}
 		st.put("kinds/"+string(k)+".html", buf.Bytes())

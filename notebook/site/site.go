@@ -396,7 +396,7 @@ func (pr *pageRenderer) page(f *notebook.File) error {
 		}
 	}
 	var out bytes.Buffer
-	if err := pageTmpl.Execute(&out, pg); err != nil {
+	if err := pageTmpl().Execute(&out, pg); err != nil {
 		return err
 	}
 	st.put(url, out.Bytes())
