@@ -153,6 +153,10 @@ func Run(fsys fs.FS, nb *notebook.Notebook, opt Options) (*Report, error) {
 	out := make([]outcome, len(todo))
 	var next atomic.Int64
 	var wg sync.WaitGroup
+	// Validation reads the notebook only: it runs beside the evaluation.
+	var problems []notebook.Problem
+	var validated sync.WaitGroup
+	validated.Go(func() { problems = nb.Validate() })
 	for range min(runtime.GOMAXPROCS(0), len(todo)) {
 		wg.Add(1)
 		go func() {
@@ -212,7 +216,8 @@ func Run(fsys fs.FS, nb *notebook.Notebook, opt Options) (*Report, error) {
 			rep.Evaluated += o.fr.Code
 		}
 	}
-	for _, p := range nb.Validate() {
+	validated.Wait()
+	for _, p := range problems {
 		if sel(p.Path) {
 			rep.Problems = append(rep.Problems, p)
 		}
