@@ -32,7 +32,7 @@ type Notebook struct {
 	byID     map[string]*Entry // first entry (in path order) for each id
 	byPath   map[string]*File
 	dups     map[string][]*Entry
-	fsys     fs.FS               // what Load read, for checks of files entries name
+	fsys     fs.FS // what Load read, for checks of files entries name
 }
 
 // FindRoot returns the top of the git work tree that contains dir: the
