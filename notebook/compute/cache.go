@@ -68,7 +68,7 @@ type cacheRec struct {
 
 type depValue struct{ name, value string }
 
-const cacheHeader = "cleave-engine-cache 7\n"
+const cacheHeader = "cleave-engine-cache 8\n"
 
 // cacheShards is how many files the cache is kept in.
 const cacheShards = 16
@@ -270,6 +270,13 @@ func encodeCache(m map[string]*cacheRec, files map[string]*fileRec) []byte {
 	b := make([]byte, 0, 64<<10)
 	b = binary.AppendUvarint(b, uint64(len(m)))
 	b = binary.AppendUvarint(b, uint64(len(files)))
+	nd, no := 0, 0
+	for _, r := range m {
+		nd += len(r.deps)
+		no += len(r.outs)
+	}
+	b = binary.AppendUvarint(b, uint64(nd))
+	b = binary.AppendUvarint(b, uint64(no))
 	for _, p := range paths {
 		r := m[p]
 		b = appendStr(b, p)
@@ -321,20 +328,29 @@ func decodeCache(data []byte) (map[string]*cacheRec, map[string]*fileRec, error)
 		return nil, nil, errBadCache
 	}
 	d := decoder{b: b}
-	nm, nf := d.count(), d.count()
+	nm, nf, ndeps, nouts := d.count(), d.count(), d.count(), d.count()
 	m := make(map[string]*cacheRec, nm)
-	recs := make([]cacheRec, nm) // one allocation for the shard's records
+	// Slabs: one allocation each for the shard's records, dependencies and outcomes.
+	recs := make([]cacheRec, nm)
+	deps := make([]depValue, ndeps)
+	outs := make([]calcblock.Outcome, nouts)
 	for i := range nm {
 		p := d.str()
 		r := &recs[i]
 		r.key, r.okey = d.str(), d.str()
 		nd := d.count()
-		r.deps = make([]depValue, nd)
+		if nd > len(deps) {
+			return nil, nil, errBadCache
+		}
+		r.deps, deps = deps[:nd:nd], deps[nd:]
 		for j := range nd {
 			r.deps[j] = depValue{d.str(), d.str()}
 		}
 		no := d.count()
-		r.outs = make([]calcblock.Outcome, no)
+		if no > len(outs) {
+			return nil, nil, errBadCache
+		}
+		r.outs, outs = outs[:no:no], outs[no:]
 		for j := range no {
 			flag := d.uvarint()
 			col := d.uvarint()

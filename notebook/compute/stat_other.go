@@ -28,7 +28,10 @@ func (d dirHandle) readDir() ([]fs.DirEntry, error) { return os.ReadDir(d.path) 
 
 func (d dirHandle) close() {}
 
-func (d dirHandle) lstat(name string) (statData, error) {
+// statBuf is unused where os.Lstat gives the stat data.
+type statBuf struct{}
+
+func (d dirHandle) lstat(name string, _ *statBuf) (statData, error) {
 	fi, err := os.Lstat(filepath.Join(d.path, name))
 	if err != nil {
 		return statData{}, err

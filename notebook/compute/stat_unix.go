@@ -38,10 +38,9 @@ func (d dirHandle) readDir() ([]fs.DirEntry, error) { return d.f.ReadDir(-1) }
 
 func (d dirHandle) close() { d.f.Close() }
 
-func (d dirHandle) lstat(name string) (statData, error) {
-	var st unix.Stat_t
+func (d dirHandle) lstat(name string, st *unix.Stat_t) (statData, error) {
 	for {
-		err := unix.Fstatat(d.fd, name, &st, unix.AT_SYMLINK_NOFOLLOW)
+		err := unix.Fstatat(d.fd, name, st, unix.AT_SYMLINK_NOFOLLOW)
 		if err == syscall.EINTR {
 			continue
 		}
@@ -51,6 +50,9 @@ func (d dirHandle) lstat(name string) (statData, error) {
 		return statData{mode: st.Mode, size: st.Size, mtime: st.Mtim.Nano(), ino: st.Ino}, nil
 	}
 }
+
+// statBuf is the buffer lstat fills: one per worker, so that no call allocates one.
+type statBuf = unix.Stat_t
 
 // inode is the file's inode number (0 when the platform does not say).
 func inode(fi fs.FileInfo) uint64 {

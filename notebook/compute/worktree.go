@@ -134,41 +134,40 @@ func (w WorkTree) Scan() (*Scan, error) {
 		go func() {
 			defer wg.Done()
 			var b []byte
+			var st statBuf
 			for c := range work {
 				for i, f := range c.files {
 					if failed.Load() != nil {
 						break
 					}
-					st, err := f.dir.lstat(f.name)
+					sd, err := f.dir.lstat(f.name, &st)
 					if err != nil {
 						failed.Store(&err)
 						break
 					}
-					c.regular[i] = st.regular()
-					if st.mtime >= limit {
+					c.regular[i] = sd.regular()
+					if sd.mtime >= limit {
 						racy.Store(true)
 						continue
 					}
-					b = binary.AppendUvarint(b[:0], uint64(st.mode))
-					b = binary.AppendUvarint(b, uint64(st.size))
-					b = binary.AppendVarint(b, st.mtime)
-					b = binary.AppendUvarint(b, st.ino)
+					b = binary.AppendUvarint(b[:0], uint64(sd.mode))
+					b = binary.AppendUvarint(b, uint64(sd.size))
+					b = binary.AppendVarint(b, sd.mtime)
+					b = binary.AppendUvarint(b, sd.ino)
 					c.stamps[i] = string(b)
 				}
 			}
 		}()
 	}
 	const chunkLen = 128
-	var pending []file // files listed, not yet sent
+	pending := make([]file, 0, chunkLen) // files listed, not yet sent
 	flush := func() {
-		for len(pending) > 0 {
-			n := min(chunkLen, len(pending))
-			c := &chunk{files: pending[:n:n], stamps: make([]string, n), regular: make([]bool, n)}
-			pending = pending[n:]
+		if n := len(pending); n > 0 {
+			c := &chunk{files: pending, stamps: make([]string, n), regular: make([]bool, n)}
 			chunks = append(chunks, c)
 			work <- c
+			pending = make([]file, 0, chunkLen)
 		}
-		pending = nil
 	}
 	var walk func(rel string) error
 	walk = func(rel string) error {
