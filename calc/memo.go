@@ -37,11 +37,9 @@ type lineMemo struct {
 // callers and must not be changed. Errors are not kept: a failing line is parsed again, and
 // its error is a value of its own.
 func parseShared(line string, lineNo int) (*Statement, error) {
-	if i := strings.Index(line, "#~"); i >= 0 {
-		line = line[:i]
-	}
+	line = cutResult(line)
 	if len(line) > maxMemoLineBytes {
-		return ParseLine(line, lineNo)
+		return parseInput(line, lineNo) // the line is searched for "#~" once, however long
 	}
 	memo := &parsedLines
 	memo.mu.RLock()

@@ -57,9 +57,20 @@ type parser struct {
 // ParseLine parses one calc line (line number lineNo, used in positions). Everything from
 // the first "#~" on is ignored.
 func ParseLine(line string, lineNo int) (*Statement, error) {
+	return parseInput(cutResult(line), lineNo)
+}
+
+// cutResult is line without its result region: everything from the first "#~" on is never
+// input.
+func cutResult(line string) string {
 	if i := strings.Index(line, "#~"); i >= 0 {
-		line = line[:i] // the result region is never input
+		return line[:i]
 	}
+	return line
+}
+
+// parseInput is ParseLine of a line whose result region is already cut off.
+func parseInput(line string, lineNo int) (*Statement, error) {
 	if len(line) > MaxLineBytes {
 		return nil, &Error{Line: lineNo, Col: utf8.RuneCountInString(line[:MaxLineBytes]) + 1, Err: ErrTooLarge,
 			Msg: fmt.Sprintf("line of %d bytes: a calc line may hold at most %d; give parts of the expression names on lines of their own", len(line), MaxLineBytes)}
