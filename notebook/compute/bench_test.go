@@ -26,6 +26,8 @@ func genNotebook(tb testing.TB, n int) string {
 		}
 	}
 	block := "```cleave\nW = geometry.width\nsq = squares(\"2\", \"4\")\nlB = magnetic_length(1 T)\nn = 3e11 cm^-2\nnu = filling_factor(n, 5 T)\n```\n"
+	// A piece has no Hall bar in its lineage: its block reads the wafer instead.
+	pieceBlock := "```cleave\nw = width\nlB = magnetic_length(1 T)\nn = 3e11 cm^-2\nnu = filling_factor(n, 5 T)\nE_F = fermi_energy(n, GaAs.mstar)\n```\n"
 	write("wafers/W1.md", "---\nid: W1\nkind: wafer\n---\n# W1\n\n```cleave\nn = 3e11 cm^-2\nE_F = fermi_energy(n, GaAs.mstar)\nlB = magnetic_length(1 T)\nnu = filling_factor(n, 5 T)\nB1 = field_at_filling(n, 1)\n```\n")
 	write("masks/M1.md", "---\nid: M1\nkind: mask\nwidth: 100 um\nprobes:\n  - {name: \"2\", position: 250 um, arm_width: 10 um, side: top}\n  - {name: \"4\", position: 750 um, arm_width: 10 um, side: top}\n---\n"+block)
 	pieces := (n - 2) / 100
@@ -33,7 +35,7 @@ func genNotebook(tb testing.TB, n int) string {
 		pieces = 1
 	}
 	for i := 0; i < pieces; i++ {
-		write(fmt.Sprintf("pieces/P%d.md", i), fmt.Sprintf("---\nid: P%d\nkind: piece\nfrom: W1\nwidth: 4 mm\n---\n", i)+block)
+		write(fmt.Sprintf("pieces/P%d.md", i), fmt.Sprintf("---\nid: P%d\nkind: piece\nfrom: W1\nwidth: 4 mm\n---\n", i)+pieceBlock)
 	}
 	for i := 0; i < n-2-pieces; i++ {
 		write(fmt.Sprintf("devices/D%d.md", i), fmt.Sprintf("---\nid: D%d\nkind: device\nfrom: P%d\nmask: M1\n---\n", i, i%pieces)+block)
