@@ -44,14 +44,12 @@ func (r *resolver) lookup(name string) calc.Value {
 		}
 		return g
 	}
-	for _, k := range notebook.Kinds() {
-		if string(k) == name {
-			if a, ok := r.v.nearest(r.e, k); ok {
-				// Records are never changed once made, so the files of a run share them.
-				return r.v.run.shared(a.Path+"\x00"+name, func() calc.Value { return entryRecord(a, name) })
-			}
-			return nil
+	if k := notebook.Kind(name); k.Known() {
+		if a, ok := r.v.nearest(r.e, k); ok {
+			// Records are never changed once made, so the files of a run share them.
+			return r.v.run.shared(a.Path+"\x00"+name, func() calc.Value { return entryRecord(a, name) })
 		}
+		return nil
 	}
 	// The entry's own field by its bare name.
 	if n, ok := r.e.Field(name); ok {
