@@ -5,9 +5,6 @@ import (
 	"strings"
 
 	"cleave/calc/quantity"
-
-	"github.com/yuin/goldmark/ast"
-	east "github.com/yuin/goldmark/extension/ast"
 )
 
 // LayerRow is one row of a wafer's layer table (surface first). Cells are
@@ -65,46 +62,59 @@ type Cell struct {
 // that do not read: a time, a rate (length per time), a substrate temperature,
 // cell temperatures as "Ga 905 °C, Si 1180 °C".
 func (e *Entry) readLayers() []Problem {
-	if e.src == nil || e.src.Doc() == nil {
+	if e.src == nil {
 		return nil
 	}
+	blocks, why, _ := fastOutline(e.src)
+	if why != "" {
+		if e.src.Doc() == nil {
+			return nil
+		}
+		blocks = goldmarkOutline(e.src)
+	}
+	return e.layersOf(blocks)
+}
+
+// layersOf is readLayers on the top-level headings and tables of the file, as
+// goldmarkOutline or fastOutline reads them.
+func (e *Entry) layersOf(blocks []mdBlock) []Problem {
 	var probs []Problem
 	prob := func(line, col int, format string, args ...any) {
 		probs = append(probs, Problem{Path: e.Path, Line: line, Col: max(col, 1), Msg: fmt.Sprintf(format, args...)})
 	}
-	var layersHeading *ast.Heading // the first heading whose text is "Layers"
+	var layersHeading *mdBlock // the first heading whose text is "Layers"
 	inSection := false
-	var sectionTable *east.Table // the first table in the Layers section
-	var table *east.Table
+	var sectionTable *mdBlock // the first table in the Layers section
+	var table *mdBlock
 	var header []Cell
-	for n := e.src.Doc().FirstChild(); n != nil; n = n.NextSibling() {
-		switch n := n.(type) {
-		case *ast.Heading:
-			if layersHeading == nil && strings.EqualFold(strings.TrimSpace(e.inlineText(n)), "layers") {
+	for i := range blocks {
+		n := &blocks[i]
+		if !n.Table {
+			if layersHeading == nil && strings.EqualFold(strings.TrimSpace(n.Text), "layers") {
 				layersHeading, inSection = n, true
 			} else if inSection && n.Level <= layersHeading.Level {
 				inSection = false
 			}
-		case *east.Table:
-			cells := e.headerCells(n)
-			if table == nil && hasColumn(cells, "material") && (hasColumn(cells, "thickness") || hasColumn(cells, "time") && hasColumn(cells, "rate")) {
-				table, header = n, cells
-			}
-			if inSection && sectionTable == nil {
-				sectionTable = n
-			}
+			continue
+		}
+		cells := e.headerCells(n)
+		if table == nil && hasColumn(cells, "material") && (hasColumn(cells, "thickness") || hasColumn(cells, "time") && hasColumn(cells, "rate")) {
+			table, header = n, cells
+		}
+		if inSection && sectionTable == nil {
+			sectionTable = n
 		}
 	}
 	if table == nil {
 		if layersHeading != nil {
-			line, col := e.pos(headingPos(e, layersHeading))
+			line, col := e.pos(layersHeading.Pos)
 			if sectionTable != nil {
 				cells := e.headerCells(sectionTable)
 				var names []string
 				for _, c := range cells {
 					names = append(names, c.Column)
 				}
-				tl, tc := e.pos(sectionTable.Pos())
+				tl, tc := e.pos(sectionTable.Pos)
 				var missing []string
 				for _, want := range []string{"material", "thickness"} {
 					if !hasColumn(cells, want) {
@@ -121,25 +131,23 @@ func (e *Entry) readLayers() []Problem {
 		}
 		return probs
 	}
-	e.LayerTableLine, _ = e.pos(table.Pos())
-	e.layers = []LayerRow{}
-	for r := table.FirstChild(); r != nil; r = r.NextSibling() {
-		row, ok := r.(*east.TableRow)
-		if !ok {
-			continue
-		}
+	e.LayerTableLine, _ = e.pos(table.Pos)
+	e.layers = make([]LayerRow, 0, len(table.Rows))
+	for _, row := range table.Rows {
 		lr := LayerRow{}
-		i := 0
-		for c := row.FirstChild(); c != nil; c, i = c.NextSibling(), i+1 {
+		if n := min(len(row.Cells), len(header)); n > 0 {
+			lr.Cells = make([]Cell, 0, n) // each cell is appended below
+		}
+		for i, c := range row.Cells {
 			if i >= len(header) {
 				break
 			}
 			cell := e.cell(c, header[i].Column)
 			if cell.Line == 0 {
-				cell.Line, cell.Col = e.pos(row.Pos())
+				cell.Line, cell.Col = e.pos(row.Pos)
 			}
 			if lr.Line == 0 {
-				lr.Line, _ = e.pos(row.Pos())
+				lr.Line, _ = e.pos(row.Pos)
 			}
 			lr.Cells = append(lr.Cells, cell)
 			v := cell.Text
@@ -170,7 +178,7 @@ func (e *Entry) readLayers() []Problem {
 			}
 		}
 		if lr.Line == 0 {
-			lr.Line, _ = e.pos(row.Pos())
+			lr.Line, _ = e.pos(row.Pos)
 		}
 		mat, th := findCell(lr.Cells, "material"), findCell(lr.Cells, "thickness")
 		if lr.Material == "" {
@@ -219,57 +227,32 @@ func (e *Entry) pos(off int) (line, col int) {
 	return e.src.Pos(off)
 }
 
-func headingPos(e *Entry, h ast.Node) int {
-	if l := h.Lines(); l.Len() > 0 {
-		return l.At(0).Start
-	}
-	return h.Pos()
-}
-
-func (e *Entry) headerCells(t *east.Table) []Cell {
+func (e *Entry) headerCells(t *mdBlock) []Cell {
 	var out []Cell
-	for r := t.FirstChild(); r != nil; r = r.NextSibling() {
-		if h, ok := r.(*east.TableHeader); ok {
-			for c := h.FirstChild(); c != nil; c = c.NextSibling() {
-				cell := e.cell(c, "")
-				cell.Column = strings.ToLower(cell.Text)
-				out = append(out, cell)
-			}
-			break
-		}
+	if len(t.Header) > 0 {
+		out = make([]Cell, 0, len(t.Header))
+	}
+	for _, c := range t.Header {
+		cell := e.cell(c, "")
+		cell.Column = strings.ToLower(cell.Text)
+		out = append(out, cell)
 	}
 	return out
 }
 
 // cell returns the trimmed source text of a table cell and its position.
-func (e *Entry) cell(n ast.Node, column string) Cell {
+func (e *Entry) cell(n mdCell, column string) Cell {
 	c := Cell{Column: column}
-	lines := n.Lines()
-	if lines.Len() == 0 {
+	if !n.Line {
 		return c
 	}
-	seg := lines.At(0)
 	src := e.src.Masked()
-	if seg.Start < 0 || seg.Stop > len(src) || seg.Start > seg.Stop {
+	if n.Start < 0 || n.Stop > len(src) || n.Start > n.Stop {
 		return c
 	}
-	c.Text = strings.TrimSpace(strings.ReplaceAll(string(src[seg.Start:seg.Stop]), `\|`, "|"))
-	c.Line, c.Col = e.pos(seg.Start)
+	c.Text = strings.TrimSpace(strings.ReplaceAll(string(src[n.Start:n.Stop]), `\|`, "|"))
+	c.Line, c.Col = e.pos(n.Start)
 	return c
-}
-
-// inlineText is the source text of a block's lines, trimmed (for headings).
-func (e *Entry) inlineText(n ast.Node) string {
-	var b strings.Builder
-	src := e.src.Masked()
-	lines := n.Lines()
-	for i := 0; i < lines.Len(); i++ {
-		s := lines.At(i)
-		if s.Start >= 0 && s.Stop <= len(src) && s.Start <= s.Stop {
-			b.Write(src[s.Start:s.Stop])
-		}
-	}
-	return b.String()
 }
 
 func hasColumn(cells []Cell, name string) bool {
