@@ -1,7 +1,11 @@
 package notebook
 
 import (
+	"os"
+	"path/filepath"
 	"testing"
+
+	"cleave/notebook/mdsrc"
 
 	"go.yaml.in/yaml/v3"
 )
@@ -75,4 +79,44 @@ func BenchmarkDecodeYAML(b *testing.B) {
 			}
 		}
 	})
+}
+
+// BenchmarkDecodeYAMLTemplate decodes the front matter of each rendered built-in template
+// (templates/testdata/*.golden, as `cleave new` writes them: fields explained in comments)
+// with decodeYAML and with yaml v3 alone.
+func BenchmarkDecodeYAMLTemplate(b *testing.B) {
+	for _, name := range []string{"cooldown", "device", "mask", "piece", "process", "wafer"} {
+		raw, err := os.ReadFile(filepath.Join("..", "templates", "testdata", name+".golden"))
+		if err != nil {
+			b.Fatal(err)
+		}
+		y, ok, err := mdsrc.SplitFrontMatter(raw)
+		if !ok || err != nil {
+			b.Fatalf("%s: no front matter (%v)", name, err)
+		}
+		b.Run(name+"/decodeYAML", func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				var n yaml.Node
+				if err := decodeYAML(y, &n); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+		b.Run(name+"/yamlv3", func(b *testing.B) {
+			b.ReportAllocs()
+			for b.Loop() {
+				var n yaml.Node
+				if err := checkYAMLText(y); err != nil {
+					b.Fatal(err)
+				}
+				if err := yaml.Unmarshal(y, &n); err != nil {
+					b.Fatal(err)
+				}
+				if err := checkYAMLTree(&n); err != nil {
+					b.Fatal(err)
+				}
+			}
+		})
+	}
 }

@@ -72,9 +72,11 @@ func FuzzLoad(f *testing.F) {
 }
 
 // FuzzFrontMatterFast holds the fast path for plain front matter (yamlfast.go) equal to yaml v3:
-// whenever it accepts a text, yaml.Unmarshal must accept it too and build the very same tree;
-// when it refuses one, it must leave the node alone. Seeded with every front matter in the
-// repository, the cases of TestPlainYAML and documents of genPlainYAML.
+// whenever it accepts a text, yaml.Unmarshal must accept it too and build the very same tree,
+// comments included; when it refuses one, it must leave the node alone. Seeded with every front
+// matter in the repository (the rendered templates explain their fields in comments), the cases
+// of TestPlainYAML (comments in every placement the fast path reads, and just outside them) and
+// documents of genPlainYAML.
 func FuzzFrontMatterFast(f *testing.F) {
 	for _, y := range repoFrontMatter(f) {
 		f.Add(y)
