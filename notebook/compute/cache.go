@@ -267,7 +267,10 @@ func encodeCache(m map[string]*cacheRec, files map[string]*fileRec) []byte {
 		paths = append(paths, p)
 	}
 	sort.Strings(paths)
-	b := make([]byte, 0, 64<<10)
+	// The header and checksum go in front of the body, written in place at the end; the
+	// buffer starts near its final size (a record takes a few hundred bytes).
+	pre := len(cacheHeader) + 4
+	b := make([]byte, pre, pre+512*(len(m)+len(files))+64)
 	b = binary.AppendUvarint(b, uint64(len(m)))
 	b = binary.AppendUvarint(b, uint64(len(files)))
 	nd, no := 0, 0
@@ -306,10 +309,9 @@ func encodeCache(m map[string]*cacheRec, files map[string]*fileRec) []byte {
 	for _, p := range fps {
 		b = appendFileRec(appendStr(b, p), files[p])
 	}
-	out := make([]byte, 0, len(cacheHeader)+4+len(b))
-	out = append(out, cacheHeader...)
-	out = binary.LittleEndian.AppendUint32(out, crc32.Checksum(b, castagnoli()))
-	return append(out, b...)
+	copy(b, cacheHeader)
+	binary.LittleEndian.PutUint32(b[len(cacheHeader):], crc32.Checksum(b[pre:], castagnoli()))
+	return b
 }
 
 // castagnoli is the CRC-32C table: the checksum tells a damaged or torn shard (the shards are

@@ -122,11 +122,14 @@ func Parse(raw []byte) (*Source, error) {
 	if bytes.HasPrefix(raw, bom) {
 		s.BOM = len(bom)
 	}
-	s.lineStarts = append(s.lineStarts, 0)
-	for i, b := range raw {
-		if b == '\n' {
-			s.lineStarts = append(s.lineStarts, i+1)
+	s.lineStarts = make([]int, 1, bytes.Count(raw, []byte{'\n'})+1)
+	for off := 0; ; {
+		i := bytes.IndexByte(raw[off:], '\n')
+		if i < 0 {
+			break
 		}
+		off += i + 1
+		s.lineStarts = append(s.lineStarts, off)
 	}
 
 	var perr error
