@@ -14,6 +14,7 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+	"sync/atomic"
 
 	"cleave/notebook/calcblock"
 	"cleave/notebook/mdsrc"
@@ -132,18 +133,14 @@ func LoadWith(fsys fs.FS, opt LoadOptions) (*Notebook, error) {
 	}
 	results := make([]result, len(paths))
 	workers := min(runtime.GOMAXPROCS(0), max(len(paths), 1))
-	var next int
-	var mu sync.Mutex
+	var next atomic.Int64
 	var wg sync.WaitGroup
 	for range workers {
 		wg.Add(1)
 		go func() {
 			defer wg.Done()
 			for {
-				mu.Lock()
-				i := next
-				next++
-				mu.Unlock()
+				i := int(next.Add(1)) - 1
 				if i >= len(paths) {
 					return
 				}
