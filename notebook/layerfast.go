@@ -199,7 +199,7 @@ func fastOutline(s *mdsrc.Source) (out []mdBlock, why string, line int) {
 		}
 		l := m[ls:le]
 		if inFence {
-			if closesFence(l, fch, flen) {
+			if mdsrc.ClosesFence(l, fch, flen) {
 				inFence, state = false, stNone
 			}
 			continue
@@ -540,36 +540,4 @@ func isThematicBreak(l []byte) bool {
 		}
 	}
 	return n > 2
-}
-
-// closesFence reports whether l, a line inside a fence of fenceLen characters
-// fence opened at column 1, closes it (goldmark's
-// fencedCodeBlockParser.Continue): indented less than four columns (a tab to
-// the next multiple of four), at least fenceLen fence characters, then only
-// spaces and tabs.
-func closesFence(l []byte, fence byte, fenceLen int) bool {
-	w, p := 0, 0
-	for ; p < len(l) && (l[p] == ' ' || l[p] == '\t'); p++ {
-		if l[p] == ' ' {
-			w++
-		} else {
-			w += 4 - w%4
-		}
-	}
-	if w >= 4 {
-		return false
-	}
-	n := 0
-	for p < len(l) && l[p] == fence {
-		p, n = p+1, n+1
-	}
-	if n < fenceLen {
-		return false
-	}
-	for ; p < len(l); p++ {
-		if l[p] != ' ' && l[p] != '\t' {
-			return false
-		}
-	}
-	return true
 }

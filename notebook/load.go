@@ -2,6 +2,7 @@ package notebook
 
 import (
 	"bytes"
+	"cleave/internal/parallel"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -9,12 +10,9 @@ import (
 	"path"
 	"path/filepath"
 	"regexp"
-	"runtime"
 	"sort"
 	"strconv"
 	"strings"
-	"sync"
-	"sync/atomic"
 
 	"cleave/notebook/calcblock"
 	"cleave/notebook/mdsrc"
@@ -132,30 +130,16 @@ func LoadWith(fsys fs.FS, opt LoadOptions) (*Notebook, error) {
 		problems []Problem
 	}
 	results := make([]result, len(paths))
-	workers := min(runtime.GOMAXPROCS(0), max(len(paths), 1))
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range workers {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				i := int(next.Add(1)) - 1
-				if i >= len(paths) {
-					return
-				}
-				if opt.Known != nil {
-					if sum, ok := opt.Known(paths[i]); ok && sum.Path == paths[i] {
-						results[i] = result{knownFile(fsys, sum), nil}
-						continue
-					}
-				}
-				f, probs := loadFile(fsys, paths[i])
-				results[i] = result{f, probs}
+	parallel.For(len(paths), func(i int) {
+		if opt.Known != nil {
+			if sum, ok := opt.Known(paths[i]); ok && sum.Path == paths[i] {
+				results[i] = result{knownFile(fsys, sum), nil}
+				return
 			}
-		}()
-	}
-	wg.Wait()
+		}
+		f, probs := loadFile(fsys, paths[i])
+		results[i] = result{f, probs}
+	})
 
 	nb := &Notebook{Problems: walkProblems, fsys: fsys}
 	for _, r := range results {

@@ -3,6 +3,7 @@ package notebook
 import (
 	"fmt"
 	"math/rand/v2"
+	"strings"
 	"testing"
 	"testing/fstest"
 )
@@ -59,7 +60,7 @@ func TestNearestIsFirstOfContext(t *testing.T) {
 		}
 		long[fmt.Sprintf("d/D%03d.md", i)] = &fstest.MapFile{Data: fmt.Appendf(nil, "---\nid: D%03d\nkind: device\nfrom: %s\n---\n", i, from)}
 	}
-	long["c/C.md"] = &fstest.MapFile{Data: fmt.Appendf(nil, "---\nid: C\nkind: cooldown\ndevices: [%s]\n---\n", joinIDs(devs))}
+	long["c/C.md"] = &fstest.MapFile{Data: fmt.Appendf(nil, "---\nid: C\nkind: cooldown\ndevices: [%s]\n---\n", strings.Join(devs, ", "))}
 	if nb, err = Load(long); err != nil {
 		t.Fatal(err)
 	}
@@ -105,7 +106,7 @@ func TestNearestIsFirstOfContext(t *testing.T) {
 					for range r.IntN(5) {
 						ids = append(ids, target())
 					}
-					body += fmt.Sprintf("%s: [%s]\n", f.name, joinIDs(ids))
+					body += fmt.Sprintf("%s: [%s]\n", f.name, strings.Join(ids, ", "))
 				}
 			}
 			fsys[fmt.Sprintf("e/E%03d.md", i)] = &fstest.MapFile{Data: []byte(body + "---\n")}
@@ -123,15 +124,4 @@ func idOf(e *Entry) string {
 		return "<nil>"
 	}
 	return e.ID
-}
-
-func joinIDs(ids []string) string {
-	s := ""
-	for i, id := range ids {
-		if i > 0 {
-			s += ", "
-		}
-		s += id
-	}
-	return s
 }

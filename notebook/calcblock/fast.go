@@ -88,7 +88,7 @@ func findFast(s *mdsrc.Source) (blocks []Block, why string, line int) {
 		}
 		l := m[start:end]
 		if inFence {
-			if closesFence(l, fch, flen) {
+			if mdsrc.ClosesFence(l, fch, flen) {
 				if cur >= 0 {
 					blocks[cur].ReadOnly = false
 				}
@@ -139,37 +139,6 @@ func findFast(s *mdsrc.Source) (blocks []Block, why string, line int) {
 		}
 	}
 	return blocks, "", 0
-}
-
-// closesFence reports whether l, a line inside a fence of fenceLen
-// characters fence opened at column 1, closes it (goldmark's
-// fencedCodeBlockParser.Continue): indented less than four columns, at least
-// fenceLen fence characters, then only spaces and tabs.
-func closesFence(l []byte, fence byte, fenceLen int) bool {
-	w, p := 0, 0 // goldmark's util.IndentWidth, at column 0
-	for ; p < len(l) && (l[p] == ' ' || l[p] == '\t'); p++ {
-		if l[p] == ' ' {
-			w++
-		} else {
-			w += 4 - w%4
-		}
-	}
-	if w >= 4 {
-		return false
-	}
-	n := 0
-	for p < len(l) && l[p] == fence {
-		p, n = p+1, n+1
-	}
-	if n < fenceLen {
-		return false
-	}
-	for ; p < len(l); p++ {
-		if l[p] != ' ' && l[p] != '\t' {
-			return false
-		}
-	}
-	return true
 }
 
 // firstNonBlank returns the first byte of l that is not a space or a tab, or 0.

@@ -2,6 +2,7 @@ package compute
 
 import (
 	"bytes"
+	"cleave/internal/parallel"
 	"crypto/sha256"
 	"encoding/binary"
 	"encoding/hex"
@@ -9,11 +10,9 @@ import (
 	"fmt"
 	"io/fs"
 	"path"
-	"runtime"
 	"sort"
 	"strings"
 	"sync"
-	"sync/atomic"
 
 	"cleave/calc"
 	"cleave/calc/library"
@@ -151,27 +150,14 @@ func Run(fsys fs.FS, nb *notebook.Notebook, opt Options) (*Report, error) {
 		err error
 	}
 	out := make([]outcome, len(todo))
-	var next atomic.Int64
-	var wg sync.WaitGroup
 	// Validation reads the notebook only: it runs beside the evaluation.
 	var problems []notebook.Problem
 	var validated sync.WaitGroup
 	validated.Go(func() { problems = nb.Validate() })
-	for range min(runtime.GOMAXPROCS(0), len(todo)) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				i := int(next.Add(1)) - 1
-				if i >= len(todo) {
-					return
-				}
-				fr, hit, err := rs.runFile(todo[i], opt.Cache)
-				out[i] = outcome{fr, hit, err}
-			}
-		}()
-	}
-	wg.Wait()
+	parallel.For(len(todo), func(i int) {
+		fr, hit, err := rs.runFile(todo[i], opt.Cache)
+		out[i] = outcome{fr, hit, err}
+	})
 	if rs.cache != nil {
 		// What this run read, for the next one: each file's summary and input digest (files
 		// without a block are parsed for their digest here, several at a time).
@@ -181,23 +167,11 @@ func Run(fsys fs.FS, nb *notebook.Notebook, opt Options) (*Report, error) {
 				fresh = append(fresh, f)
 			}
 		}
-		next.Store(0)
-		for range min(runtime.GOMAXPROCS(0), len(fresh)) {
-			wg.Add(1)
-			go func() {
-				defer wg.Done()
-				for {
-					i := int(next.Add(1)) - 1
-					if i >= len(fresh) {
-						return
-					}
-					f := fresh[i]
-					sum, digest := f.Summary(), rs.parse(f).digest
-					rs.cache.learn(f.Path, rs.stamps[f.Path], func(r *fileRec) { r.sum, r.digest = sum, digest })
-				}
-			}()
-		}
-		wg.Wait()
+		parallel.For(len(fresh), func(i int) {
+			f := fresh[i]
+			sum, digest := f.Summary(), rs.parse(f).digest
+			rs.cache.learn(f.Path, rs.stamps[f.Path], func(r *fileRec) { r.sum, r.digest = sum, digest })
+		})
 	}
 
 	rep := &Report{}

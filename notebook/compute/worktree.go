@@ -1,6 +1,7 @@
 package compute
 
 import (
+	"cleave/internal/parallel"
 	"crypto/sha256"
 	"encoding/binary"
 	"encoding/hex"
@@ -46,24 +47,11 @@ func (w WorkTree) Write(rep *Report) (written []string, failures []error) {
 	files := rep.Changed()
 	errs := make([]error, len(files))
 	// Each write waits for the disk (fsync of the file and its folder): several at a time.
-	var next atomic.Int64
-	var wg sync.WaitGroup
-	for range min(8, len(files)) {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for {
-				i := int(next.Add(1)) - 1
-				if i >= len(files) {
-					return
-				}
-				f := files[i]
-				full := filepath.Join(w.Root, filepath.FromSlash(f.Path))
-				errs[i] = calcblock.WriteAtomic(full, f.NewBytes, f.Original)
-			}
-		}()
-	}
-	wg.Wait()
+	parallel.ForN(8, len(files), func(i int) {
+		f := files[i]
+		full := filepath.Join(w.Root, filepath.FromSlash(f.Path))
+		errs[i] = calcblock.WriteAtomic(full, f.NewBytes, f.Original)
+	})
 	for i, f := range files {
 		if errs[i] != nil {
 			failures = append(failures, fmt.Errorf("%s: %w", f.Path, errs[i]))

@@ -392,3 +392,35 @@ func (s *Source) LineStart(n int) int {
 	}
 	return s.lineStarts[n-1]
 }
+
+// ClosesFence reports whether l, a line inside a fenced code block of fenceLen characters
+// fence opened at column 1, closes it, as goldmark's fencedCodeBlockParser.Continue decides:
+// indented less than four columns (a tab to the next multiple of four), at least fenceLen
+// fence characters, then only spaces and tabs. The fast readers of calc blocks and layer
+// tables share it.
+func ClosesFence(l []byte, fence byte, fenceLen int) bool {
+	w, p := 0, 0 // goldmark's util.IndentWidth, at column 0
+	for ; p < len(l) && (l[p] == ' ' || l[p] == '\t'); p++ {
+		if l[p] == ' ' {
+			w++
+		} else {
+			w += 4 - w%4
+		}
+	}
+	if w >= 4 {
+		return false
+	}
+	n := 0
+	for p < len(l) && l[p] == fence {
+		p, n = p+1, n+1
+	}
+	if n < fenceLen {
+		return false
+	}
+	for ; p < len(l); p++ {
+		if l[p] != ' ' && l[p] != '\t' {
+			return false
+		}
+	}
+	return true
+}
