@@ -2,7 +2,6 @@ package notebook
 
 import (
 	"bytes"
-	"cleave/internal/parallel"
 	"errors"
 	"fmt"
 	"io/fs"
@@ -14,6 +13,7 @@ import (
 	"strconv"
 	"strings"
 
+	"cleave/internal/parallel"
 	"cleave/notebook/calcblock"
 	"cleave/notebook/mdsrc"
 

@@ -2,7 +2,6 @@ package compute
 
 import (
 	"bytes"
-	"cleave/internal/parallel"
 	"crypto/sha256"
 	"encoding/binary"
 	"encoding/hex"
@@ -17,6 +16,7 @@ import (
 	"cleave/calc"
 	"cleave/calc/library"
 	"cleave/calc/plot"
+	"cleave/internal/parallel"
 	"cleave/notebook"
 	"cleave/notebook/calcblock"
 	"cleave/notebook/mdsrc"

@@ -1,7 +1,6 @@
 package compute
 
 import (
-	"cleave/internal/parallel"
 	"crypto/sha256"
 	"encoding/binary"
 	"encoding/hex"
@@ -17,6 +16,7 @@ import (
 	"sync/atomic"
 	"time"
 
+	"cleave/internal/parallel"
 	"cleave/notebook"
 	"cleave/notebook/calcblock"
 )
@@ -102,6 +102,7 @@ func (w WorkTree) Scan() (*Scan, error) {
 		files   []file
 		stamps  []string
 		regular []bool
+		gone    []bool
 	}
 	var (
 		chunks []*chunk
@@ -129,6 +130,13 @@ func (w WorkTree) Scan() (*Scan, error) {
 						break
 					}
 					sd, err := f.dir.lstat(f.name, &st)
+					if errors.Is(err, fs.ErrNotExist) {
+						// Gone since its folder was listed (an editor's swap file, say): not
+						// part of the tree, and the tree is changing (no digest is kept).
+						c.gone[i] = true
+						racy.Store(true)
+						continue
+					}
 					if err != nil {
 						failed.Store(&err)
 						break
@@ -151,7 +159,7 @@ func (w WorkTree) Scan() (*Scan, error) {
 	pending := make([]file, 0, chunkLen) // files listed, not yet sent
 	flush := func() {
 		if n := len(pending); n > 0 {
-			c := &chunk{files: pending, stamps: make([]string, n), regular: make([]bool, n)}
+			c := &chunk{files: pending, stamps: make([]string, n), regular: make([]bool, n), gone: make([]bool, n)}
 			chunks = append(chunks, c)
 			work <- c
 			pending = make([]file, 0, chunkLen)
@@ -232,6 +240,9 @@ func (w WorkTree) Scan() (*Scan, error) {
 	last := ""
 	for _, c := range chunks {
 		for i, f := range c.files {
+			if c.gone[i] {
+				continue
+			}
 			if f.path <= last && last != "" {
 				// Cannot happen (the walk lists in path order); the digest depends on it.
 				return nil, fmt.Errorf("scan: %s listed after %s", f.path, last)
