@@ -257,9 +257,11 @@ func (c *Cache) Save(nb *notebook.Notebook) error {
 	return errors.Join(errs...)
 }
 
-// The file: the header line, the SHA-256 of the rest, then for each file (in path order) its
-// path, key, dependency count, each name and value, outcome count, and each outcome (flag,
-// column, text). Strings are length-prefixed (uvarint), numbers uvarints.
+// A shard file: the header line, the CRC-32C of the rest (4 bytes, little-endian), the counts
+// of results, file records, dependencies and outcomes; then for each file with results (in
+// path order) its path, key, outcomes key, dependency count, each name and value, outcome
+// count and each outcome (flag, column, text); then each file record (path, then see
+// appendFileRec). Strings are length-prefixed (uvarint), numbers uvarints.
 
 func encodeCache(m map[string]*cacheRec, files map[string]*fileRec) []byte {
 	paths := make([]string, 0, len(m))
