@@ -66,17 +66,26 @@ func linkAllows(lfs []FieldSpec, field string, k Kind) bool {
 
 // childOrder is the order in which children are listed: devices before the
 // processes that also lead to them, so a tree reads wafer → piece → device.
-var childOrder = map[Kind]int{KindPiece: 0, KindDevice: 1, KindCooldown: 2, KindProcess: 3, KindMask: 4, KindWafer: 5}
+func childOrder(k Kind) int {
+	switch k {
+	case KindPiece:
+		return 0
+	case KindDevice:
+		return 1
+	case KindCooldown:
+		return 2
+	case KindProcess:
+		return 3
+	case KindMask:
+		return 4
+	case KindWafer:
+		return 5
+	}
+	return 99
+}
 
 func byKindThenID(a, b *Entry) int {
-	ka, okA := childOrder[a.Kind]
-	kb, okB := childOrder[b.Kind]
-	if !okA {
-		ka = 99
-	}
-	if !okB {
-		kb = 99
-	}
+	ka, kb := childOrder(a.Kind), childOrder(b.Kind)
 	if ka != kb {
 		return ka - kb
 	}
