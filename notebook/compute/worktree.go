@@ -94,9 +94,22 @@ func (w WorkTree) Scan() (*Scan, error) {
 	// One goroutine lists the folders (each in path order); as each folder is listed, its
 	// files go in chunks to workers that read their stat data (one system call per file,
 	// relative to the open folder: the bulk of the time), so listing and stat overlap.
+	// A folder stays open while its files wait for their stat data: the lister holds one
+	// reference until it has listed the folder, each chunk of its files one until stat'ed;
+	// whoever lets go of the last closes it (a notebook may hold thousands of folders, more
+	// than the open files a process may have).
+	type folder struct {
+		h    dirHandle
+		refs atomic.Int64
+	}
+	release := func(d *folder) {
+		if d.refs.Add(-1) == 0 {
+			d.h.close()
+		}
+	}
 	type file struct {
 		path, name string
-		dir        dirHandle // the open folder that holds it
+		dir        *folder // the open folder that holds it
 	}
 	type chunk struct {
 		files   []file
@@ -106,18 +119,12 @@ func (w WorkTree) Scan() (*Scan, error) {
 	}
 	var (
 		chunks []*chunk
-		dirs   []dirHandle
 		temps  []string
 		racy   atomic.Bool
 		failed atomic.Pointer[error]
 		wg     sync.WaitGroup
 	)
-	defer func() {
-		for _, d := range dirs {
-			d.close()
-		}
-	}()
-	work := make(chan *chunk, 64)
+	work := make(chan *chunk, 32) // bounds the folders open at once (each queued chunk holds one)
 	for range max(1, runtime.GOMAXPROCS(0)) {
 		wg.Add(1)
 		go func() {
@@ -129,7 +136,7 @@ func (w WorkTree) Scan() (*Scan, error) {
 					if failed.Load() != nil {
 						break
 					}
-					sd, err := f.dir.lstat(f.name, &st)
+					sd, err := f.dir.h.lstat(f.name, &st)
 					if errors.Is(err, fs.ErrNotExist) {
 						// Gone since its folder was listed (an editor's swap file, say): not
 						// part of the tree, and the tree is changing (no digest is kept).
@@ -152,6 +159,7 @@ func (w WorkTree) Scan() (*Scan, error) {
 					b = binary.AppendUvarint(b, sd.ino)
 					c.stamps[i] = string(b)
 				}
+				release(c.files[0].dir)
 			}
 		}()
 	}
@@ -161,18 +169,21 @@ func (w WorkTree) Scan() (*Scan, error) {
 		if n := len(pending); n > 0 {
 			c := &chunk{files: pending, stamps: make([]string, n), regular: make([]bool, n), gone: make([]bool, n)}
 			chunks = append(chunks, c)
+			c.files[0].dir.refs.Add(1) // a chunk holds files of one folder
 			work <- c
 			pending = make([]file, 0, chunkLen)
 		}
 	}
 	var walk func(rel string) error
 	walk = func(rel string) error {
-		d, err := openDir(filepath.Join(w.Root, filepath.FromSlash(rel)))
+		h, err := openDir(filepath.Join(w.Root, filepath.FromSlash(rel)))
 		if err != nil {
 			return err
 		}
-		dirs = append(dirs, d) // closed when the scan ends
-		ents, err := d.readDir()
+		d := &folder{h: h}
+		d.refs.Store(1)
+		defer release(d)
+		ents, err := h.readDir()
 		if err != nil {
 			return err
 		}
