@@ -206,6 +206,22 @@ func (r *AnalysisResult) Display() string {
 	return s
 }
 
+// NameText is a value read as a name (a probe, a side, a column): text as it is, a bare
+// number as written (probe "2" may be written 2), anything else as displayed, nil as "".
+func NameText(v Value) string {
+	switch x := v.(type) {
+	case nil:
+		return ""
+	case String:
+		return string(x)
+	case Quantity:
+		if x.Q.Dim().IsDimensionless() {
+			return fmt.Sprint(x.Q.Value())
+		}
+	}
+	return Display(v)
+}
+
 // Display renders a value as it appears in a result region:
 //   - quantities with quantity.Format (the trade's customary unit, significant figures
 //     following the uncertainty), or quantity.FormatIn when a display unit was asked for;

@@ -241,19 +241,7 @@ func HallBarOf(g *calc.Record) (physics.HallBar, error) {
 }
 
 // nameArg reads a contact or probe name given as text or as a bare number ("2" or 2).
-func nameArg(v calc.Value) string {
-	switch x := v.(type) {
-	case calc.String:
-		return strings.TrimSpace(string(x))
-	case calc.Quantity:
-		if x.Q.Dim().IsDimensionless() {
-			return fmt.Sprint(x.Q.Value())
-		}
-	case nil:
-		return ""
-	}
-	return calc.Display(v)
-}
+func nameArg(v calc.Value) string { return strings.TrimSpace(calc.NameText(v)) }
 
 // fieldName is a name field of a record, text or a bare number.
 func pathName(r *calc.Record, name string) string {

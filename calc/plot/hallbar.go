@@ -179,13 +179,5 @@ func text(r *calc.Record, name string) string {
 	if !ok {
 		return ""
 	}
-	switch x := v.(type) {
-	case calc.String:
-		return string(x)
-	case calc.Quantity:
-		if x.Q.Dim().IsDimensionless() {
-			return fmt.Sprint(x.Q.Value())
-		}
-	}
-	return calc.Display(v)
+	return calc.NameText(v)
 }

@@ -126,19 +126,6 @@ func geometrySources(v *view, e *notebook.Entry) geomSources {
 	return g
 }
 
-// displayName reads a probe name or side written either as text or as a bare number.
-func displayName(v calc.Value) string {
-	switch x := v.(type) {
-	case calc.String:
-		return string(x)
-	case calc.Quantity:
-		if x.Q.Dim().IsDimensionless() {
-			return fmt.Sprint(x.Q.Value())
-		}
-	}
-	return calc.Display(v)
-}
-
 // register adds the entry-bound functions to env.
 func (r *resolver) register(env *calc.Env) {
 	env.Register(calc.Func{
@@ -146,7 +133,7 @@ func (r *resolver) register(env *calc.Env) {
 		Doc:    "what the cooldowns below this entry measured: density (the first of the names in `density` a cooldown defines) and mobility, dark and illuminated, with their temperatures",
 		Params: []calc.Param{{Name: "density", Default: calc.String("n_SdH|n_H")}, {Name: "mobility", Default: calc.String("mu")}},
 		Call: func(e *calc.Env, args []calc.Value) (calc.Value, error) {
-			return r.scorecard(e, displayName(args[0]), displayName(args[1]))
+			return r.scorecard(e, calc.NameText(args[0]), calc.NameText(args[1]))
 		},
 	})
 	env.Register(calc.Func{
@@ -154,7 +141,7 @@ func (r *resolver) register(env *calc.Env) {
 		Doc:    "the front matter of the entry with this id (a wafer's with its layers), as a record: calibration wafers for cell_calibration, a mask outside the lineage",
 		Params: []calc.Param{{Name: "id"}},
 		Call: func(_ *calc.Env, args []calc.Value) (calc.Value, error) {
-			id := strings.TrimSpace(displayName(args[0]))
+			id := strings.TrimSpace(calc.NameText(args[0]))
 			en, ok := r.v.entry(id) // recorded: which file holds id, and that file's text
 			if !ok {
 				return nil, &calc.ArgError{Arg: 0, Err: fmt.Errorf("%w: no entry has id %q", calc.ErrArgument, id)}
