@@ -82,23 +82,39 @@ func Refs(p string, raw []byte) []Ref {
 // result region, and each plot path two lines of one file name.
 func Verify(root string, nb *notebook.Notebook, sel func(string) bool) ([]Problem, error) {
 	var probs []Problem
-	for _, f := range paths(nb) {
-		if sel != nil && !sel(f) {
-			continue
-		}
-		raw, err := os.ReadFile(filepath.Join(root, filepath.FromSlash(f)))
-		if err != nil {
-			return nil, err
-		}
-		refs := Refs(f, raw)
-		probs = append(probs, duplicates(refs)...)
+	err := eachFile(root, nb, sel, func(_ string, refs []Ref, dups []Problem) error {
+		probs = append(probs, dups...)
 		for _, r := range refs {
 			if msg := state(root, r); msg != "" {
 				probs = append(probs, Problem{Ref: r, Msg: msg})
 			}
 		}
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
 	return probs, nil
+}
+
+// eachFile calls f with the plot lines of each Markdown file of nb in sel (all when sel is
+// nil), read from the file on disk as it is now (calc may have just rewritten it), and the
+// problems of plot paths named twice in it.
+func eachFile(root string, nb *notebook.Notebook, sel func(string) bool, f func(path string, refs []Ref, dups []Problem) error) error {
+	for _, p := range paths(nb) {
+		if sel != nil && !sel(p) {
+			continue
+		}
+		raw, err := os.ReadFile(filepath.Join(root, filepath.FromSlash(p)))
+		if err != nil {
+			return err
+		}
+		refs := Refs(p, raw)
+		if err := f(p, refs, duplicates(refs)); err != nil {
+			return err
+		}
+	}
+	return nil
 }
 
 // state says what is wrong with a plot file ("" when it matches its result region).
@@ -149,16 +165,7 @@ type Result struct {
 func Sync(root string, nb *notebook.Notebook, sel func(string) bool) (*Result, error) {
 	res := &Result{}
 	fsys := os.DirFS(root)
-	for _, f := range paths(nb) {
-		if sel != nil && !sel(f) {
-			continue
-		}
-		raw, err := os.ReadFile(filepath.Join(root, filepath.FromSlash(f)))
-		if err != nil {
-			return nil, err
-		}
-		refs := Refs(f, raw)
-		dups := duplicates(refs)
+	err := eachFile(root, nb, sel, func(f string, refs []Ref, dups []Problem) error {
 		res.Problems = append(res.Problems, dups...)
 		var stale []Ref
 		for _, r := range refs {
@@ -169,7 +176,7 @@ func Sync(root string, nb *notebook.Notebook, sel func(string) bool) (*Result, e
 		if len(stale) > 0 && len(dups) == 0 {
 			drawn, err := DrawRefs(fsys, nb, f, stale)
 			if err != nil {
-				return nil, err
+				return err
 			}
 			for _, d := range drawn {
 				if d.SVG == nil {
@@ -188,9 +195,13 @@ func Sync(root string, nb *notebook.Notebook, sel func(string) bool) (*Result, e
 		}
 		removed, err := removeOrphans(root, f, refs)
 		if err != nil {
-			return nil, err
+			return err
 		}
 		res.Removed = append(res.Removed, removed...)
+		return nil
+	})
+	if err != nil {
+		return nil, err
 	}
 	return res, nil
 }
