@@ -431,31 +431,11 @@ func (d *decoder) str() string {
 	return s
 }
 
-// current is the value dependency name has now (memoised for the run; see the `deps` type).
+// current is the value dependency name has now (see the `deps` type). The values that are a
+// few map lookups (md: — a Markdown file's digest is kept by the cache or by the run's parse
+// of the file —, id:, near:) are answered each time; those that walk the notebook or touch
+// the disk (measured:, read:, lstat:, link:) once per run, through memo.
 func (rs *runState) current(name string) string {
-	if len(name) > 3 && (name[:3] == "md:" || name[:3] == "id:") || strings.HasPrefix(name, "near:") {
-		// Cheaper to answer again than to memoise: a few map lookups (a Markdown file's
-		// digest is itself kept by the cache or by the run's parse of the file).
-		return rs.compute(name)
-	}
-	rs.valMu.Lock()
-	v, ok := rs.values[name]
-	rs.valMu.Unlock()
-	if ok {
-		return v
-	}
-	// Computed outside the lock: two workers may compute one value, and get the same.
-	v = rs.compute(name)
-	rs.valMu.Lock()
-	if rs.values == nil {
-		rs.values = map[string]string{}
-	}
-	rs.values[name] = v
-	rs.valMu.Unlock()
-	return v
-}
-
-func (rs *runState) compute(name string) string {
 	kind, arg, _ := strings.Cut(name, ":")
 	switch kind {
 	case "md":
@@ -472,19 +452,40 @@ func (rs *runState) compute(name string) string {
 		a, ok := rs.nb.Nearest(e, notebook.Kind(k))
 		return pathOf(a, ok)
 	case "measured":
-		e := rs.entryAt(arg)
-		if e == nil {
-			return "no entry"
-		}
-		return pathList(measuredBy(rs.nb, e))
+		return rs.memo(name, func() string {
+			e := rs.entryAt(arg)
+			if e == nil {
+				return "no entry"
+			}
+			return pathList(measuredBy(rs.nb, e))
+		})
 	case "read":
-		return rs.dataHash(arg)
+		return rs.memo(name, func() string { return rs.dataHash(arg) })
 	case "lstat":
-		return lstatValue(fs.Lstat(rs.fsys, arg))
+		return rs.memo(name, func() string { return lstatValue(fs.Lstat(rs.fsys, arg)) })
 	case "link":
-		return linkValue(fs.ReadLink(rs.fsys, arg))
+		return rs.memo(name, func() string { return linkValue(fs.ReadLink(rs.fsys, arg)) })
 	}
 	return "unknown dependency " + name // never equals a recorded value: a miss
+}
+
+// memo returns the value of dependency name made by mk, made once per run (two workers may
+// both make it, outside the lock, and get the same).
+func (rs *runState) memo(name string, mk func() string) string {
+	rs.valMu.Lock()
+	v, ok := rs.values[name]
+	rs.valMu.Unlock()
+	if ok {
+		return v
+	}
+	v = mk()
+	rs.valMu.Lock()
+	if rs.values == nil {
+		rs.values = map[string]string{}
+	}
+	rs.values[name] = v
+	rs.valMu.Unlock()
+	return v
 }
 
 // entryAt is the entry of the file at slash path p, or nil.
