@@ -83,6 +83,7 @@ type Scan struct {
 	// Markdown lists the files the notebook loads (notebook.Loadable regular files), sorted.
 	Markdown []string
 	digest   string
+	salt     string // the engine's salt (saltIn), in the digest and every cache key of the run
 }
 
 // Scan reads the stat data of every file (everything but .git). A file modified less than a
@@ -228,12 +229,9 @@ func (w WorkTree) Scan() (*Scan, error) {
 		flush()
 		return nil
 	}
-	saltc := make(chan string, 1)
-	go func() { saltc <- saltIn(w.StateDir) }()
 	werr := walk(".")
 	close(work)
 	wg.Wait()
-	salt := <-saltc
 	if werr != nil {
 		return nil, werr
 	}
@@ -246,7 +244,8 @@ func (w WorkTree) Scan() (*Scan, error) {
 	}
 	sc := &Scan{Stamps: make(map[string]string, n), Racy: racy.Load(), Temps: temps}
 	h := sha256.New()
-	fmt.Fprintf(h, "%s\n", salt)
+	sc.salt = saltIn(w.StateDir)
+	fmt.Fprintf(h, "%s\n", sc.salt)
 	var hb []byte
 	last := ""
 	for _, c := range chunks {
@@ -433,7 +432,11 @@ func (w WorkTree) run(opt CheckOptions, sc *Scan) (*CheckResult, error) {
 	if err != nil {
 		return nil, err
 	}
-	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths, Salt: saltIn(w.StateDir), Stamps: stamps, Write: opt.Write})
+	salt := saltIn(w.StateDir)
+	if sc != nil {
+		salt = sc.salt
+	}
+	rep, err := Run(fsys, nb, Options{Cache: cache, Paths: opt.Paths, Salt: salt, Stamps: stamps, Write: opt.Write})
 	if err != nil {
 		return nil, err
 	}
