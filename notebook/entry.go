@@ -212,7 +212,7 @@ func (e *Entry) Quantity(path ...string) (quantity.Quantity, error) {
 	}
 	qv, err := quantity.ParseQuantity(n.Value)
 	if err != nil {
-		return quantity.Quantity{}, &Problem{Path: e.Path, Line: line, Col: col, Msg: fmt.Sprintf("%s: %v", joinPath(path), err)}
+		return quantity.Quantity{}, &Problem{Path: e.Path, Line: line, Col: col, Msg: fmt.Sprintf("%s: %q: %s", joinPath(path), n.Value, quantity.Reason(err))}
 	}
 	return qv, nil
 }

@@ -202,7 +202,7 @@ func (e *Entry) layersOf(blocks []mdBlock) []Problem {
 			qv, err := quantity.ParseQuantity(lr.Thickness)
 			switch {
 			case err != nil:
-				prob(th.Line, th.Col, "layer table: thickness %q: %v", lr.Thickness, err)
+				prob(th.Line, th.Col, "layer table: thickness %q: %s", lr.Thickness, quantity.Reason(err))
 			case qv.Dim() != quantity.Length:
 				if qv.Dim().IsDimensionless() {
 					prob(th.Line, th.Col, "layer table: thickness %q: expected a length with a unit, e.g. `20 nm`", lr.Thickness)
@@ -292,7 +292,7 @@ func (e *Entry) readGrowth(lr *LayerRow) []Problem {
 		q, err := quantity.ParseQuantity(text)
 		switch {
 		case err != nil:
-			prob(col, "layer table: %s %q: %v (expected %s, e.g. `%s`)", col, text, err, what, example)
+			prob(col, "layer table: %s %q: %s (expected %s, e.g. `%s`)", col, text, quantity.Reason(err), what, example)
 		case q.Dim() != want:
 			if hint := celsiusHint(q.Dim(), want); hint != "" {
 				prob(col, "layer table: %s %q %s", col, text, hint)
@@ -377,7 +377,7 @@ func ParseCellTemps(s string) ([]CellTemp, error) {
 		}
 		q, err := quantity.ParseQuantity(strings.TrimSpace(rest))
 		if err != nil {
-			return out, fmt.Errorf("%s: %v", name, err)
+			return out, fmt.Errorf("%s %q: %s", name, strings.TrimSpace(rest), quantity.Reason(err))
 		}
 		if q.Dim() != quantity.Temperature {
 			if hint := celsiusHint(q.Dim(), quantity.Temperature); hint != "" {

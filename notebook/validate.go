@@ -381,7 +381,7 @@ func checkQuantity(e *Entry, v *yaml.Node, f FieldSpec, name string) []Problem {
 	}
 	qv, err := quantity.ParseQuantity(v.Value)
 	if err != nil {
-		return bad("%q: %v (expected %s with a unit, e.g. `%s`)", v.Value, err, want, f.Example)
+		return bad("%q: %s (expected %s with a unit, e.g. `%s`)", v.Value, quantity.Reason(err), want, f.Example)
 	}
 	if slices.Contains(f.Dims, qv.Dim()) {
 		return nil

@@ -1,6 +1,7 @@
 package quantity
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -196,6 +197,22 @@ type UnitError struct {
 
 func (e *UnitError) Error() string {
 	return fmt.Sprintf("unit %q, offset %d: %s", e.Input, e.Offset, e.Msg)
+}
+
+// Reason is what a parse error of [ParseQuantity] or [ParseUnit] says went wrong, without the
+// input and byte offset its Error repeats: for a message that already quotes the text it was
+// given and says where it stands in the file ("thickness \"20 nmm\": unknown unit ...").
+// Other errors give their Error.
+func Reason(err error) string {
+	var se *SyntaxError
+	var ue *UnitError
+	switch {
+	case errors.As(err, &se):
+		return se.Msg
+	case errors.As(err, &ue):
+		return ue.Msg
+	}
+	return err.Error()
 }
 
 // Unwrap returns [ErrUnknownUnit].
