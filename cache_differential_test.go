@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io/fs"
+	"maps"
 	"math/rand/v2"
 	"os"
 	"path/filepath"
@@ -68,7 +69,7 @@ func TestCacheDifferential(t *testing.T) {
 						t.Fatalf("step %d (%s), cleave %s:\nwith the cache (exit %d):\n%s\nwithout it (exit %d):\n%s",
 							step, desc, cmd, codeA, outA, codeB, outB)
 					}
-					if fa, fb := entryFiles(t, a), entryFiles(t, b); !sameFiles(fa, fb) {
+					if fa, fb := entryFiles(t, a), entryFiles(t, b); !maps.Equal(fa, fb) {
 						t.Fatalf("step %d (%s), cleave %s: files differ with and without the cache", step, desc, cmd)
 					}
 					backdate()
@@ -105,18 +106,6 @@ func backdateRecent(t *testing.T, dir string, when time.Time) {
 	if err != nil {
 		t.Fatal(err)
 	}
-}
-
-func sameFiles(a, b map[string]string) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for k, v := range a {
-		if b[k] != v {
-			return false
-		}
-	}
-	return true
 }
 
 // mirror makes every file of dst outside .git a copy of src's.

@@ -9,6 +9,7 @@ import (
 	"flag"
 	"fmt"
 	"io/fs"
+	"maps"
 	"math/rand/v2"
 	"os"
 	"os/exec"
@@ -373,7 +374,7 @@ func TestCrashDuringCalc(t *testing.T) {
 	if l := temps(t, dir); len(l) > 0 {
 		t.Errorf("temporary files left after a complete run: %v (%s)", l, errs)
 	}
-	if got := entryFiles(t, dir); !mapsEqual(got, want) {
+	if got := entryFiles(t, dir); !maps.Equal(got, want) {
 		t.Error("after a complete calc the files differ from the reference")
 	}
 	c1, out1, _ := cleave(t, "-C", dir, "check")
@@ -397,18 +398,6 @@ func temps(t *testing.T, root string) []string {
 		return nil
 	})
 	return out
-}
-
-func mapsEqual(a, b map[string]string) bool {
-	if len(a) != len(b) {
-		return false
-	}
-	for k, v := range a {
-		if b[k] != v {
-			return false
-		}
-	}
-	return true
 }
 
 // TestConcurrentEditor: an editor saves notes (in place and by renaming a new file over the
