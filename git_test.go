@@ -203,7 +203,7 @@ func editFile(t *testing.T, dir, rel, old, new string) string {
 // The demo notebook's cooldown and the edits the partial-staging test makes to it.
 const (
 	cd1       = "cooldowns/CD24-001.md"
-	hallRange = "hall = hall_density(d, 0.05 T .. 0.5 T)"
+	hallRange = "hall = hall_density(d, 0.05 T .. 0.3 T)"
 	cd1Prose  = "Cooled slowly (2 h from 77 K to 4 K) with all contacts grounded. No illumination."
 )
 
@@ -230,7 +230,7 @@ func TestHookPartiallyStagedFile(t *testing.T) {
 	t.Parallel()
 	dir := hookedDemo(t)
 	before := capture(t, dir)
-	staged := editFile(t, dir, cd1, hallRange, strings.Replace(hallRange, "0.5 T", "0.4 T", 1))
+	staged := editFile(t, dir, cd1, hallRange, strings.Replace(hallRange, "0.3 T", "0.25 T", 1))
 	patch := gitOut(t, dir, "diff", "--", cd1)
 	work := editFile(t, dir, cd1, cd1Prose, note(cd1Prose))
 	pf := filepath.Join(t.TempDir(), "hunk.patch")
@@ -242,7 +242,7 @@ func TestHookPartiallyStagedFile(t *testing.T) {
 		t.Fatal("git apply --cached did not stage exactly the first hunk")
 	}
 
-	out := gitOut(t, dir, "commit", "-m", "CD24-001: Hall fit up to 0.4 T")
+	out := gitOut(t, dir, "commit", "-m", "CD24-001: Hall fit up to 0.25 T")
 	if !strings.Contains(out, "recomputed "+cd1+" (index and work tree)") {
 		t.Errorf("the hook did not say what it recomputed:\n%s", out)
 	}

@@ -27,20 +27,20 @@ func TestCheckAfterDataEdit(t *testing.T) {
 	edited := false
 	for i, l := range lines {
 		f := strings.Split(l, ",")
-		if len(f) < 3 || f[0] != "-0.504" {
+		if len(f) < 3 || f[0] != "-0.252" {
 			continue
 		}
 		rxx, err := strconv.ParseFloat(f[1], 64)
 		if err != nil {
 			t.Fatalf("line %d: %v", i+1, err)
 		}
-		f[1] = strconv.FormatFloat(rxx*1.5, 'g', -1, 64) // one point inside the SdH window 0.15–1.2 T
+		f[1] = strconv.FormatFloat(rxx*1.5, 'g', -1, 64) // one point inside the SdH (0.12–0.45 T) and Dingle (0.12–0.32 T) windows
 		lines[i] = strings.Join(f, ",")
 		edited = true
 		break
 	}
 	if !edited {
-		t.Fatal("no row at B = -0.504 T in the demo sweep")
+		t.Fatal("no row at B = -0.252 T in the demo sweep")
 	}
 	if err := os.WriteFile(p, []byte(strings.Join(lines, "\n")), 0o644); err != nil {
 		t.Fatal(err)
