@@ -63,7 +63,8 @@ const MinDingleExtrema = 3
 //
 // With WithMobility, τ_t = μ m*/e and the Dingle ratio τ_t/τ_q are reported.
 // Warnings: an intercept beyond 3σ and beyond ln 2 from 0 (density
-// inhomogeneity or a wrong prefactor), τ_t/τ_q < 0.8 (theory allows no less
+// inhomogeneity or a wrong prefactor), an extremum with |ΔR|/R_0 above 0.5 (outside the
+// low-field form; see largeAmplitude), τ_t/τ_q < 0.8 (theory allows no less
 // than 1/2 [src:DSS1985]; the bound 0.8 is common practice), a data frequency
 // more than 5 % from the one of n, dropped extrema.
 func QuantumLifetime(d *Dataset, bmin, bmax, mstar, n, T float64, opts ...Option) (*DingleResult, error) {
@@ -174,6 +175,9 @@ func QuantumLifetime(d *Dataset, bmin, bmax, mstar, n, T float64, opts ...Option
 	if math.Abs(c.Value) > 3*c.Uncertainty && math.Abs(c.Value) > math.Ln2 {
 		res.Warnings = append(res.Warnings, Warning{WarnIntercept, fmt.Sprintf(
 			"Dingle-plot intercept %.3g ± %.2g is far from 0: density inhomogeneity or a wrong prefactor (mass, temperature)?", c.Value, c.Uncertainty)})
+	}
+	if w := largeAmplitude(res.Extrema); w != nil {
+		res.Warnings = append(res.Warnings, *w)
 	}
 	if dropped > 0 {
 		res.Warnings = append(res.Warnings, Warning{WarnInsignificant, fmt.Sprintf("%d extrema dropped (amplitude below 2σ)", dropped)})

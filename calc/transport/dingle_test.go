@@ -157,6 +157,15 @@ func TestQuantumLifetimeWarnings(t *testing.T) {
 	if !hasWarning(r.Warnings, WarnDingleRatio) {
 		t.Errorf("no %s warning at τ_t/τ_q = %.3g: %v", WarnDingleRatio, r.DingleRatio.Value, r.Warnings)
 	}
+	// Up to 1 T at 1.5 K and τ_q = 1 ps, ΔR/R_0 = 4 (X/sinh X) exp(−π/(ω_c τ_q)) reaches 0.86
+	// (X = 1.48, X/sinh X = 0.71, Dingle factor 0.30): outside the low-field form. Up to 0.6 T
+	// it stays at 0.23 (X = 2.46, X/sinh X = 0.42, Dingle factor 0.136).
+	if !hasWarning(r.Warnings, WarnLargeAmplitude) {
+		t.Errorf("no %s warning over 0.2–1 T: %v", WarnLargeAmplitude, r.Warnings)
+	}
+	if r, err := QuantumLifetime(d, 0.2, 0.6, 0.067*mE, 3e15, 1.5); err != nil || hasWarning(r.Warnings, WarnLargeAmplitude) {
+		t.Errorf("over 0.2–0.6 T: err %v, warnings %v; want no %s", err, r.Warnings, WarnLargeAmplitude)
+	}
 	// A density 20 % off the data: frequency mismatch.
 	r, err = QuantumLifetime(d, 0.2, 1, 0.067*mE, 3.6e15, 1.5)
 	if err != nil {

@@ -342,7 +342,8 @@ func sweepTemperature(d *Dataset) (float64, error) {
 // centred on it (value ± σ). Each extremum whose coldest amplitude exceeds 5σ is fitted with
 // the LK form (weighted by 1/σ²; see LKMassTable), and the masses are combined
 // by the inverse-variance weighted mean, whose uncertainty is scaled by
-// sqrt(χ²/(K−1)) when that exceeds 1.
+// sqrt(χ²/(K−1)) when that exceeds 1. It warns when an extremum of the coldest sweep has
+// |ΔR|/R_0 above 0.5 (outside the low-field form; see largeAmplitude).
 func LKMassSweeps(sweeps []*Dataset, temps []float64, bmin, bmax float64, opts ...Option) (*LKSweepsResult, error) {
 	o := newOptions(opts)
 	if len(sweeps) < MinLKPoints {
@@ -455,6 +456,13 @@ func LKMassSweeps(sweeps []*Dataset, temps []float64, bmin, bmax float64, opts .
 	if nsat > 0 {
 		res.Warnings = append(res.Warnings, Warning{WarnSaturation, fmt.Sprintf(
 			"at %d of %d extrema the coldest amplitude lies below the LK curve of the warmer sweeps: electron temperature above the thermometer reading?", nsat, len(res.Extrema))})
+	}
+	coldest := make([]Extremum, len(res.Extrema))
+	for i, e := range res.Extrema {
+		coldest[i] = e.Extremum
+	}
+	if w := largeAmplitude(coldest); w != nil {
+		res.Warnings = append(res.Warnings, *w)
 	}
 	if skipped > 0 {
 		res.Warnings = append(res.Warnings, Warning{WarnInsignificant, fmt.Sprintf("%d extrema skipped (amplitude below 5σ or fit failed)", skipped)})

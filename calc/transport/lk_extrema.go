@@ -1,6 +1,7 @@
 package transport
 
 import (
+	"cmp"
 	"fmt"
 	"math"
 	"math/cmplx"
@@ -15,6 +16,51 @@ type Extremum struct {
 	Value      Estimate // signed oscillatory part ΔR at the extremum, Ohm
 	Background float64  // the smooth background R at B, Ohm (stands for R_0 in ΔR/R_0)
 	Points     int      // points in the local fit
+}
+
+// WarnLargeAmplitude: the window reaches fields where the oscillation is no longer small
+// against the background, outside the low-field form the Dingle and LK analyses rest on.
+const WarnLargeAmplitude = "large-amplitude"
+
+// largeAmplitudeBound is the |ΔR|/R_0 above which an extremum counts as large. The low-field
+// form Δρ/ρ_0 = 4 (X/sinh X) exp(−π/(ω_c τ_q)) cos(…) is the first term of an expansion in the
+// Dingle factor and holds for Δρ ≪ ρ_0 [src:CSF1989]; beyond it the minima flatten towards
+// zero, harmonics grow and the fundamental's amplitude no longer follows the form. The bound
+// 0.5 is common practice.
+const largeAmplitudeBound = 0.5
+
+// largeAmplitude warns when an extremum of es has |ΔR|/R_0 above largeAmplitudeBound, naming
+// the largest and the highest field below which every extremum stays under the bound.
+func largeAmplitude(es []Extremum) *Warning {
+	worst, wB := 0.0, 0.0
+	for _, e := range es {
+		if r := math.Abs(e.Value.Value) / e.Background; e.Background > 0 && r > worst {
+			worst, wB = r, e.B
+		}
+	}
+	if !(worst > largeAmplitudeBound) {
+		return nil
+	}
+	below := 0.0 // the highest field up to which every extremum is small
+	for _, e := range sortedByField(es) {
+		if !(e.Background > 0) || math.Abs(e.Value.Value)/e.Background > largeAmplitudeBound {
+			break
+		}
+		below = e.B
+	}
+	advice := "start the window lower"
+	if below > 0 {
+		advice = fmt.Sprintf("every extremum up to %.3g T stays below %.1f: end the window there", below, largeAmplitudeBound)
+	}
+	return &Warning{WarnLargeAmplitude, fmt.Sprintf(
+		"|ΔR|/R_0 reaches %.2g at %.3g T, where the low-field form (ΔR ≪ R_0) no longer holds; %s", worst, wB, advice)}
+}
+
+// sortedByField is es ordered by rising field.
+func sortedByField(es []Extremum) []Extremum {
+	s := slices.Clone(es)
+	slices.SortFunc(s, func(a, b Extremum) int { return cmp.Compare(a.B, b.B) })
+	return s
 }
 
 // oscData is R_xx over a field window, folded to |B|, with its smooth

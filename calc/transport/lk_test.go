@@ -101,7 +101,16 @@ func lkSweeps(t testing.TB, seed uint64, noise float64, temps []float64, sat flo
 func TestLKMassSweeps(t *testing.T) {
 	t.Parallel()
 	ds := lkSweeps(t, 1, 0.05, lkTemps, 0)
+	// Up to 1 T the coldest sweep's oscillation reaches ΔR/R_0 ≈ 1: outside the low-field form.
 	r, err := LKMassSweeps(ds, nil, 0.3, 1, WithExpectedMass(GaAsMassRange[0], GaAsMassRange[1]))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !hasWarning(r.Warnings, WarnLargeAmplitude) {
+		t.Errorf("no %s warning over 0.3–1 T: %v", WarnLargeAmplitude, r.Warnings)
+	}
+	// Below 0.6 T every extremum stays under ΔR/R_0 = 0.5.
+	r, err = LKMassSweeps(ds, nil, 0.3, 0.6, WithExpectedMass(GaAsMassRange[0], GaAsMassRange[1]))
 	if err != nil {
 		t.Fatal(err)
 	}
