@@ -56,6 +56,9 @@ func TestFitsRecoverTheModel(t *testing.T) {
 		{"cooldowns/CD24-002.md", "n_SdH", 3.3e11 * cm2},
 		{"cooldowns/CD24-002.md", "mu", 1.8e6 * cm2Vs},
 		{"cooldowns/CD24-003.md", "n_SdH", 2.9e11 * cm2}, // the 2D gas; the Hall density includes the parallel layer
+		{"cooldowns/CD24-004.md", "n_H", 2.2e11 * cm2},
+		{"cooldowns/CD24-004.md", "n_SdH", 2.2e11 * cm2},
+		{"cooldowns/CD24-004.md", "mu", 2.5e6 * cm2Vs},
 	}
 	envs := map[string]*calc.Env{}
 	for _, c := range cases {
