@@ -5,6 +5,7 @@ import (
 	"path"
 	"regexp"
 	"strings"
+	"sync"
 
 	"cleave/calc"
 	"cleave/calc/library"
@@ -48,12 +49,15 @@ func (f *Figure) Field(name string) (calc.Value, bool) {
 // FieldNames implements calc.Fielder.
 func (f *Figure) FieldNames() []string { return []string{"path", "name", "kind"} }
 
-var resultPattern = regexp.MustCompile(`^plot (` + Dir + `/[^\s/]+/[A-Za-z0-9][A-Za-z0-9_.-]*\.svg) sha256:([0-9a-f]{12})$`)
+// resultPattern is compiled when first used, not at start-up.
+var resultPattern = sync.OnceValue(func() *regexp.Regexp {
+	return regexp.MustCompile(`^plot (` + Dir + `/[^\s/]+/[A-Za-z0-9][A-Za-z0-9_.-]*\.svg) sha256:([0-9a-f]{12})$`)
+})
 
 // ParseResult reads a result region that a plot line wrote: the SVG's path relative to the
 // entry's folder and the short hash. ok is false for any other text.
 func ParseResult(text string) (path, hash string, ok bool) {
-	m := resultPattern.FindStringSubmatch(strings.TrimSpace(text))
+	m := resultPattern().FindStringSubmatch(strings.TrimSpace(text))
 	if m == nil || strings.Contains(m[1], "..") {
 		return "", "", false
 	}
@@ -70,7 +74,23 @@ func FilePath(entryPath, name string) string {
 	return Dir + "/" + stem + "/" + name + ".svg"
 }
 
-var namePattern = regexp.MustCompile(`^[A-Za-z0-9][A-Za-z0-9_-]{0,63}$`)
+// validName reports whether name can name a plot file: a letter or digit, then up to 63
+// letters, digits, '_' or '-'.
+func validName(name string) bool {
+	if len(name) == 0 || len(name) > 64 {
+		return false
+	}
+	for i := 0; i < len(name); i++ {
+		c := name[i]
+		switch {
+		case 'A' <= c && c <= 'Z', 'a' <= c && c <= 'z', '0' <= c && c <= '9':
+		case i > 0 && (c == '_' || c == '-'):
+		default:
+			return false
+		}
+	}
+	return true
+}
 
 // Func is the calc function plot(x, name, n=, expected=, title=) of the entry file at
 // entryPath: it draws x (see [Draw]) and returns a [*Figure] named name (by default the kind
@@ -88,7 +108,7 @@ func Func(entryPath string) calc.Func {
 			if !ok {
 				return nil, &calc.ArgError{Arg: 1, Err: fmt.Errorf("%w: name must be a string such as \"rxx\"", calc.ErrArgument)}
 			}
-			if name != "" && !namePattern.MatchString(string(name)) {
+			if name != "" && !validName(string(name)) {
 				return nil, &calc.ArgError{Arg: 1, Err: fmt.Errorf("%w: name %q: letters, digits, _ and - only (at most 64, starting with a letter or digit)", calc.ErrArgument, string(name))}
 			}
 			if q, ok := a[2].(calc.Quantity); ok {

@@ -6,6 +6,7 @@ import (
 	"math"
 	"strconv"
 	"strings"
+	"sync"
 	"unicode"
 	"unicode/utf8"
 )
@@ -105,8 +106,9 @@ var displayRules = func() map[Dim]displayRule {
 // celsiusSymbol is how an absolute temperature in °C is written.
 const celsiusSymbol = "°C"
 
-// parsedDisplay caches the parsed display units.
-var parsedDisplay = func() map[string]Unit {
+// parsedDisplay caches the parsed display units, parsed when a quantity is first displayed (a
+// command that displays none, such as a check of an unchanged notebook, never parses them).
+var parsedDisplay = sync.OnceValue(func() map[string]Unit {
 	// The empty symbol is the dimensionless unit 1, which ParseUnit spells "1".
 	m := map[string]Unit{"": {Symbol: "", Scale: 1}, celsiusSymbol: MustUnit(celsiusSymbol)}
 	for _, r := range displayRules {
@@ -117,7 +119,7 @@ var parsedDisplay = func() map[string]Unit {
 		}
 	}
 	return m
-}()
+})
 
 // Customary returns the trade's display unit for q: its dimension decides
 // the unit and, for some dimensions, the size of the value picks the prefix.
@@ -130,7 +132,7 @@ var parsedDisplay = func() map[string]Unit {
 // An absolute temperature written in °C ([TempCelsius]) is shown in °C.
 func Customary(q Quantity) Unit {
 	if q.temp == TempCelsius {
-		return parsedDisplay[celsiusSymbol]
+		return parsedDisplay()[celsiusSymbol]
 	}
 	r, ok := displayRules[q.d]
 	if !ok {
@@ -138,12 +140,12 @@ func Customary(q Quantity) Unit {
 	}
 	a := math.Abs(q.v)
 	if a == 0 || math.IsNaN(a) || math.IsInf(a, 0) {
-		return parsedDisplay[r.zero]
+		return parsedDisplay()[r.zero]
 	}
-	u := parsedDisplay[r.steps[len(r.steps)-1].sym]
+	u := parsedDisplay()[r.steps[len(r.steps)-1].sym]
 	for _, s := range r.steps {
 		if a < s.below {
-			u = parsedDisplay[s.sym]
+			u = parsedDisplay()[s.sym]
 			break
 		}
 	}

@@ -166,7 +166,7 @@ func TestCustomaryTable(t *testing.T) {
 	}
 	for d, r := range displayRules {
 		for _, s := range append(r.steps, step{sym: r.zero}) {
-			if u := parsedDisplay[s.sym]; u.D != d {
+			if u := parsedDisplay()[s.sym]; u.D != d {
 				t.Errorf("rule for %v uses %q of dimension %v", d, s.sym, u.D)
 			}
 		}
