@@ -130,10 +130,17 @@ func LoadWith(fsys fs.FS, opt LoadOptions) (*Notebook, error) {
 		problems []Problem
 	}
 	results := make([]result, len(paths))
+	// Files known from their summaries are made in two slabs, one allocation each instead of
+	// two per file (a check after one change makes ten thousand of them).
+	var knownFiles []File
+	var knownEntries []Entry
+	if opt.Known != nil {
+		knownFiles, knownEntries = make([]File, len(paths)), make([]Entry, len(paths))
+	}
 	parallel.For(len(paths), func(i int) {
 		if opt.Known != nil {
 			if sum, ok := opt.Known(paths[i]); ok && sum.Path == paths[i] {
-				results[i] = result{knownFile(fsys, sum), nil}
+				results[i] = result{knownFile(fsys, sum, &knownFiles[i], &knownEntries[i]), nil}
 				return
 			}
 		}
@@ -141,7 +148,7 @@ func LoadWith(fsys fs.FS, opt LoadOptions) (*Notebook, error) {
 		results[i] = result{f, probs}
 	})
 
-	nb := &Notebook{Problems: walkProblems, fsys: fsys}
+	nb := &Notebook{Problems: walkProblems, fsys: fsys, Files: make([]*File, 0, len(results)), Entries: make([]*Entry, 0, len(results))}
 	for _, r := range results {
 		nb.Files = append(nb.Files, r.file)
 		nb.Problems = append(nb.Problems, r.file.problems...)
@@ -217,11 +224,12 @@ func loadFile(fsys fs.FS, p string) (*File, []Problem) {
 	return f, probs
 }
 
-// knownFile makes a file from its summary, to be read when asked.
-func knownFile(fsys fs.FS, s *Summary) *File {
-	f := &File{Path: s.Path, fsys: fsys, fromSumm: true, problems: s.Problems, fence: s.Fence, plots: s.Plots, data: s.Data, contacts: s.Contacts}
+// knownFile makes a file from its summary in f (and its entry in e), to be read when asked.
+func knownFile(fsys fs.FS, s *Summary, f *File, e *Entry) *File {
+	*f = File{Path: s.Path, fsys: fsys, fromSumm: true, problems: s.Problems, fence: s.Fence, plots: s.Plots, data: s.Data, contacts: s.Contacts}
 	if s.Entry {
-		f.Entry = &Entry{ID: s.ID, Kind: s.Kind, Path: s.Path, file: f, sum: s}
+		*e = Entry{ID: s.ID, Kind: s.Kind, Path: s.Path, file: f, sum: s}
+		f.Entry = e
 	}
 	return f
 }
