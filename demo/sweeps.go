@@ -19,8 +19,8 @@ import (
 // drawn from it would dip far below zero. So the ±B sweeps use the generator's quantum Hall
 // model (Plateaus: ρ_xx stays positive, its minima fall to zero and ρ_xy steps as the levels
 // resolve), and the temperature series, which only the mass fit reads, stops at 0.5 T, where the
-// low-field form still leaves ρ_xx above a fifth of ρ_0. The cooldowns fit below about 0.45 T,
-// where the two models agree (the end-to-end test checks that the fits recover these numbers).
+// low-field form still leaves ρ_xx above a fifth of ρ_0. The cooldowns' fits stay at low field
+// (below 0.45 T at 0.30 K), and TestFitsRecoverTheModel checks that they give these numbers back.
 type demoSweep struct {
 	path string
 	p    transport.SweepParams
@@ -60,7 +60,7 @@ const (
 )
 
 // demoSweeps are the invented measurements, by cooldown. The numbers are the demo's truth:
-// the calc blocks should recover them within their uncertainties (the end-to-end test checks).
+// the calc blocks recover them within their uncertainties (TestFitsRecoverTheModel checks).
 func demoSweeps(cooldown string) []demoSweep {
 	// W24-031-A-HB1: as-built width 96 um, probes 2 and 4 500 um apart.
 	sqA := 500.0 / 96.0
