@@ -52,6 +52,7 @@ func TestFitsRecoverTheModel(t *testing.T) {
 		{"cooldowns/CD24-001.md", "n_SdH", 2.6e11 * cm2},
 		{"cooldowns/CD24-001.md", "m_LK", 0.067 * me},
 		{"cooldowns/CD24-001.md", "tau_q", 1.5 * ps},
+		{"cooldowns/CD24-001.md", "mu", 1.2e6 * cm2Vs}, // with the corrected probe spacing
 		{"cooldowns/CD24-002.md", "n_H", 3.3e11 * cm2},
 		{"cooldowns/CD24-002.md", "n_SdH", 3.3e11 * cm2},
 		{"cooldowns/CD24-002.md", "mu", 1.8e6 * cm2Vs},
