@@ -169,11 +169,21 @@ func errText(err error) string {
 	return err.Error()
 }
 
-var idPattern = regexp.MustCompile(`^[A-Za-z0-9_-][A-Za-z0-9._-]*$`)
-
 // ValidID reports whether id is a valid entry id: letters, digits, '-', '_', '.', not
 // starting with '.' (the file of such an entry would be hidden, and the loader skips it).
-func ValidID(id string) bool { return idPattern.MatchString(id) }
+func ValidID(id string) bool {
+	if id == "" || id[0] == '.' {
+		return false
+	}
+	for i := 0; i < len(id); i++ {
+		switch c := id[i]; {
+		case 'A' <= c && c <= 'Z', 'a' <= c && c <= 'z', '0' <= c && c <= '9', c == '-', c == '_', c == '.':
+		default:
+			return false
+		}
+	}
+	return true
+}
 
 // loadFile reads and parses one file. It never returns a nil *File. The
 // problems found in the file alone are in f.problems (and returned).
