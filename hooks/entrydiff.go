@@ -65,27 +65,42 @@ func parseVersion(path string, raw []byte) *parsedFile {
 	if raw == nil {
 		return pf
 	}
+	// The file as the engine reads it: one parse gives its source, its front matter (decoded
+	// within the loader's bounds, so a hostile alias cannot make the walk below run away) and
+	// its layer table.
 	src, err := mdsrc.Parse(raw)
 	if err != nil {
 		pf.rest = string(raw)
 		return pf
 	}
 	pf.src = src
-	if src.HasFrontMatter {
-		var doc yaml.Node
-		if yaml.Unmarshal(raw[src.FrontMatter.Start:src.FrontMatter.End], &doc) == nil && len(doc.Content) > 0 {
-			flatten(doc.Content[0], "", pf.fields, &pf.order)
+	var entry *notebook.Entry
+	if nb, err := notebook.Load(fstest.MapFS{path: {Data: raw}}); err == nil {
+		if f, ok := nb.File(path); ok {
+			entry = f.Entry
+		}
+	}
+	frontText := raw[src.FrontMatter.Start:src.FrontMatter.End]
+	switch {
+	case entry != nil:
+		if front := entry.Front(); front != nil {
+			flatten(front, "", pf.fields, &pf.order)
+		}
+	case src.HasFrontMatter:
+		// Not an entry: its fields if they decode within the bounds, else its text.
+		if front, err := notebook.DecodeFrontMatter(frontText); err == nil && front != nil {
+			flatten(front, "", pf.fields, &pf.order)
+		} else if err != nil {
+			pf.rest = string(frontText)
 		}
 	}
 	// The layer table, as the engine reads it.
-	if nb, err := notebook.Load(fstest.MapFS{path: {Data: raw}}); err == nil {
-		if f, ok := nb.File(path); ok && f.Entry != nil {
-			for i, row := range f.Entry.LayerRows() {
-				for _, c := range row.Cells {
-					k := fmt.Sprintf("layers[%d].%s", i+1, c.Column)
-					pf.fields[k] = c.Text
-					pf.order = append(pf.order, k)
-				}
+	if entry != nil {
+		for i, row := range entry.LayerRows() {
+			for _, c := range row.Cells {
+				k := fmt.Sprintf("layers[%d].%s", i+1, c.Column)
+				pf.fields[k] = c.Text
+				pf.order = append(pf.order, k)
 			}
 		}
 	}
@@ -107,7 +122,7 @@ func parseVersion(path string, raw []byte) *parsedFile {
 		}
 		line++
 	}
-	pf.rest = b.String()
+	pf.rest += b.String()
 	return pf
 }
 

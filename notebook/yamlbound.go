@@ -20,6 +20,22 @@ const (
 	MaxFrontMatterDepth = 64
 )
 
+// DecodeFrontMatter decodes front matter text (between the --- lines) as the loader does,
+// within the same bounds (MaxFrontMatterNodes, MaxFrontMatterDepth, no alias loops, UTF-8),
+// and returns its top node: nil for a document without content. For readers of a file that
+// is not an entry (its front matter lacks a valid id) yet whose fields they show; an entry's
+// are [Entry.Front].
+func DecodeFrontMatter(b []byte) (*yaml.Node, error) {
+	var doc yaml.Node
+	if err := decodeYAML(b, &doc); err != nil {
+		return nil, err
+	}
+	if len(doc.Content) == 0 {
+		return nil, nil
+	}
+	return doc.Content[0], nil
+}
+
 // frontMatterError is a problem with front matter found before or after the YAML library
 // decoded it, with its position in the YAML text (1-based line and column).
 type frontMatterError struct {
