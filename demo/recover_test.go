@@ -6,7 +6,6 @@ import (
 
 	"cleave/calc"
 	"cleave/notebook"
-	"cleave/notebook/calcblock"
 	"cleave/notebook/compute"
 )
 
@@ -26,15 +25,9 @@ func TestFitsRecoverTheModel(t *testing.T) {
 		if !ok {
 			t.Fatalf("no %s in the scenario", p)
 		}
-		env := compute.NewEnv(fsys, nb, f)
-		blocks, err := calcblock.Find(f.Source())
+		env, err := compute.FileEnv(fsys, nb, f)
 		if err != nil {
 			t.Fatal(err)
-		}
-		for _, b := range blocks {
-			for _, l := range b.Lines {
-				env.EvalLine(l.Input(), l.LineNo)
-			}
 		}
 		return env
 	}

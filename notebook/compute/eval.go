@@ -189,6 +189,12 @@ func fileEnv(root, inFile string) (*calc.Env, error) {
 		}
 		return nil, fmt.Errorf("%s: not a Markdown file of the notebook", inFile)
 	}
+	return FileEnv(fsys, nb, f)
+}
+
+// FileEnv is the environment of the notebook file f once its calc lines have been evaluated in
+// order (a failing line leaves its name undefined): what `cleave eval --in` evaluates in.
+func FileEnv(fsys fs.FS, nb *notebook.Notebook, f *notebook.File) (*calc.Env, error) {
 	env := NewEnv(fsys, nb, f)
 	blocks, err := calcblock.Find(f.Source())
 	if err != nil {
@@ -196,7 +202,7 @@ func fileEnv(root, inFile string) (*calc.Env, error) {
 	}
 	for _, b := range blocks {
 		for _, l := range b.Lines {
-			env.EvalLine(l.Input(), l.LineNo) // a failing line leaves its name undefined
+			env.EvalLine(l.Input(), l.LineNo)
 		}
 	}
 	return env, nil

@@ -6,6 +6,8 @@ import (
 	"path/filepath"
 	"testing/fstest"
 
+	"cleave/calc"
+	"cleave/notebook"
 	"cleave/notebook/compute"
 )
 
@@ -63,4 +65,25 @@ func ExampleEval() {
 	r := compute.JSONOf(v)
 	fmt.Println(r.Display, r.Unit)
 	// Output: 1.7279 meV kg m^2 s^-2
+}
+
+// FileEnv is a file's environment after its calc lines ran: later expressions read the names
+// they defined.
+func ExampleFileEnv() {
+	tree := fstest.MapFS{"note.md": {Data: []byte("```cleave\nn = 3e11 cm^-2\nB = 5 T\n```\n")}}
+	nb, _ := notebook.Load(tree)
+	f, _ := nb.File("note.md")
+	env, err := compute.FileEnv(tree, nb, f)
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	v, err := env.Eval("filling_factor(n, B)")
+	if err != nil {
+		fmt.Println(err)
+		return
+	}
+	fmt.Println(calc.Display(v))
+	// Output:
+	// 2.4814
 }
