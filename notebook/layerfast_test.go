@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"cleave/calc/quantity"
+	"cleave/internal/testutil"
 	"cleave/notebook/mdsrc"
 )
 
@@ -218,17 +219,7 @@ func TestFastOutlineLines(t *testing.T) {
 	}
 	accepted := 0
 	for range n {
-		var b strings.Builder
-		b.WriteString(fm)
-		for range 1 + r.IntN(16) {
-			b.WriteString(layerLines[r.IntN(len(layerLines))])
-			b.WriteByte('\n')
-		}
-		doc := b.String()
-		if r.IntN(4) == 0 {
-			doc = strings.TrimSuffix(doc, "\n")
-		}
-		if compareLayers(t, []byte(doc)) == "" {
+		if compareLayers(t, []byte(fm+testutil.RandomLines(r, layerLines, 16))) == "" {
 			accepted++
 		}
 	}

@@ -17,6 +17,11 @@
 // magnitude of the two numbers, an absolute one is in the numbers' own unit, and a want of
 // NaN is met only by NaN. [CheckWithin] and [CheckRel] report a failure through t.Errorf,
 // naming the quantity and its relative difference ([RelDiff]).
+//
+// # Random documents
+//
+// [RandomLines] draws documents from a pool of lines, for tests that compare a fast path with
+// the parser it shadows.
 package testutil
 
 import (
@@ -26,6 +31,7 @@ import (
 	"fmt"
 	"io/fs"
 	"math"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"strings"
@@ -160,4 +166,19 @@ func CheckRel(t testing.TB, what string, got, want, rel float64) bool {
 	}
 	t.Errorf("%s = %.10g, want %.10g (relative difference %.3g > %g)", what, got, want, RelDiff(got, want), rel)
 	return false
+}
+
+// RandomLines joins 1 to max lines drawn from pool, each ended by '\n', except that one
+// document in four loses its last '\n'.
+func RandomLines(r *rand.Rand, pool []string, max int) string {
+	var b strings.Builder
+	for range 1 + r.IntN(max) {
+		b.WriteString(pool[r.IntN(len(pool))])
+		b.WriteByte('\n')
+	}
+	doc := b.String()
+	if r.IntN(4) == 0 {
+		doc = strings.TrimSuffix(doc, "\n")
+	}
+	return doc
 }

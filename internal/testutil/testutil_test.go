@@ -3,9 +3,11 @@ package testutil
 import (
 	"fmt"
 	"math"
+	"math/rand/v2"
 	"os"
 	"path/filepath"
 	"runtime"
+	"slices"
 	"strings"
 	"testing"
 )
@@ -146,5 +148,33 @@ func TestTolerances(t *testing.T) {
 	r = run(func(tb testing.TB) { CheckWithin(tb, "R_xy(0)", 0.5, 0, 0.1, 0) })
 	if len(r.errors) != 1 || !strings.Contains(r.errors[0], "R_xy(0) = 0.5, want 0") {
 		t.Errorf("CheckWithin reported %q", r.errors)
+	}
+}
+
+// TestRandomLines: every document holds 1 to max lines of the pool, and about one in four
+// lacks its final newline.
+func TestRandomLines(t *testing.T) {
+	r := rand.New(rand.NewPCG(1, 2))
+	pool := []string{"a", "b c", ""}
+	open := 0
+	const n = 4000
+	for range n {
+		doc := RandomLines(r, pool, 5)
+		if !strings.HasSuffix(doc, "\n") {
+			open++
+			doc += "\n"
+		}
+		lines := strings.Split(strings.TrimSuffix(doc, "\n"), "\n")
+		if len(lines) < 1 || len(lines) > 5 {
+			t.Fatalf("%q: %d lines, want 1 to 5", doc, len(lines))
+		}
+		for _, l := range lines {
+			if !slices.Contains(pool, l) {
+				t.Fatalf("%q: line %q is not from the pool", doc, l)
+			}
+		}
+	}
+	if open < n/5 || open > n/3 {
+		t.Errorf("%d of %d documents lack the final newline, want about a quarter", open, n)
 	}
 }

@@ -10,6 +10,7 @@ import (
 	"strings"
 	"testing"
 
+	"cleave/internal/testutil"
 	"cleave/notebook/mdsrc"
 )
 
@@ -184,16 +185,7 @@ func TestFindFastLines(t *testing.T) {
 	}
 	accepted := 0
 	for range n {
-		var b strings.Builder
-		for range 1 + r.IntN(20) {
-			b.WriteString(fastLines[r.IntN(len(fastLines))])
-			b.WriteByte('\n')
-		}
-		doc := b.String()
-		if r.IntN(4) == 0 {
-			doc = strings.TrimSuffix(doc, "\n")
-		}
-		if compareFast(t, []byte(doc)) == "" {
+		if compareFast(t, []byte(testutil.RandomLines(r, fastLines, 20))) == "" {
 			accepted++
 		}
 	}
