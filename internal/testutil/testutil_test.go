@@ -155,7 +155,7 @@ func TestTolerances(t *testing.T) {
 // lacks its final newline.
 func TestRandomLines(t *testing.T) {
 	r := rand.New(rand.NewPCG(1, 2))
-	pool := []string{"a", "b c", ""}
+	pool := []string{"a", "b c", " "}
 	open := 0
 	const n = 4000
 	for range n {
