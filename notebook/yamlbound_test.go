@@ -92,3 +92,23 @@ func TestAliasBombIsAnEntryProblem(t *testing.T) {
 		t.Error("the entry was loaded")
 	}
 }
+
+// TestDecodeFrontMatter: the exported decoder keeps the loader's bounds.
+func TestDecodeFrontMatter(t *testing.T) {
+	n, err := DecodeFrontMatter([]byte("id: X\nwidth: 100 um\n"))
+	if err != nil || n == nil || n.Kind != yaml.MappingNode || len(n.Content) != 4 || n.Content[3].Value != "100 um" {
+		t.Errorf("plain front matter: %v, %v", n, err)
+	}
+	if n, err := DecodeFrontMatter([]byte("# only a comment\n")); n != nil || err != nil {
+		t.Errorf("no content: %v, %v; want nil, nil", n, err)
+	}
+	for name, text := range map[string]string{
+		"alias loop": "x: &a [1, *a]\n",
+		"not UTF-8":  "x: \xff\n",
+		"syntax":     "x: [unclosed\n",
+	} {
+		if n, err := DecodeFrontMatter([]byte(text)); err == nil {
+			t.Errorf("%s: decoded to %v, want an error", name, n)
+		}
+	}
+}
